@@ -1,0 +1,421 @@
+"""The calculation sequence: validated model → :class:`~calcreport.trace.Trace`.
+
+In order: site (barometric pressure), liquid properties, then for each
+operating case the hydraulics of every pipe (velocity, Reynolds number,
+friction factor, friction and minor losses), the system heads and TDH, the
+NPSH available and the power chain; then the system curve over the flow
+range, the design checks and the results.
+
+The hydraulics of a case are written once, in :func:`_hydraulics`, and run
+by two evaluators: :class:`~calcreport.trace.TraceBuilder` records each step
+at the case's flow, :class:`_Sweep` evaluates the same equations on an
+array of flows for the system curve. The curve therefore passes exactly
+through the recorded duty point.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from calcreport import __version__, catalog, checks
+from calcreport.model.schema import Given, Model, Pipe, Vessel
+from calcreport.physics import atmosphere, friction, head, losses, power, water
+from calcreport.trace import Trace, TraceBuilder, quantity
+
+__all__ = ["solve"]
+
+CURVE_POINTS = 41
+
+
+@dataclass(frozen=True)
+class Liquid:
+    """Liquid properties as trace values (value, unit, source)."""
+
+    density: Given
+    viscosity: Given
+    vapor_pressure: Given
+
+
+@dataclass(frozen=True)
+class Case:
+    """An operating case: its id, description and what it varies."""
+
+    id: str
+    title: str
+    flow: Given
+    source_level: Given
+    npsh_level: Given
+    destination_level: Given
+
+    def sid(self, step: str) -> str:
+        """Step id within this case (the design case C1 has plain ids)."""
+        return step if self.id == "C1" else f"{self.id}.{step}"
+
+
+class _Sweep:
+    """Evaluates the equations on arrays without recording steps."""
+
+    def step(self, step_id: str, title: str, func: Any, case: str = "", **args: Any) -> Given:
+        values = {
+            name: [a.value for a in arg] if isinstance(arg, list) else arg.value
+            for name, arg in args.items()
+        }
+        if func is friction.colebrook:
+            func = _friction_factor_array
+        return Given(func(**values), "", step_id)
+
+
+def _friction_factor_array(Re: Any, eD: Any) -> Any:
+    Re = np.maximum(Re, 1e-12)
+    laminar = Re < friction.LAMINAR_LIMIT
+    f = np.where(laminar, 64.0 / Re, 0.0)
+    if np.any(~laminar):
+        f[~laminar] = friction.colebrook(Re[~laminar], np.broadcast_to(eD, Re.shape)[~laminar])
+    return f
+
+
+def solve(model: Model) -> Trace:
+    """Solve the pump system of ``model`` and return its trace."""
+    b = TraceBuilder()
+    _record_inputs(b, model)
+    b.assume("Velocity at the source and destination liquid surfaces is zero (large vessels).")
+    b.assume("Flow is steady, incompressible and isothermal; pipes run full.")
+    p_baro = _barometric(b, model)
+    liquid = _liquid(b, model, p_baro)
+
+    design = Case(
+        id="C1",
+        title="Design: normal levels, new pipe, design flow",
+        flow=model.flow,
+        source_level=model.source.level,
+        npsh_level=model.source.level_low or model.source.level,
+        destination_level=_destination_elevation(model, model.destination.level),
+    )
+    if model.source.level_low:
+        b.assume("NPSH available is taken at the lowest source level, source.level_low.")
+    exit_head = _exit_head(b, model)
+    p_source = _surface_pressure(b, model.source, liquid, p_baro)
+    p_dest = _surface_pressure(b, model.destination, liquid, p_baro)
+    eta_drive = (
+        model.drive_efficiency
+        if model.drive_efficiency
+        else b.assume("No variable-speed drive: drive efficiency 1.", 1.0, "")
+    )
+
+    notes: list[str] = []
+    surfaces = (p_baro, p_source, p_dest, exit_head)
+    hydraulics = _hydraulics(b, model, design, liquid, surfaces)
+    results = _results(hydraulics, liquid, p_baro, model)
+    results.update(_power(b, model, design, liquid, hydraulics, eta_drive, notes))
+
+    low, high = _flow_span(model)
+    flows = np.linspace(low, high, CURVE_POINTS)
+    sweep = _hydraulics(
+        _Sweep(), model, design, liquid, surfaces,
+        flow=Given(flows, "m^3/s", "flow_range"),  # type: ignore[arg-type]
+    )
+    curve = {
+        "flow": quantity(flows.tolist(), "m^3/s"),
+        "head": quantity(np.asarray(sweep["tdh"].value).tolist(), "m"),
+        "npsh_available": quantity(np.asarray(sweep["npsh_available"].value).tolist(), "m"),
+    }
+    results["system_curve"] = curve
+    results["cases"] = {design.id: {k: v for k, v in results.items() if k != "cases"}}
+
+    found = checks.evaluate(model, results, design.id)
+    status = {
+        "value": "preliminary",
+        "reason": "pump not selected: no pump curve is given, so the operating point, "
+        "NPSH required and motor rating are not determined",
+    }
+    if "shaft_power" not in results:
+        notes.append("Shaft power is not computed: pump.efficiency is not given.")
+    if "electrical_power" not in results and "shaft_power" in results:
+        notes.append("Electrical power is not computed: motor.efficiency is not given.")
+    used = {s.reference for s in b.steps} | {c.reference for c in found} | {"input"}
+    references = {k: v for k, v in catalog.references().items() if k in used}
+    return Trace(
+        input={"path": model.path, "sha256": model.sha256},
+        project={
+            "title": model.project.title,
+            "client": model.project.client,
+            "calc_id": model.project.calc_id,
+            "revision": model.project.revision,
+            "date": model.project.date,
+            "prepared_by": model.project.prepared_by,
+            "checked_by": model.project.checked_by,
+            "units": model.project.units,
+        },
+        status=status,
+        steps=b.steps,
+        results=results,
+        checks=found,
+        references=dict(sorted(references.items())),
+        assumptions=b.assumptions,
+        notes=notes,
+        given=b.given,
+        cases=[{"id": design.id, "title": design.title}],
+        software={"name": "calcreport", "version": __version__},
+    )
+
+
+def _record_inputs(b: TraceBuilder, model: Model) -> None:
+    def walk(obj: Any) -> None:
+        if isinstance(obj, Given):
+            b.input(obj)
+        elif isinstance(obj, tuple | list):
+            for item in obj:
+                walk(item)
+        elif isinstance(obj, dict):
+            for item in obj.values():
+                walk(item)
+        elif hasattr(obj, "__dataclass_fields__"):
+            for name in obj.__dataclass_fields__:
+                walk(getattr(obj, name))
+
+    for name in Model.__dataclass_fields__:
+        if name not in ("path", "sha256", "text"):
+            walk(getattr(model, name))
+
+
+def _barometric(b: TraceBuilder, model: Model) -> Given:
+    if model.site.station_pressure:
+        return model.site.station_pressure
+    elevation = model.site.elevation or b.assume(
+        "Site elevation not given: the source surface is taken at sea level.", 0.0, "m"
+    )
+    return b.step("site.barometric_pressure", "Barometric pressure at the site",
+                  atmosphere.pressure, z=elevation)
+
+
+def _liquid(b: TraceBuilder, model: Model, p_baro: Given) -> Liquid:
+    fluid = model.fluid
+    if fluid.kind == "custom":
+        assert fluid.density and fluid.viscosity and fluid.vapor_pressure
+        return Liquid(fluid.density, fluid.viscosity, fluid.vapor_pressure)
+    T = fluid.temperature
+    p_v = b.step("fluid.vapor_pressure", "Vapour pressure of water", water.saturation_pressure,
+                 T=T)
+    if model.source.saturation:
+        p = p_v
+    else:
+        assert model.source.pressure is not None
+        p = b.step("fluid.pressure", "Absolute pressure on the source surface",
+                   head.absolute_pressure, p_baro=p_baro, p_g=model.source.pressure)
+    rho = b.step("fluid.density", "Density of water", water.density, T=T, p=p)
+    mu = b.step("fluid.viscosity", "Dynamic viscosity of water", water.viscosity, T=T, rho=rho)
+    b.assume("Liquid properties are those at the source surface pressure and the stated "
+             "temperature throughout the system.")
+    return Liquid(rho, mu, p_v)
+
+
+def _destination_elevation(model: Model, level: Given) -> Given:
+    dest = model.destination
+    return dest.outlet_elevation if dest.inlet == "free" and dest.outlet_elevation else level
+
+
+def _exit_head(b: TraceBuilder, model: Model) -> Given | None:
+    """None for a free discharge (the velocity head is computed per case)."""
+    if model.destination.inlet == "free":
+        return None
+    return b.assume("Submerged inlet: the exit loss is a fitting item (K = 1); no outlet "
+                    "velocity head is added.", 0.0, "m")
+
+
+def _surface_pressure(b: TraceBuilder, vessel: Vessel, liquid: Liquid, p_baro: Given) -> Given:
+    if vessel.saturation:
+        return b.step(f"{vessel.role}.pressure",
+                      f"Gauge pressure on the boiling {vessel.role} surface",
+                      head.saturation_gauge_pressure, p_v=liquid.vapor_pressure, p_baro=p_baro)
+    assert vessel.pressure is not None
+    return vessel.pressure
+
+
+def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[str, Given]:
+    sid = case.sid
+    name = f"pipe.{pipe.id}"
+    D = pipe.inner_diameter
+    v = ev.step(sid(f"{name}.velocity"), f"Mean velocity in {pipe.id}", losses.velocity,
+                case.id, Q=flow, D=D)
+    Re = ev.step(sid(f"{name}.reynolds"), f"Reynolds number in {pipe.id}", friction.reynolds,
+                 case.id, rho=liquid.density, v=v, D=D, mu=liquid.viscosity)
+    eD = ev.step(sid(f"{name}.relative_roughness"), f"Relative roughness of {pipe.id}",
+                 friction.relative_roughness, case.id, roughness=pipe.roughness, D=D)
+    out = {"velocity": v, "reynolds": Re, "relative_roughness": eD}
+    title = f"Darcy friction factor in {pipe.id}"
+    if isinstance(ev, TraceBuilder) and Re.value < friction.LAMINAR_LIMIT:
+        f = ev.step(sid(f"{name}.friction_factor"), title + " (laminar)", friction.laminar,
+                    case.id, Re=Re)
+    else:
+        if isinstance(ev, TraceBuilder):
+            out["friction_factor_explicit"] = ev.step(
+                sid(f"{name}.friction_factor_explicit"),
+                f"Explicit friction factor in {pipe.id} (cross-check)",
+                friction.swamee_jain, case.id, Re=Re, eD=eD)
+        f = ev.step(sid(f"{name}.friction_factor"), title + " (Colebrook)", friction.colebrook,
+                    case.id, Re=Re, eD=eD)
+    out["friction_factor"] = f
+    out["friction_loss"] = ev.step(sid(f"{name}.friction_loss"),
+                                   f"Friction loss in {pipe.id} (Darcy-Weisbach)",
+                                   losses.darcy_weisbach, case.id, f=f, L=pipe.length, D=D, v=v)
+    coefficients = [ft for ft in pipe.fittings if ft.K is not None]
+    K = ev.step(sid(f"{name}.k_total"), f"Sum of fitting coefficients of {pipe.id}",
+                losses.k_total, case.id,
+                K=[ft.K for ft in coefficients],
+                count=[Given(ft.count, "", ft.key + ".count") for ft in coefficients])
+    out["k_total"] = K
+    out["fitting_loss"] = ev.step(sid(f"{name}.fitting_loss"), f"Fitting losses in {pipe.id}",
+                                  losses.minor_loss, case.id, K_total=K, v=v)
+    rated = [
+        ev.step(sid(f"{name}.equipment[{i}]"), f"Loss of {ft.label} in {pipe.id}",
+                losses.rated_loss, case.id, dp=ft.dp, Q=flow, Q_rated=ft.at_flow,
+                rho=liquid.density)
+        for i, ft in enumerate(pipe.fittings, start=1)
+        if ft.dp is not None
+    ]
+    if rated:
+        out["equipment_loss"] = ev.step(sid(f"{name}.equipment_loss"),
+                                        f"Equipment losses in {pipe.id}", losses.head_sum,
+                                        case.id, h=rated)
+        out["minor_loss"] = ev.step(sid(f"{name}.minor_loss"),
+                                    f"Minor losses in {pipe.id} (fittings and equipment)",
+                                    losses.head_sum, case.id,
+                                    h=[out["fitting_loss"], out["equipment_loss"]])
+    else:
+        out["minor_loss"] = out["fitting_loss"]
+    return out
+
+
+def _hydraulics(
+    ev: Any,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    flow: Given | None = None,
+) -> dict[str, Any]:
+    """Pipes, heads, TDH and NPSHa of one case at ``flow`` (default: the case's).
+
+    ``surfaces`` holds the barometric pressure, the gauge pressures on the
+    source and destination surfaces and the outlet velocity head (None for
+    a free discharge, whose velocity head depends on the flow).
+    """
+    p_baro, p_source, p_dest, exit_head = surfaces
+    Q = flow or case.flow
+    sid = case.sid
+    pipes = {p.id: _pipe(ev, case, p, Q, liquid) for p in model.pipes}
+    out: dict[str, Any] = {"pipes": pipes}
+    out["static_head"] = ev.step(sid("system.static_head"), "Static head", head.static_head,
+                                 case.id, z_d=case.destination_level, z_s=case.source_level)
+    out["pressure_head"] = ev.step(sid("system.pressure_head"), "Pressure head",
+                                   head.pressure_head, case.id, p_d=p_dest, p_s=p_source,
+                                   rho=liquid.density)
+    out["friction_loss"] = ev.step(sid("system.friction_loss"), "Friction loss of all pipes",
+                                   losses.head_sum, case.id,
+                                   h=[p["friction_loss"] for p in pipes.values()])
+    out["minor_loss"] = ev.step(sid("system.minor_loss"),
+                                "Minor and equipment losses of all pipes", losses.head_sum,
+                                case.id, h=[p["minor_loss"] for p in pipes.values()])
+    if exit_head is None:
+        last = model.pipes[-1]
+        exit_head = ev.step(sid("system.outlet_velocity_head"),
+                            f"Velocity head leaving the free discharge of {last.id}",
+                            losses.velocity_head, case.id, v=pipes[last.id]["velocity"])
+    out["outlet_velocity_head"] = exit_head
+    out["tdh"] = ev.step(sid("system.total_dynamic_head"), "Total dynamic head",
+                         head.total_dynamic_head, case.id, H_s=out["static_head"],
+                         H_p=out["pressure_head"], h_f=out["friction_loss"],
+                         h_m=out["minor_loss"], h_v_out=exit_head)
+    suction = [pipes[p.id][key] for p in model.suction_pipes
+               for key in ("friction_loss", "minor_loss")]
+    out["suction_loss"] = ev.step(sid("npsh.suction_loss"), "Head loss of the suction side",
+                                  losses.head_sum, case.id, h=suction)
+    out["npsh_available"] = ev.step(sid("npsh.available"), "NPSH available",
+                                    head.npsh_available, case.id, p_baro=p_baro, p_s=p_source,
+                                    rho=liquid.density, z_s=case.npsh_level,
+                                    z_p=model.pump.elevation, h_L=out["suction_loss"],
+                                    p_v=liquid.vapor_pressure)
+    return out
+
+
+def _power(
+    b: TraceBuilder,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    hydraulics: dict[str, Any],
+    eta_drive: Given,
+    notes: list[str],
+) -> dict[str, Any]:
+    sid = case.sid
+    out: dict[str, Any] = {}
+    P_h = b.step(sid("power.hydraulic"), "Hydraulic power", power.hydraulic_power, case.id,
+                 rho=liquid.density, Q=case.flow, H=hydraulics["tdh"])
+    out["hydraulic_power"] = _q(P_h)
+    if model.pump.efficiency is None:
+        return out
+    P_s = b.step(sid("power.shaft"), "Shaft power", power.shaft_power, case.id, P_h=P_h,
+                 eta_p=model.pump.efficiency)
+    out["shaft_power"] = _q(P_s)
+    if model.motor_efficiency is None:
+        return out
+    P_e = b.step(sid("power.electrical"), "Electrical input power", power.electrical_power,
+                 case.id, P_s=P_s, eta_m=model.motor_efficiency, eta_d=eta_drive)
+    out["electrical_power"] = _q(P_e)
+    op = model.operation
+    if op.hours_per_year is None:
+        notes.append("Annual energy is not computed: operation.hours_per_year is not given.")
+        return out
+    hours = b.step(sid("energy.operating_time"), "Operating time per year",
+                   power.hours_to_seconds, case.id, hours=op.hours_per_year)
+    E = b.step(sid("energy.annual"), "Annual energy", power.annual_energy, case.id, P_e=P_e,
+               t=hours)
+    energy = {"annual_energy": _q(E)}
+    if op.energy_price is not None:
+        C = b.step(sid("energy.annual_cost"), "Annual energy cost", power.annual_cost, case.id,
+                   E=E, price=op.energy_price)
+        energy["annual_cost"] = quantity(C.value, op.currency)
+    out["energy"] = energy
+    return out
+
+
+def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model) -> dict[str, Any]:
+    pipes = {}
+    for pipe in model.pipes:
+        values = h["pipes"][pipe.id]
+        entry = {"inner_diameter": _q(pipe.inner_diameter), "length": _q(pipe.length),
+                 "roughness": _q(pipe.roughness), "side": pipe.side,
+                 "regime": friction.flow_regime(values["reynolds"].value)}
+        entry.update({key: _q(value) for key, value in values.items()})
+        pipes[pipe.id] = entry
+    return {
+        "flow": _q(model.flow),
+        "static_head": _q(h["static_head"]),
+        "pressure_head": _q(h["pressure_head"]),
+        "friction_loss": _q(h["friction_loss"]),
+        "minor_loss": _q(h["minor_loss"]),
+        "outlet_velocity_head": _q(h["outlet_velocity_head"]),
+        "total_dynamic_head": _q(h["tdh"]),
+        "suction_loss": _q(h["suction_loss"]),
+        "npsh_available": _q(h["npsh_available"]),
+        "barometric_pressure": _q(p_baro),
+        "fluid": {
+            "density": _q(liquid.density),
+            "viscosity": _q(liquid.viscosity),
+            "vapor_pressure": _q(liquid.vapor_pressure),
+        },
+        "pipes": pipes,
+    }
+
+
+def _flow_span(model: Model) -> tuple[float, float]:
+    if model.flow_range:
+        return model.flow_range[0].value, model.flow_range[1].value
+    return 0.0, 1.5 * model.flow.value
+
+
+def _q(given: Given) -> dict[str, Any]:
+    return quantity(float(given.value), given.unit)

@@ -1,0 +1,170 @@
+"""The command line: ``calcreport new | check | solve``.
+
+Exit status: 0 success, 2 bad input or usage, 1 internal failure. Only this
+module prints and exits; everything below it raises.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from collections.abc import Sequence
+from pathlib import Path
+from typing import Any
+
+from calcreport import __version__
+from calcreport.errors import CalcreportError, ConvergenceError, InputError
+
+__all__ = ["main"]
+
+EXIT_OK = 0
+EXIT_INTERNAL = 1
+EXIT_INPUT = 2
+
+STARTER = Path(__file__).with_name("templates") / "starter.toml"
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> None:  # type: ignore[override]
+        self.print_usage(sys.stderr)
+        sys.stderr.write(f"calcreport: error: {message}\n")
+        raise SystemExit(EXIT_INPUT)
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = _Parser(
+        prog="calcreport",
+        description="Pump-system calculations a reviewer can check: a TOML description of "
+        "the system in, a solved step-by-step trace (and PDF report) out.",
+    )
+    parser.add_argument("--version", action="version", version=f"calcreport {__version__}")
+    commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    commands.required = True
+
+    new = commands.add_parser("new", help="write a commented starter input file")
+    new.add_argument("path", nargs="?", default="pump-system.toml",
+                     help="file to write (default: pump-system.toml)")
+    new.add_argument("--force", action="store_true", help="overwrite an existing file")
+
+    check = commands.add_parser("check", help="validate an input file (exit 0 or 2)")
+    check.add_argument("input", help="the input TOML file")
+
+    solve = commands.add_parser("solve", help="solve and print a summary, or the trace JSON")
+    solve.add_argument("input", help="the input TOML file")
+    solve.add_argument("--json", action="store_true",
+                       help="print the trace JSON (format calcreport-trace/1) instead")
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; returns the exit status."""
+    args = _parser().parse_args(argv)
+    try:
+        return int(_COMMANDS[args.command](args))
+    except InputError as exc:
+        sys.stderr.write(f"{exc}\n")
+        return EXIT_INPUT
+    except ConvergenceError as exc:
+        sys.stderr.write(f"calcreport: {exc}\n")
+        return EXIT_INTERNAL
+    except CalcreportError as exc:
+        sys.stderr.write(f"calcreport: {exc}\n")
+        return EXIT_INPUT
+
+
+def _new(args: argparse.Namespace) -> int:
+    target = Path(args.path)
+    if target.exists() and not args.force:
+        sys.stderr.write(f"calcreport: {target} exists; choose another name or use --force\n")
+        return EXIT_INPUT
+    target.write_text(STARTER.read_text(encoding="utf-8"), encoding="utf-8")
+    print(f"wrote {target}: edit it, then run `calcreport solve {target}`")
+    return EXIT_OK
+
+
+def _check(args: argparse.Namespace) -> int:
+    from calcreport.model.loader import load
+
+    model = load(args.input)
+    print(f"{args.input}: valid ({len(model.pipes)} pipes)")
+    return EXIT_OK
+
+
+def _solve(args: argparse.Namespace) -> int:
+    from calcreport.calc import solve
+    from calcreport.model.loader import load
+
+    trace = solve(load(args.input))
+    if args.json:
+        sys.stdout.write(trace.dumps())
+    else:
+        sys.stdout.write(summary(trace.to_json()))
+    return EXIT_OK
+
+
+_COMMANDS = {"new": _new, "check": _check, "solve": _solve}
+
+# Result key → (label, kind of quantity for display).
+_SUMMARY_ROWS = (
+    ("flow", "Flow", "flow"),
+    ("static_head", "Static head", "length"),
+    ("pressure_head", "Pressure head", "length"),
+    ("friction_loss", "Friction loss", "length"),
+    ("minor_loss", "Minor and equipment losses", "length"),
+    ("outlet_velocity_head", "Outlet velocity head", "length"),
+    ("total_dynamic_head", "Total dynamic head (TDH)", "length"),
+    ("npsh_available", "NPSH available", "length"),
+    ("barometric_pressure", "Barometric pressure (absolute)", "pressure"),
+    ("hydraulic_power", "Hydraulic power", "power"),
+    ("shaft_power", "Shaft power", "power"),
+    ("electrical_power", "Electrical input power", "power"),
+)
+
+
+def summary(trace: dict[str, Any]) -> str:
+    """A readable summary of a trace in the report's unit system."""
+    from calcreport.trace import fmt, pretty_unit
+    from calcreport.units import display_unit, to_display
+
+    system = trace["project"]["units"]
+    results = trace["results"]
+
+    def show(q: dict[str, Any], kind: str) -> str:
+        unit = display_unit(kind, system)
+        return f"{fmt(to_display(q['value'], q['unit'], unit), 4)} {pretty_unit(unit)}"
+
+    lines = [trace["project"]["title"], ""]
+    width = max(len(label) for _, label, _ in _SUMMARY_ROWS) + 2
+    for key, label, kind in _SUMMARY_ROWS:
+        if key in results:
+            lines.append(f"  {label:<{width}}{show(results[key], kind)}")
+    energy = results.get("energy", {})
+    if "annual_energy" in energy:
+        lines.append(f"  {'Annual energy':<{width}}{show(energy['annual_energy'], 'energy')}")
+    if "annual_cost" in energy:
+        cost = energy["annual_cost"]
+        lines.append(f"  {'Annual energy cost':<{width}}{cost['value']:,.0f} {cost['unit']}")
+    lines += ["", "  Pipes:"]
+    header = f"    {'id':<8}{'v':>10}{'Re':>10}{'f':>9}{'ΣK':>8}{'h_f':>10}{'h_m':>10}"
+    lines.append(header)
+    vel, length = display_unit("velocity", system), display_unit("length", system)
+    for ident, p in results["pipes"].items():
+        lines.append(
+            f"    {ident:<8}"
+            f"{fmt(to_display(p['velocity']['value'], 'm/s', vel), 3):>10}"
+            f"{p['reynolds']['value']:>10.3g}"
+            f"{p['friction_factor']['value']:>9.4f}"
+            f"{p['k_total']['value']:>8.3g}"
+            f"{fmt(to_display(p['friction_loss']['value'], 'm', length), 3):>10}"
+            f"{fmt(to_display(p['minor_loss']['value'], 'm', length), 3):>10}"
+        )
+    lines.append(f"    (v in {pretty_unit(vel)}, heads in {length})")
+    lines += ["", "  Checks:"]
+    for check in trace["checks"]:
+        message = f" — {check['message']}" if check["message"] else ""
+        lines.append(f"    [{check['status']:<6}] {check['title']} ({check['case']}){message}")
+    for note in trace["notes"]:
+        lines.append(f"  Note: {note}")
+    status = trace["status"]
+    lines += ["", f"  Status: {status['value']} — {status['reason']}", ""]
+    return "\n".join(lines)

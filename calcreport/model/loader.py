@@ -1,0 +1,564 @@
+"""TOML input → validated :class:`~calcreport.model.schema.Model`.
+
+Loading reads the whole file and reports every problem at once in one
+:class:`~calcreport.errors.InputError`: each problem names its key path
+(``pipe[2].length``: the second ``[[pipe]]`` table) and, where it can be
+found, its line in the file. Keys are checked against the format, with a
+suggestion for a misspelt one; quantities against the kind their key
+expects; values against what is physically meaningful. A last pass checks
+what needs physics: the liquid must not boil at the pressure on an open
+surface, and a vacuum cannot go below absolute zero pressure.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import difflib
+import hashlib
+import math
+import re
+import tomllib
+from pathlib import Path
+from typing import Any
+
+from calcreport import catalog
+from calcreport.errors import InputError, Problem
+from calcreport.model.schema import (
+    Criteria,
+    Fitting,
+    Fluid,
+    Given,
+    Model,
+    Operation,
+    Pipe,
+    Project,
+    Pump,
+    Site,
+    Vessel,
+)
+from calcreport.units import KINDS, UnitProblem, expected, parse
+
+__all__ = ["load", "loads"]
+
+FORMAT = 1
+FLUID_KINDS = ("water", "custom")
+PLANNED_FLUIDS = ("ethylene_glycol", "propylene_glycol")
+SIDES = ("suction", "discharge")
+INLETS = ("submerged", "free")
+UNIT_SYSTEMS = ("SI", "US")
+
+# Water is handled by IAPWS-IF97 region 1 from the triple point to 350 degC.
+WATER_T_MIN = 273.16
+WATER_T_MAX = 623.15
+
+_TOP_KEYS = {
+    "format", "project", "fluid", "duty", "site", "source", "destination", "pump",
+    "motor", "drive", "operation", "pipe", "criteria",
+}
+_PROJECT_KEYS = {
+    "title", "client", "calc_id", "revision", "date", "prepared_by", "checked_by", "units",
+}
+_FLUID_KEYS = {"kind", "temperature", "mass_fraction", "density", "viscosity",
+               "vapor_pressure", "name"}
+_VESSEL_KEYS = {"level", "level_low", "level_high", "pressure"}
+_DESTINATION_KEYS = _VESSEL_KEYS | {"inlet", "outlet_elevation"}
+_PIPE_KEYS = {
+    "id", "side", "length", "inner_diameter", "roughness", "fittings",
+    "elevation_start", "elevation_end", "nominal_size", "schedule", "material",
+}
+_FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow"}
+
+
+class _Lines:
+    """Where each key path stands in the TOML text (best effort)."""
+
+    _HEADER = re.compile(r"^\s*(\[\[?)\s*([A-Za-z0-9_.\-]+)\s*\]\]?")
+    _KEY = re.compile(r"^\s*([A-Za-z0-9_\-]+)\s*=")
+
+    def __init__(self, text: str) -> None:
+        self.at: dict[str, int] = {}
+        counts: dict[str, int] = {}
+        table = ""
+        open_array: str | None = None
+        element = 0
+        for number, line in enumerate(text.splitlines(), start=1):
+            code = line.split("#", 1)[0]
+            header = self._HEADER.match(code)
+            if header:
+                name = header.group(2)
+                if header.group(1) == "[[":
+                    counts[name] = counts.get(name, 0) + 1
+                    table = f"{name}[{counts[name]}]"
+                else:
+                    parent, _, leaf = name.rpartition(".")
+                    table = f"{self._resolve(parent, counts)}.{leaf}" if parent else name
+                self.at.setdefault(table, number)
+                open_array = None
+                continue
+            key = self._KEY.match(code)
+            if key and open_array is None:
+                path = f"{table}.{key.group(1)}" if table else key.group(1)
+                self.at.setdefault(path, number)
+                rest = code[key.end():]
+                if rest.count("[") > rest.count("]"):
+                    open_array, element = path, 0
+                elif "{" in rest:
+                    for _ in range(rest.count("{")):
+                        element += 1
+                        self.at.setdefault(f"{path}[{element}]", number)
+                    element = 0
+                continue
+            if open_array is not None:
+                for _ in range(code.count("{")):
+                    element += 1
+                    self.at.setdefault(f"{open_array}[{element}]", number)
+                if "]" in code and code.count("]") > code.count("["):
+                    open_array = None
+
+    @staticmethod
+    def _resolve(name: str, counts: dict[str, int]) -> str:
+        return f"{name}[{counts[name]}]" if name in counts else name
+
+    def line(self, path: str) -> int | None:
+        while path:
+            if path in self.at:
+                return self.at[path]
+            cut = max(path.rfind("."), path.rfind("["))
+            path = path[:cut] if cut > 0 else ""
+        return None
+
+
+class _Reader:
+    """Reads values from parsed TOML, collecting every problem found."""
+
+    def __init__(self, lines: _Lines) -> None:
+        self.lines = lines
+        self.problems: list[Problem] = []
+
+    def problem(self, key: str, message: str) -> None:
+        self.problems.append(Problem(key, message, self.lines.line(key)))
+
+    def table(self, data: dict[str, Any], key: str, path: str, required: bool) -> dict[str, Any]:
+        value = data.get(key)
+        if value is None:
+            if required:
+                self.problem(path, f"the table [{path}] is required but missing")
+            return {}
+        if not isinstance(value, dict):
+            self.problem(path, f"expected a table [{path}], got {_type(value)}")
+            return {}
+        return value
+
+    def known_keys(self, data: dict[str, Any], path: str, allowed: set[str]) -> None:
+        for key in data:
+            if key in allowed:
+                continue
+            where = f"{path}.{key}" if path else key
+            close = difflib.get_close_matches(key, sorted(allowed), n=1, cutoff=0.6)
+            hint = f'; did you mean "{close[0]}"?' if close else ""
+            self.problem(where, f'unknown key "{key}"{hint} (known: {", ".join(sorted(allowed))})')
+
+    def quantity(
+        self,
+        data: dict[str, Any],
+        key: str,
+        path: str,
+        kind: str,
+        *,
+        required: bool = False,
+        positive: bool = False,
+        fraction: bool = False,
+    ) -> Given | None:
+        where = f"{path}.{key}"
+        if key not in data:
+            if required:
+                self.problem(where, f"required key is missing; give {expected(kind)}")
+            return None
+        try:
+            value = parse(data[key], kind)
+        except UnitProblem as exc:
+            self.problem(where, f"{exc}")
+            return None
+        if positive and value <= 0.0:
+            self.problem(where, f"must be greater than zero, got {data[key]!r}")
+            return None
+        if fraction and not 0.0 < value <= 1.0:
+            self.problem(where, f"must be a fraction in (0, 1], got {data[key]!r}")
+            return None
+        return Given(value, KINDS[kind].si, where)
+
+    def text(
+        self,
+        data: dict[str, Any],
+        key: str,
+        path: str,
+        default: str,
+        choices: tuple[str, ...] | None = None,
+    ) -> str:
+        where = f"{path}.{key}"
+        value = data.get(key, default)
+        if isinstance(value, dt.date):
+            value = value.isoformat()
+        if not isinstance(value, str):
+            self.problem(where, f"expected text, got {_type(value)} {value!r}")
+            return default
+        if choices is not None and value not in choices:
+            close = difflib.get_close_matches(value, choices, n=1, cutoff=0.5)
+            hint = f'; did you mean "{close[0]}"?' if close else ""
+            self.problem(where, f'"{value}" is not one of {", ".join(choices)}{hint}')
+            return default
+        return value
+
+
+def load(path: str | Path) -> Model:
+    """Read and validate the input file at ``path``."""
+    file = Path(path)
+    try:
+        raw = file.read_bytes()
+    except OSError as exc:
+        raise InputError([Problem("<file>", f"cannot read the input file: {exc.strerror}")],
+                         str(path)) from exc
+    return loads(raw, str(path))
+
+
+def loads(raw: bytes, path: str = "<input>") -> Model:
+    """Validate the bytes of an input file; ``path`` names it in messages."""
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise InputError(
+            [Problem("<file>", f"the file is not UTF-8 text (byte {exc.start})")], path
+        ) from exc
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        found = re.search(r"line (\d+)", str(exc))
+        line = int(found.group(1)) if found else None
+        raise InputError([Problem("<toml>", f"not valid TOML: {exc}", line)], path) from exc
+    reader = _Reader(_Lines(text))
+    model = _build(reader, data, text, hashlib.sha256(raw).hexdigest(), path)
+    if reader.problems:
+        raise InputError(reader.problems, path)
+    assert model is not None
+    _physical_checks(reader, model)
+    if reader.problems:
+        raise InputError(reader.problems, path)
+    return model
+
+
+def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> Model | None:
+    r.known_keys(data, "", _TOP_KEYS)
+    fmt = data.get("format", FORMAT)
+    if fmt != FORMAT:
+        r.problem("format", f"this version reads input format {FORMAT}, got {fmt!r}")
+
+    project = _project(r, r.table(data, "project", "project", required=False))
+    fluid = _fluid(r, r.table(data, "fluid", "fluid", required=True))
+
+    duty = r.table(data, "duty", "duty", required=True)
+    r.known_keys(duty, "duty", {"flow", "flow_range"})
+    flow = r.quantity(duty, "flow", "duty", "flow", required=True, positive=True)
+    flow_range = _flow_range(r, duty, flow)
+
+    site_data = r.table(data, "site", "site", required=False)
+    r.known_keys(site_data, "site", {"elevation", "station_pressure"})
+    site = Site(
+        elevation=r.quantity(site_data, "elevation", "site", "length"),
+        station_pressure=r.quantity(site_data, "station_pressure", "site", "pressure",
+                                    positive=True),
+    )
+    if site.elevation and site.station_pressure:
+        r.problem("site.station_pressure",
+                  "give either site.elevation or site.station_pressure, not both")
+
+    source = _vessel(r, r.table(data, "source", "source", required=True), "source")
+    destination = _vessel(r, r.table(data, "destination", "destination", required=True),
+                          "destination")
+
+    pump_data = r.table(data, "pump", "pump", required=True)
+    r.known_keys(pump_data, "pump", {"elevation", "efficiency"})
+    pump_elevation = r.quantity(pump_data, "elevation", "pump", "length", required=True)
+    pump = Pump(
+        elevation=pump_elevation,  # type: ignore[arg-type]
+        efficiency=r.quantity(pump_data, "efficiency", "pump", "dimensionless", fraction=True),
+    )
+    motor = r.table(data, "motor", "motor", required=False)
+    r.known_keys(motor, "motor", {"efficiency"})
+    drive = r.table(data, "drive", "drive", required=False)
+    r.known_keys(drive, "drive", {"efficiency"})
+
+    operation = _operation(r, r.table(data, "operation", "operation", required=False))
+    pipes = _pipes(r, data.get("pipe"))
+    criteria = _criteria(r, r.table(data, "criteria", "criteria", required=False))
+
+    motor_efficiency = r.quantity(motor, "efficiency", "motor", "dimensionless", fraction=True)
+    drive_efficiency = r.quantity(drive, "efficiency", "drive", "dimensionless", fraction=True)
+    if r.problems or None in (fluid, flow, source, destination, pump_elevation):
+        return None
+    return Model(
+        path=path,
+        sha256=sha,
+        text=text,
+        project=project,
+        fluid=fluid,  # type: ignore[arg-type]
+        flow=flow,  # type: ignore[arg-type]
+        flow_range=flow_range,
+        site=site,
+        source=source,  # type: ignore[arg-type]
+        destination=destination,  # type: ignore[arg-type]
+        pump=pump,
+        motor_efficiency=motor_efficiency,
+        drive_efficiency=drive_efficiency,
+        operation=operation,
+        pipes=pipes,
+        criteria=criteria,
+    )
+
+
+def _project(r: _Reader, data: dict[str, Any]) -> Project:
+    r.known_keys(data, "project", _PROJECT_KEYS)
+    defaults = Project()
+    values = {key: r.text(data, key, "project", getattr(defaults, key))
+              for key in _PROJECT_KEYS if key != "units"}
+    units = r.text(data, "units", "project", "SI", UNIT_SYSTEMS)
+    return Project(units=units, **values)
+
+
+def _fluid(r: _Reader, data: dict[str, Any]) -> Fluid | None:
+    if not data:
+        return None
+    r.known_keys(data, "fluid", _FLUID_KEYS)
+    kind = data.get("kind", "water")
+    if kind in PLANNED_FLUIDS:
+        r.problem("fluid.kind", f'"{kind}" is not available in this version; use "water", '
+                  'or "custom" with density, viscosity and vapor_pressure')
+        return None
+    kind = r.text(data, "kind", "fluid", "water", FLUID_KINDS)
+    temperature = r.quantity(data, "temperature", "fluid", "temperature", required=True)
+    if temperature and kind == "water" and not WATER_T_MIN <= temperature.value <= WATER_T_MAX:
+        r.problem("fluid.temperature",
+                  f"liquid water is computed from 0.01 degC to 350 degC; got {data['temperature']!r}")
+    custom = {
+        key: r.quantity(data, key, "fluid", kind_, required=(kind == "custom"), positive=True)
+        for key, kind_ in (("density", "density"), ("viscosity", "viscosity"),
+                           ("vapor_pressure", "pressure"))
+    }
+    if kind == "water":
+        for key in custom:
+            if key in data:
+                r.problem(f"fluid.{key}", 'water properties come from IAPWS; give fluid.'
+                          f'{key} only with kind = "custom"')
+    if "mass_fraction" in data:
+        r.problem("fluid.mass_fraction", "mass_fraction applies to glycol solutions, "
+                  "which are not available in this version")
+    if temperature is None:
+        return None
+    return Fluid(kind=kind, temperature=temperature, name=r.text(data, "name", "fluid", ""),
+                 **custom)
+
+
+def _flow_range(r: _Reader, duty: dict[str, Any], flow: Given | None) -> tuple[Given, Given] | None:
+    if "flow_range" not in duty:
+        return None
+    raw = duty["flow_range"]
+    if not isinstance(raw, list) or len(raw) != 2:
+        r.problem("duty.flow_range", 'expected two flows, such as ["0 L/s", "35 L/s"]')
+        return None
+    ends = []
+    for i, value in enumerate(raw):
+        try:
+            ends.append(Given(parse(value, "flow"), "m^3/s", f"duty.flow_range[{i + 1}]"))
+        except UnitProblem as exc:
+            r.problem(f"duty.flow_range[{i + 1}]", str(exc))
+    if len(ends) != 2:
+        return None
+    low, high = ends
+    if low.value < 0.0 or high.value <= low.value:
+        r.problem("duty.flow_range", "expected 0 <= first flow < second flow")
+        return None
+    if flow and not low.value <= flow.value <= high.value:
+        r.problem("duty.flow_range", "the range must contain duty.flow")
+        return None
+    return low, high
+
+
+def _vessel(r: _Reader, data: dict[str, Any], role: str) -> Vessel | None:
+    if not data:
+        return None
+    allowed = _DESTINATION_KEYS if role == "destination" else _VESSEL_KEYS
+    r.known_keys(data, role, allowed)
+    level = r.quantity(data, "level", role, "length", required=True)
+    low = r.quantity(data, "level_low", role, "length")
+    high = r.quantity(data, "level_high", role, "length")
+    if level and low and low.value > level.value:
+        r.problem(f"{role}.level_low", f"must not be above {role}.level")
+    if level and high and high.value < level.value:
+        r.problem(f"{role}.level_high", f"must not be below {role}.level")
+    saturation = data.get("pressure") == "saturation"
+    pressure = None
+    if not saturation:
+        pressure = r.quantity(data, "pressure", role, "pressure") or Given(
+            0.0, "Pa", f"{role}.pressure")
+    inlet = r.text(data, "inlet", role, "submerged", INLETS) if role == "destination" else ""
+    outlet = r.quantity(data, "outlet_elevation", role, "length") if role == "destination" else None
+    if inlet == "free" and outlet is None:
+        r.problem(f"{role}.outlet_elevation",
+                  'a free discharge (inlet = "free") needs the outlet centreline elevation')
+    if inlet == "submerged" and outlet is not None:
+        r.problem(f"{role}.outlet_elevation", 'applies only to inlet = "free"')
+    if level is None:
+        return None
+    return Vessel(role=role, level=level, level_low=low, level_high=high, pressure=pressure,
+                  saturation=saturation, inlet=inlet or "submerged", outlet_elevation=outlet)
+
+
+def _operation(r: _Reader, data: dict[str, Any]) -> Operation:
+    r.known_keys(data, "operation", {"hours_per_year", "energy_price", "currency"})
+    hours = r.quantity(data, "hours_per_year", "operation", "dimensionless", positive=True)
+    if hours and hours.value > 8784.0:
+        r.problem("operation.hours_per_year", "a year has at most 8784 hours")
+    price = r.quantity(data, "energy_price", "operation", "dimensionless")
+    if price and price.value < 0.0:
+        r.problem("operation.energy_price", "must not be negative")
+    currency = r.text(data, "currency", "operation", "")
+    if price and not currency:
+        r.problem("operation.currency", "give the currency of energy_price, such as \"USD\"")
+    return Operation(hours_per_year=hours, energy_price=price, currency=currency)
+
+
+def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
+    if raw is None:
+        r.problem("pipe", "at least one [[pipe]] table is required")
+        return ()
+    if not isinstance(raw, list) or not all(isinstance(p, dict) for p in raw):
+        r.problem("pipe", "expected [[pipe]] tables")
+        return ()
+    pipes = []
+    seen: dict[str, str] = {}
+    for index, data in enumerate(raw, start=1):
+        path = f"pipe[{index}]"
+        r.known_keys(data, path, _PIPE_KEYS)
+        ident = r.text(data, "id", path, f"P{index}")
+        if ident in seen:
+            r.problem(f"{path}.id", f'duplicate pipe id "{ident}" (also {seen[ident]})')
+        seen[ident] = path
+        side = r.text(data, "side", path, "discharge", SIDES)
+        if "side" not in data:
+            r.problem(f"{path}.side", 'required key is missing; give "suction" or "discharge"')
+        for key in ("nominal_size", "schedule", "material"):
+            if key in data:
+                r.problem(f"{path}.{key}", "catalog pipe sizes and materials are not available "
+                          "in this version; give inner_diameter and roughness")
+        length = r.quantity(data, "length", path, "length", required=True, positive=True)
+        diameter = r.quantity(data, "inner_diameter", path, "diameter",
+                              required="nominal_size" not in data, positive=True)
+        roughness = r.quantity(data, "roughness", path, "roughness",
+                               required="material" not in data)
+        if roughness and roughness.value < 0.0:
+            r.problem(f"{path}.roughness", "must not be negative")
+        elif roughness and diameter and roughness.value >= diameter.value:
+            r.problem(f"{path}.roughness", "must be smaller than the inner diameter")
+        fittings = _fittings(r, data.get("fittings", []), path)
+        start = r.quantity(data, "elevation_start", path, "length")
+        end = r.quantity(data, "elevation_end", path, "length")
+        if (start is None) != (end is None):
+            r.problem(f"{path}.elevation_end" if start else f"{path}.elevation_start",
+                      "give both elevation_start and elevation_end, or neither")
+        if length and diameter and roughness:
+            pipes.append(Pipe(key=path, id=ident, side=side, length=length,
+                              inner_diameter=diameter, roughness=roughness,
+                              fittings=fittings, elevation_start=start, elevation_end=end))
+    sides = [p.side for p in pipes]
+    if "suction" in sides and "discharge" in sides:
+        last_suction = max(i for i, s in enumerate(sides) if s == "suction")
+        first_discharge = sides.index("discharge")
+        if last_suction > first_discharge:
+            r.problem(pipes[last_suction].key + ".side",
+                      "pipes are listed in flow order: every suction pipe before the "
+                      "first discharge pipe")
+    return tuple(pipes)
+
+
+def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
+    path = f"{pipe_path}.fittings"
+    if not isinstance(raw, list):
+        r.problem(path, "expected an array of inline tables, such as [{ K = 0.5, count = 1 }]")
+        return ()
+    items = []
+    for index, data in enumerate(raw, start=1):
+        where = f"{path}[{index}]"
+        if not isinstance(data, dict):
+            r.problem(where, f"expected an inline table {{ K = ..., count = ... }}, got {_type(data)}")
+            continue
+        r.known_keys(data, where, _FITTING_KEYS)
+        count = r.quantity(data, "count", where, "dimensionless", positive=True)
+        if count and count.value != math.floor(count.value):
+            r.problem(f"{where}.count", "must be a whole number")
+        K = r.quantity(data, "K", where, "dimensionless")
+        if K and K.value < 0.0:
+            r.problem(f"{where}.K", "must not be negative")
+        dp = r.quantity(data, "dp", where, "pressure", positive=True)
+        at_flow = r.quantity(data, "at_flow", where, "flow", positive=True)
+        kind = r.text(data, "kind", where, "")
+        given = [name for name in ("K", "dp", "kind") if name in data]
+        if len(given) != 1:
+            r.problem(where, "give exactly one of K, kind, or dp with at_flow")
+        elif kind:
+            r.problem(f"{where}.kind", f'named fittings ("{kind}") come from the fittings '
+                      "catalog, not available in this version; give K")
+        if ("dp" in data) != ("at_flow" in data):
+            r.problem(where, "a rated loss needs both dp and at_flow")
+        items.append(Fitting(key=where, count=count.value if count else 1.0, K=K, dp=dp,
+                             at_flow=at_flow, kind=kind, note=r.text(data, "note", where, "")))
+    return tuple(items)
+
+
+def _criteria(r: _Reader, data: dict[str, Any]) -> Criteria:
+    defaults = catalog.criteria()
+    r.known_keys(data, "criteria", set(defaults))
+    given = {}
+    for key in data:
+        if key in defaults:
+            value = r.quantity(data, key, "criteria", defaults[key]["kind"], positive=True)
+            if value:
+                given[key] = value
+    return Criteria(given)
+
+
+def _physical_checks(r: _Reader, model: Model) -> None:
+    """Checks that need the barometric pressure and the liquid's vapour pressure."""
+    from calcreport.physics import atmosphere, water
+
+    if model.site.station_pressure:
+        p_baro = model.site.station_pressure.value
+    else:
+        elevation = model.site.elevation.value if model.site.elevation else 0.0
+        try:
+            p_baro = atmosphere.pressure(elevation)
+        except ValueError as exc:
+            r.problem("site.elevation", str(exc))
+            return
+    if model.fluid.kind == "water":
+        p_v = water.saturation_pressure(model.fluid.temperature.value)
+    else:
+        assert model.fluid.vapor_pressure is not None
+        p_v = model.fluid.vapor_pressure.value
+    for vessel in (model.source, model.destination):
+        if vessel.saturation or vessel.pressure is None:
+            continue
+        absolute = p_baro + vessel.pressure.value
+        if absolute <= 0.0:
+            r.problem(vessel.pressure.key,
+                      f"a vacuum of {-vessel.pressure.value / 1e3:.4g} kPa is below absolute "
+                      f"zero at this site (barometric pressure {p_baro / 1e3:.4g} kPa)")
+        elif p_v > absolute:
+            r.problem("fluid.temperature",
+                      f"the liquid boils at the {vessel.role} surface: vapour pressure "
+                      f"{p_v / 1e3:.4g} kPa exceeds the absolute surface pressure "
+                      f"{absolute / 1e3:.4g} kPa; lower the temperature, raise "
+                      f'{vessel.pressure.key}, or give pressure = "saturation"')
+
+
+def _type(value: Any) -> str:
+    return {dict: "a table", list: "an array", str: "text", bool: "a boolean",
+            int: "a number", float: "a number"}.get(type(value), type(value).__name__)

@@ -1,0 +1,149 @@
+"""The validated model of an input file: frozen dataclasses of SI floats.
+
+Every quantity is a float in the SI unit of its kind (m, m^3/s, Pa, K,
+kg/m^3, Pa*s). ``Given`` pairs a value with the input key it came from, so
+the trace can name the key as the source of each argument.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+__all__ = [
+    "Criteria",
+    "Fitting",
+    "Fluid",
+    "Given",
+    "Model",
+    "Operation",
+    "Pipe",
+    "Project",
+    "Pump",
+    "Site",
+    "Vessel",
+]
+
+
+@dataclass(frozen=True)
+class Given:
+    """A value read from the input: SI float, its SI unit and its key path."""
+
+    value: float
+    unit: str
+    key: str
+
+
+@dataclass(frozen=True)
+class Project:
+    title: str = "Untitled pump-system calculation"
+    client: str = ""
+    calc_id: str = ""
+    revision: str = ""
+    date: str = ""
+    prepared_by: str = ""
+    checked_by: str = ""
+    units: str = "SI"
+
+
+@dataclass(frozen=True)
+class Fluid:
+    kind: str
+    temperature: Given
+    density: Given | None = None
+    viscosity: Given | None = None
+    vapor_pressure: Given | None = None
+    name: str = ""
+
+
+@dataclass(frozen=True)
+class Site:
+    elevation: Given | None = None
+    station_pressure: Given | None = None
+
+
+@dataclass(frozen=True)
+class Vessel:
+    """A liquid surface: the source (suction) or destination vessel."""
+
+    role: str
+    level: Given
+    level_low: Given | None = None
+    level_high: Given | None = None
+    pressure: Given | None = None  # gauge; None with saturation=True
+    saturation: bool = False
+    inlet: str = "submerged"  # destination only: submerged | free
+    outlet_elevation: Given | None = None
+
+
+@dataclass(frozen=True)
+class Fitting:
+    """One fitting item of a pipe: a resistance coefficient or a rated loss."""
+
+    key: str
+    count: float = 1.0
+    K: Given | None = None
+    dp: Given | None = None
+    at_flow: Given | None = None
+    kind: str = ""
+    note: str = ""
+
+    @property
+    def label(self) -> str:
+        return self.note or self.kind or ("rated loss" if self.dp else "fitting")
+
+
+@dataclass(frozen=True)
+class Pipe:
+    key: str
+    id: str
+    side: str
+    length: Given
+    inner_diameter: Given
+    roughness: Given
+    fittings: tuple[Fitting, ...] = ()
+    elevation_start: Given | None = None
+    elevation_end: Given | None = None
+
+
+@dataclass(frozen=True)
+class Pump:
+    elevation: Given
+    efficiency: Given | None = None
+
+
+@dataclass(frozen=True)
+class Operation:
+    hours_per_year: Given | None = None
+    energy_price: Given | None = None
+    currency: str = ""
+
+
+@dataclass(frozen=True)
+class Criteria:
+    """Design limits given in ``[criteria]``; absent keys take the defaults."""
+
+    given: dict[str, Given] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Model:
+    path: str
+    sha256: str
+    text: str
+    project: Project
+    fluid: Fluid
+    flow: Given
+    flow_range: tuple[Given, Given] | None
+    site: Site
+    source: Vessel
+    destination: Vessel
+    pump: Pump
+    motor_efficiency: Given | None
+    drive_efficiency: Given | None
+    operation: Operation
+    pipes: tuple[Pipe, ...]
+    criteria: Criteria
+
+    @property
+    def suction_pipes(self) -> tuple[Pipe, ...]:
+        return tuple(p for p in self.pipes if p.side == "suction")

@@ -1,0 +1,13 @@
+"""Physics of a pumped transfer: pure functions on SI floats and numpy arrays.
+
+One module per topic; each public function states its equation, the unit
+of every parameter and its published source, and registers itself with
+:mod:`calcreport.physics.equation` so the trace can print and recompute it.
+
+water       liquid water properties (IAPWS-IF97, IAPWS 2008 viscosity)
+atmosphere  barometric pressure (US Standard Atmosphere 1976)
+friction    Reynolds number, flow regime, Darcy friction factor
+losses      velocity, Darcy-Weisbach, minor and equipment losses
+head        static, pressure and total dynamic head; NPSH available
+power       hydraulic, shaft and electrical power; energy and cost
+"""

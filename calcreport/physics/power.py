@@ -1,0 +1,246 @@
+"""Power and energy of a pump: hydraulic, shaft and electrical; energy and cost.
+
+Power
+    hydraulic_power, shaft_power, electrical_power
+Energy
+    hours_to_seconds, annual_energy, annual_cost
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from calcreport.physics.equation import equation
+from calcreport.physics.losses import G
+
+__all__ = [
+    "annual_cost",
+    "annual_energy",
+    "electrical_power",
+    "hours_to_seconds",
+    "hydraulic_power",
+    "shaft_power",
+]
+
+JOULES_PER_KWH = 3.6e6
+
+
+@equation(
+    symbol="P_h",
+    text="P_h = ρ·g·Q·H",
+    latex=r"P_h = \rho\, g\, Q\, H",
+    substitute="{rho} × 9.80665 m/s² × {Q} × {H}",
+    reference="white_fm",
+)
+def hydraulic_power(rho: Any, Q: Any, H: Any) -> Any:
+    r"""Hydraulic (water) power delivered to the liquid.
+
+    .. math:: P_h = \rho g Q H
+
+    Parameters
+    ----------
+    rho : float
+        Density of the liquid [kg/m^3]
+    Q : float
+        Flow [m^3/s]
+    H : float
+        Total dynamic head [m]
+
+    Returns
+    -------
+    P_h : float
+        Hydraulic power [W]
+
+    Examples
+    --------
+    >>> round(hydraulic_power(998.207, 0.020, 32.49768), 1)
+    6362.4
+
+    References
+    ----------
+    1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, eq. 11.3.
+    """
+    return rho * G * Q * H
+
+
+@equation(
+    symbol="P_s",
+    text="P_s = P_h/η_p",
+    latex=r"P_s = \frac{P_h}{\eta_p}",
+    substitute="{P_h} / {eta_p}",
+    reference="white_fm",
+)
+def shaft_power(P_h: Any, eta_p: Any) -> Any:
+    r"""Shaft (brake) power the pump takes from its driver.
+
+    .. math:: P_s = \frac{P_h}{\eta_p}
+
+    Parameters
+    ----------
+    P_h : float
+        Hydraulic power [W]
+    eta_p : float
+        Pump efficiency at the operating point [-]
+
+    Returns
+    -------
+    P_s : float
+        Shaft power [W]
+
+    Examples
+    --------
+    >>> round(shaft_power(6362.44, 0.72), 1)
+    8836.7
+
+    References
+    ----------
+    1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, eq. 11.5.
+    """
+    return P_h / eta_p
+
+
+@equation(
+    symbol="P_e",
+    text="P_e = P_s/(η_m·η_d)",
+    latex=r"P_e = \frac{P_s}{\eta_m\, \eta_d}",
+    substitute="{P_s} / ({eta_m} × {eta_d})",
+    reference="hi_power",
+)
+def electrical_power(P_s: Any, eta_m: Any, eta_d: Any) -> Any:
+    r"""Electrical input power of the motor (and drive, when there is one).
+
+    .. math:: P_e = \frac{P_s}{\eta_m \eta_d}
+
+    Parameters
+    ----------
+    P_s : float
+        Shaft power [W]
+    eta_m : float
+        Motor efficiency at its load [-]
+    eta_d : float
+        Variable-speed drive efficiency; 1 without a drive [-]
+
+    Returns
+    -------
+    P_e : float
+        Electrical input power [W]
+
+    Examples
+    --------
+    >>> round(electrical_power(8836.7, 0.92, 1.0), 1)
+    9605.1
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (wire-to-water efficiency).
+    """
+    return P_s / (eta_m * eta_d)
+
+
+@equation(
+    symbol="t",
+    text="t = hours × 3600 s/h",
+    latex=r"t = n_h \times 3600\ \mathrm{s/h}",
+    substitute="{hours} × 3600 s/h",
+    reference="nist_sp811",
+)
+def hours_to_seconds(hours: Any) -> Any:
+    r"""Operating time in seconds from a number of hours.
+
+    .. math:: t = n_h \times 3600\ \mathrm{s/h}
+
+    Parameters
+    ----------
+    hours : float
+        Operating hours per year [-]
+
+    Returns
+    -------
+    t : float
+        Operating time per year [s]
+
+    Examples
+    --------
+    >>> hours_to_seconds(2.0)
+    7200.0
+
+    References
+    ----------
+    1. NIST Special Publication 811, 2008, Appendix B (1 h = 3600 s).
+    """
+    return hours * 3600.0
+
+
+@equation(
+    symbol="E",
+    text="E = P_e·t",
+    latex=r"E = P_e\, t",
+    substitute="{P_e} × {t}",
+    reference="hi_power",
+)
+def annual_energy(P_e: Any, t: Any) -> Any:
+    r"""Energy taken in a year of operation at constant input power.
+
+    .. math:: E = P_e t
+
+    Parameters
+    ----------
+    P_e : float
+        Electrical input power [W]
+    t : float
+        Operating time per year [s]
+
+    Returns
+    -------
+    E : float
+        Annual energy [J]
+
+    Examples
+    --------
+    >>> annual_energy(1000.0, 3600.0) / 3.6e6
+    1.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004.
+    """
+    return P_e * t
+
+
+@equation(
+    symbol="C",
+    text="C = E/(3.6 MJ/kWh)·c_e",
+    latex=r"C = \frac{E}{3.6\ \mathrm{MJ/kWh}}\, c_e",
+    substitute="{E} / (3.6e6 J/kWh) × {price} /kWh",
+    reference="hi_power",
+)
+def annual_cost(E: Any, price: Any) -> Any:
+    r"""Annual energy cost at a flat price per kWh.
+
+    .. math:: C = \frac{E}{3.6\ \mathrm{MJ/kWh}} c_e
+
+    Parameters
+    ----------
+    E : float
+        Annual energy [J]
+    price : float
+        Energy price per kWh, in the project currency [-]
+
+    Returns
+    -------
+    C : float
+        Annual energy cost, in the project currency [-]
+
+    Examples
+    --------
+    >>> annual_cost(3.6e9, 0.14)
+    140.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004.
+    """
+    return E / JOULES_PER_KWH * price

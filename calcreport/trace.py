@@ -1,0 +1,309 @@
+"""The trace: every step of a calculation, its results and checks; JSON in and out.
+
+The trace is the single source of truth of a calculation: the report prints
+only what it holds. A :class:`Step` records one evaluation of a registered
+equation (:mod:`calcreport.physics.equation`) with the values, units and
+sources of its arguments, so that anybody can recompute it; a
+:class:`Check` records one design criterion with its value, limit, basis
+and governing case. :class:`TraceBuilder` is what the solver writes with:
+``builder.step(...)`` evaluates the equation once and prints the same
+values it computed with.
+
+JSON format ``calcreport-trace/1``; every quantity is
+``{"value": <float>, "unit": "<pint unit string>"}`` in coherent SI.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+from calcreport.model.schema import Given
+from calcreport.physics.equation import Equation, lookup, registered
+
+__all__ = [
+    "FORMAT",
+    "Argument",
+    "Check",
+    "Step",
+    "Trace",
+    "TraceBuilder",
+    "fmt",
+    "pretty_unit",
+    "quantity",
+]
+
+FORMAT = "calcreport-trace/1"
+STATUSES = ("fail", "review", "pass")
+
+
+def fmt(x: float, sig: int = 5) -> str:
+    """Format a number to ``sig`` significant figures for a printed substitution.
+
+    Plain notation from 1e-4 to 1e7 (integers of six or seven digits are
+    printed whole rather than rounded), scientific notation outside.
+    """
+    if isinstance(x, bool):
+        return str(x)
+    if x == 0 or not math.isfinite(x):
+        return "0" if x == 0 else str(x)
+    magnitude = math.floor(math.log10(abs(x)))
+    if magnitude >= sig and magnitude < 7:
+        return f"{x:.0f}"
+    if -4 <= magnitude < 7:
+        decimals = max(0, sig - 1 - magnitude)
+        text = f"{x:.{decimals}f}"
+        return text
+    return f"{x:.{sig - 1}e}"
+
+
+_PRETTY = (("**", "^"), ("^3", "³"), ("^2", "²"), ("*", "·"), ("degC", "°C"), ("degF", "°F"))
+
+
+def pretty_unit(unit: str) -> str:
+    """A unit string as printed: ``m^3/s`` → ``m³/s``, ``Pa*s`` → ``Pa·s``."""
+    if unit in ("", "-", "dimensionless"):
+        return ""
+    for old, new in _PRETTY:
+        unit = unit.replace(old, new)
+    return unit
+
+
+def quantity(value: float, unit: str) -> dict[str, Any]:
+    """The JSON form of a quantity."""
+    return {"value": value, "unit": unit}
+
+
+def _unit(doc_unit: str) -> str:
+    return "" if doc_unit in ("-", "") else doc_unit
+
+
+@dataclass(frozen=True)
+class Argument:
+    """One argument of a step: value, SI unit and source (input key, step id or assumption)."""
+
+    name: str
+    value: float | tuple[float, ...]
+    unit: str
+    source: str | tuple[str, ...]
+
+    def to_json(self) -> dict[str, Any]:
+        value = list(self.value) if isinstance(self.value, tuple) else self.value
+        source = list(self.source) if isinstance(self.source, tuple) else self.source
+        return {"value": value, "unit": self.unit, "from": source}
+
+
+@dataclass(frozen=True)
+class Step:
+    """One evaluated equation, with everything needed to print and recompute it."""
+
+    id: str
+    title: str
+    symbol: str
+    equation: str
+    latex: str
+    substituted: str
+    value: float
+    unit: str
+    inputs: tuple[str, ...]
+    arguments: tuple[Argument, ...]
+    function: str
+    reference: str
+    case: str = ""
+
+    def __post_init__(self) -> None:
+        if not self.id or not self.function:
+            raise ValueError("a step needs an id and the equation it evaluates")
+        if not math.isfinite(self.value):
+            raise ValueError(f"step {self.id}: result is not finite ({self.value})")
+
+    def to_json(self) -> dict[str, Any]:
+        return {
+            "id": self.id,
+            "title": self.title,
+            "symbol": self.symbol,
+            "equation": self.equation,
+            "latex": self.latex,
+            "substituted": self.substituted,
+            "value": self.value,
+            "unit": self.unit,
+            "inputs": list(self.inputs),
+            "arguments": {a.name: a.to_json() for a in self.arguments},
+            "function": self.function,
+            "reference": self.reference,
+            "case": self.case,
+        }
+
+
+@dataclass(frozen=True)
+class Check:
+    """One design check: value against limit, with its basis and governing case."""
+
+    id: str
+    title: str
+    status: str
+    value: float | None
+    unit: str
+    limit: float | None
+    comparison: str
+    basis: str
+    reference: str
+    case: str
+    message: str = ""
+
+    def __post_init__(self) -> None:
+        if self.status not in STATUSES:
+            raise ValueError(f"check {self.id}: status {self.status!r} not in {STATUSES}")
+
+    def to_json(self) -> dict[str, Any]:
+        return {
+            "id": self.id,
+            "title": self.title,
+            "status": self.status,
+            "value": None if self.value is None else quantity(self.value, self.unit),
+            "limit": None if self.limit is None else quantity(self.limit, self.unit),
+            "comparison": self.comparison,
+            "basis": self.basis,
+            "reference": self.reference,
+            "case": self.case,
+            "message": self.message,
+        }
+
+
+@dataclass
+class Trace:
+    """A solved calculation: steps, results, checks and the references they cite."""
+
+    input: dict[str, Any]
+    project: dict[str, Any]
+    status: dict[str, str]
+    steps: list[Step]
+    results: dict[str, Any]
+    checks: list[Check]
+    references: dict[str, str]
+    assumptions: list[dict[str, str]] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+    given: dict[str, dict[str, Any]] = field(default_factory=dict)
+    cases: list[dict[str, str]] = field(default_factory=list)
+    software: dict[str, str] = field(default_factory=dict)
+
+    def step(self, step_id: str) -> Step:
+        for step in self.steps:
+            if step.id == step_id:
+                return step
+        raise KeyError(step_id)
+
+    def to_json(self) -> dict[str, Any]:
+        order = {s: i for i, s in enumerate(STATUSES)}
+        return {
+            "format": FORMAT,
+            "software": self.software,
+            "input": self.input,
+            "project": self.project,
+            "status": self.status,
+            "cases": self.cases,
+            "assumptions": self.assumptions,
+            "given": self.given,
+            "steps": [s.to_json() for s in self.steps],
+            "results": self.results,
+            "checks": [c.to_json() for c in sorted(self.checks, key=lambda c: order[c.status])],
+            "notes": self.notes,
+            "references": self.references,
+        }
+
+    def dumps(self) -> str:
+        """The trace as JSON text: stable key order, full float precision."""
+        return json.dumps(self.to_json(), indent=2, ensure_ascii=False) + "\n"
+
+
+class TraceBuilder:
+    """Collects steps as the solver evaluates them; every step id is unique."""
+
+    def __init__(self) -> None:
+        self.steps: list[Step] = []
+        self._ids: set[str] = set()
+        self.assumptions: list[dict[str, str]] = []
+        self.given: dict[str, dict[str, Any]] = {}
+        self._by_func = {eq.func: eq for eq in registered().values()}
+
+    def input(self, given: Given) -> Given:
+        """Record an input value so the trace holds what each argument came from."""
+        self.given[given.key] = quantity(given.value, given.unit)
+        return given
+
+    def assume(self, text: str, value: float | None = None, unit: str = "") -> Given:
+        """Number an assumption (A1, A2, …) and return its value as a source."""
+        ident = f"A{len(self.assumptions) + 1}"
+        entry = {"id": ident, "text": text}
+        if value is not None:
+            entry["value"] = f"{fmt(value)} {pretty_unit(unit)}".strip()
+        self.assumptions.append(entry)
+        return Given(value if value is not None else math.nan, unit, ident)
+
+    def step(
+        self,
+        step_id: str,
+        title: str,
+        func: Any,
+        case: str = "",
+        **args: Given | list[Given],
+    ) -> Given:
+        """Evaluate ``func`` on the arguments, record the step and return its result."""
+        if step_id in self._ids:
+            raise ValueError(f"duplicate step id {step_id!r}")
+        eq: Equation = self._by_func[func] if not isinstance(func, str) else lookup(func)
+        values: dict[str, Any] = {}
+        arguments = []
+        for name, arg in args.items():
+            if isinstance(arg, list):
+                values[name] = tuple(a.value for a in arg)
+                arguments.append(Argument(name, values[name], arg[0].unit if arg else "",
+                                          tuple(a.key for a in arg)))
+            else:
+                values[name] = arg.value
+                arguments.append(Argument(name, arg.value, arg.unit, arg.key))
+        if set(values) != set(eq.params):
+            raise TypeError(f"{eq.name} takes {sorted(eq.params)}, given {sorted(values)}")
+        value = float(eq.func(**values))
+        unit = _unit(eq.unit)
+        substituted = substitute(eq, values, value)
+        inputs: list[str] = []
+        for a in arguments:
+            for source in a.source if isinstance(a.source, tuple) else (a.source,):
+                if source not in inputs:
+                    inputs.append(source)
+        self.steps.append(
+            Step(
+                id=step_id,
+                title=title,
+                symbol=eq.symbol,
+                equation=eq.text,
+                latex=eq.latex,
+                substituted=substituted,
+                value=value,
+                unit=unit,
+                inputs=tuple(inputs),
+                arguments=tuple(arguments),
+                function=eq.name,
+                reference=eq.reference,
+                case=case,
+            )
+        )
+        self._ids.add(step_id)
+        return Given(value, unit, step_id)
+
+
+def substitute(eq: Equation, values: dict[str, Any], result: float) -> str:
+    """The equation with the argument values and units written in, and its result."""
+    unit = pretty_unit(_unit(eq.unit))
+    shown = f"{fmt(result)} {unit}".strip()
+    if callable(eq.substitute):
+        return f"{eq.substitute(values, result, fmt)} → {eq.symbol} = {shown}"
+    filled = {
+        name: f"{fmt(value)} {pretty_unit(_unit(eq.params[name]))}".strip()
+        for name, value in values.items()
+        if not isinstance(value, tuple)
+    }
+    return f"{eq.symbol} = {eq.substitute.format(**filled)} = {shown}"
