@@ -27,7 +27,7 @@ from calcreport.trace import Trace, TraceBuilder, quantity
 
 __all__ = ["solve"]
 
-CURVE_POINTS = 41
+CURVE_POINTS = 61
 
 
 @dataclass(frozen=True)
@@ -265,7 +265,7 @@ def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[
     K = ev.step(sid(f"{name}.k_total"), f"Sum of fitting coefficients of {pipe.id}",
                 losses.k_total, case.id,
                 K=[ft.K for ft in coefficients],
-                count=[Given(ft.count, "", ft.key + ".count") for ft in coefficients])
+                count=[ft.count for ft in coefficients])
     out["k_total"] = K
     out["fitting_loss"] = ev.step(sid(f"{name}.fitting_loss"), f"Fitting losses in {pipe.id}",
                                   losses.minor_loss, case.id, K_total=K, v=v)

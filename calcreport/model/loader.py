@@ -508,7 +508,7 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
                       "catalog, not available in this version; give K")
         if ("dp" in data) != ("at_flow" in data):
             r.problem(where, "a rated loss needs both dp and at_flow")
-        items.append(Fitting(key=where, count=count.value if count else 1.0, K=K, dp=dp,
+        items.append(Fitting(key=where, count=count or Given(1.0, "", f"{where}.count"), K=K, dp=dp,
                              at_flow=at_flow, kind=kind, note=r.text(data, "note", where, "")))
     return tuple(items)
 

@@ -80,7 +80,7 @@ class Fitting:
     """One fitting item of a pipe: a resistance coefficient or a rated loss."""
 
     key: str
-    count: float = 1.0
+    count: Given
     K: Given | None = None
     dp: Given | None = None
     at_flow: Given | None = None

@@ -1,0 +1,281 @@
+"""End-to-end solve against an independent calculation, and trace consistency."""
+
+import math
+from pathlib import Path
+
+import pytest
+
+from calcreport.calc import solve
+from calcreport.model.loader import loads
+from calcreport.physics.equation import lookup
+
+EXAMPLES = Path(__file__).parent.parent / "input_examples"
+
+# The end-to-end case of CHECK-VALUES.md section 11 [V]: water 20 degC, open
+# tanks at sea level, levels +2.0 m and +25.0 m above the pump centreline.
+CASE = """
+format = 1
+[fluid]
+temperature = "20 degC"
+[duty]
+flow = "20 L/s"
+flow_range = ["0 L/s", "30 L/s"]
+[source]
+level = "2.0 m"
+[destination]
+level = "25.0 m"
+[pump]
+elevation = "0 m"
+efficiency = 0.78
+[motor]
+efficiency = 0.92
+[operation]
+hours_per_year = 6000
+energy_price = 0.10
+currency = "USD"
+[[pipe]]
+id = "S1"
+side = "suction"
+length = "10 m"
+inner_diameter = "154.051 mm"
+roughness = "0.045 mm"
+fittings = [{ K = 0.5, note = "entrance" }, { K = 0.57 }]
+[[pipe]]
+id = "D1"
+side = "discharge"
+length = "150 m"
+inner_diameter = "102.26 mm"
+roughness = "0.045 mm"
+fittings = [{ K = 0.366 }, { K = 3.0, count = 1 }, { K = 1.0, note = "exit" }]
+"""
+
+
+@pytest.fixture(scope="module")
+def trace():
+    return solve(loads(CASE.encode()))
+
+
+def _independent(Q):
+    """The same system computed with fluids and iapws only (not calcreport)."""
+    fluids = pytest.importorskip("fluids")
+    iapws = pytest.importorskip("iapws")
+    g = 9.80665
+    w = iapws.IAPWS97(T=293.15, P=0.101325)
+    rho, mu = w.rho, w.mu
+    p_v = iapws.IAPWS97(T=293.15, x=0).P * 1e6
+    p_baro = fluids.atmosphere.ATMOSPHERE_1976(0.0).P
+    pipes = [(0.154051, 10.0, 1.07), (0.10226, 150.0, 4.366)]
+    out = []
+    for D, L, K in pipes:
+        v = Q / (math.pi * D**2 / 4)
+        Re = rho * v * D / mu
+        f = fluids.friction.Colebrook(Re, 0.045e-3 / D)
+        out.append((v, Re, f, f * L / D * v**2 / (2 * g), K * v**2 / (2 * g)))
+    tdh = 23.0 + sum(p[3] + p[4] for p in out)
+    npsha = p_baro / (rho * g) + 2.0 - (out[0][3] + out[0][4]) - p_v / (rho * g)
+    return rho, out, tdh, npsha
+
+
+def test_against_independent_calculation(trace):
+    rho, pipes, tdh, npsha = _independent(0.020)
+    r = trace.results
+    assert r["total_dynamic_head"]["value"] == pytest.approx(tdh, rel=1e-5)
+    assert r["npsh_available"]["value"] == pytest.approx(npsha, rel=1e-5)
+    for ident, (v, Re, f, hf, hm) in zip(("S1", "D1"), pipes, strict=True):
+        p = r["pipes"][ident]
+        assert p["velocity"]["value"] == pytest.approx(v, rel=1e-12)
+        assert p["reynolds"]["value"] == pytest.approx(Re, rel=1e-5)
+        assert p["friction_factor"]["value"] == pytest.approx(f, rel=1e-6)
+        assert p["friction_loss"]["value"] == pytest.approx(hf, rel=1e-5)
+        assert p["minor_loss"]["value"] == pytest.approx(hm, rel=1e-12)
+    P_h = rho * 9.80665 * 0.020 * tdh
+    assert r["hydraulic_power"]["value"] == pytest.approx(P_h, rel=1e-5)
+    assert r["shaft_power"]["value"] == pytest.approx(P_h / 0.78, rel=1e-5)
+    assert r["electrical_power"]["value"] == pytest.approx(P_h / 0.78 / 0.92, rel=1e-5)
+    energy = r["energy"]
+    assert energy["annual_energy"]["value"] == pytest.approx(P_h / 0.78 / 0.92 * 6000 * 3600,
+                                                             rel=1e-5)
+    assert energy["annual_cost"]["value"] == pytest.approx(
+        P_h / 0.78 / 0.92 * 6000 / 1000 * 0.10, rel=1e-5)
+    assert energy["annual_cost"]["unit"] == "USD"
+
+
+def test_check_values_end_to_end(trace):
+    # CHECK-VALUES.md section 11 [V] (properties from IAPWS-95 there, IF97 here:
+    # 1e-6 in density), tolerance 1e-4 relative as stated there.
+    r = trace.results
+    assert r["pipes"]["S1"]["velocity"]["value"] == pytest.approx(1.07303, rel=1e-5)
+    assert r["pipes"]["S1"]["reynolds"]["value"] == pytest.approx(164_742, rel=1e-4)
+    assert r["pipes"]["S1"]["friction_factor"]["value"] == pytest.approx(0.018102, rel=1e-4)
+    suction = r["pipes"]["S1"]["friction_loss"]["value"] + r["pipes"]["S1"]["minor_loss"]["value"]
+    assert suction == pytest.approx(0.13180, rel=1e-4)
+    assert r["pipes"]["D1"]["velocity"]["value"] == pytest.approx(2.43515, rel=1e-5)
+    assert r["pipes"]["D1"]["reynolds"]["value"] == pytest.approx(248_177, rel=1e-4)
+    assert r["pipes"]["D1"]["friction_factor"]["value"] == pytest.approx(0.018142, rel=1e-4)
+    assert r["pipes"]["D1"]["friction_loss"]["value"] == pytest.approx(8.04585, rel=1e-4)
+    assert r["pipes"]["D1"]["minor_loss"]["value"] == pytest.approx(1.32003, rel=1e-4)
+    assert r["total_dynamic_head"]["value"] == pytest.approx(32.49768, rel=1e-4)
+    assert r["hydraulic_power"]["value"] == pytest.approx(6362.44, rel=1e-4)
+    assert r["npsh_available"]["value"] == pytest.approx(11.9801, rel=1e-4)
+
+
+def test_system_curve_check_values(trace):
+    # CHECK-VALUES.md section 11 [V]: H(Q) at 0/5/10/15/20/25/30 L/s.
+    curve = trace.results["system_curve"]
+    flows = curve["flow"]["value"]
+    heads = dict(zip((round(q * 1e3, 6) for q in flows), curve["head"]["value"], strict=True))
+    expected = {0: 23.0000, 5: 23.6898, 10: 25.5289, 15: 28.4685, 20: 32.4977, 25: 37.6122,
+                30: 43.8100}
+    for q, h in expected.items():
+        assert heads[float(q)] == pytest.approx(h, rel=1e-4)
+
+
+def test_curve_passes_through_duty_point(trace):
+    curve = trace.results["system_curve"]
+    i = [round(q, 9) for q in curve["flow"]["value"]].index(0.02)
+    assert curve["head"]["value"][i] == pytest.approx(
+        trace.results["total_dynamic_head"]["value"], rel=1e-13)
+    assert curve["npsh_available"]["value"][i] == pytest.approx(
+        trace.results["npsh_available"]["value"], rel=1e-13)
+
+
+def test_high_site_lowers_npsh_available():
+    # CHECK-VALUES.md section 11 [V]: NPSHa 10.2674 m at 1500 m elevation.
+    high = CASE.replace("[source]", '[site]\nelevation = "1500 m"\n[source]')
+    r = solve(loads(high.encode())).results
+    assert r["npsh_available"]["value"] == pytest.approx(10.2674, rel=1e-4)
+    assert r["barometric_pressure"]["value"] == pytest.approx(84559.7, abs=1.0)
+
+
+def _all_traces():
+    yield solve(loads(CASE.encode()))
+    for path in sorted(EXAMPLES.glob("*.toml")):
+        yield solve(loads(path.read_bytes(), str(path)))
+
+
+def test_every_step_recomputes_from_its_arguments():
+    for trace in _all_traces():
+        values = {s.id: s.value for s in trace.steps}
+        assumed = {a["id"] for a in trace.assumptions}
+        for step in trace.steps:
+            eq = lookup(step.function)
+            args = {a.name: a.value for a in step.arguments}
+            assert eq.func(**args) == pytest.approx(step.value, rel=1e-12), step.id
+            # Every argument is the recorded value of the source it names.
+            for a in step.arguments:
+                sources = a.source if isinstance(a.source, tuple) else (a.source,)
+                vals = a.value if isinstance(a.value, tuple) else (a.value,)
+                for source, value in zip(sources, vals, strict=True):
+                    if source in values:
+                        assert value == values[source], (step.id, source)
+                    elif source in trace.given:
+                        assert value == trace.given[source]["value"], (step.id, source)
+                    else:
+                        assert source in assumed, (step.id, source)
+
+
+def test_every_step_has_reference_and_unit_text():
+    for trace in _all_traces():
+        for step in trace.steps:
+            assert step.reference in trace.references, step.id
+            assert step.substituted and step.equation and step.title
+        for check in trace.checks:
+            assert check.reference in trace.references, check.id
+
+
+def test_free_discharge_adds_outlet_velocity_head():
+    free = CASE.replace('[destination]\nlevel = "25.0 m"',
+                        '[destination]\nlevel = "30.0 m"\ninlet = "free"\n'
+                        'outlet_elevation = "25.0 m"')
+    free = free.replace(', { K = 1.0, note = "exit" }', "")
+    r = solve(loads(free.encode())).results
+    v = r["pipes"]["D1"]["velocity"]["value"]
+    assert r["static_head"]["value"] == pytest.approx(23.0)
+    assert r["outlet_velocity_head"]["value"] == pytest.approx(v**2 / (2 * 9.80665), rel=1e-14)
+    # Same energy as the submerged case: an exit K = 1 equals the velocity head.
+    submerged = solve(loads(CASE.encode())).results["total_dynamic_head"]["value"]
+    assert r["total_dynamic_head"]["value"] == pytest.approx(submerged, rel=1e-12)
+
+
+def test_pressurised_destination_adds_pressure_head():
+    pressurised = CASE.replace('level = "25.0 m"', 'level = "25.0 m"\npressure = "150 kPa"')
+    t = solve(loads(pressurised.encode()))
+    rho = t.results["fluid"]["density"]["value"]
+    assert t.results["pressure_head"]["value"] == pytest.approx(150e3 / (rho * 9.80665),
+                                                                rel=1e-14)
+
+
+def test_boiling_source_cancels_pressure_terms():
+    hot = CASE.replace('temperature = "20 degC"', 'temperature = "80 degC"').replace(
+        'level = "2.0 m"', 'level = "2.0 m"\npressure = "saturation"')
+    r = solve(loads(hot.encode())).results
+    suction = r["pipes"]["S1"]["friction_loss"]["value"] + r["pipes"]["S1"]["minor_loss"]["value"]
+    # NPSHa = static suction head - suction losses when the surface is at saturation.
+    assert r["npsh_available"]["value"] == pytest.approx(2.0 - suction, rel=1e-9)
+
+
+def test_equipment_rated_loss_scales_with_flow_squared():
+    with_hx = CASE.replace('{ K = 3.0, count = 1 }',
+                           '{ K = 3.0, count = 1 }, { dp = "35 kPa", at_flow = "40 L/s" }')
+    t = solve(loads(with_hx.encode()))
+    rho = t.results["fluid"]["density"]["value"]
+    d1 = t.results["pipes"]["D1"]
+    expected = 35e3 / (rho * 9.80665) * 0.25
+    assert d1["equipment_loss"]["value"] == pytest.approx(expected, rel=1e-14)
+    assert d1["minor_loss"]["value"] == pytest.approx(
+        d1["fitting_loss"]["value"] + expected, rel=1e-14)
+
+
+def test_laminar_pipe_uses_64_over_re():
+    viscous = CASE.replace('temperature = "20 degC"', 'kind = "custom"\ntemperature = "20 degC"\n'
+                           'density = "900 kg/m^3"\nviscosity = "0.5 Pa*s"\n'
+                           'vapor_pressure = "1 kPa"')
+    t = solve(loads(viscous.encode()))
+    p = t.results["pipes"]["D1"]
+    assert p["regime"] == "laminar"
+    assert p["friction_factor"]["value"] == pytest.approx(64 / p["reynolds"]["value"], rel=1e-14)
+    assert t.step("pipe.D1.friction_factor").function == "friction.laminar"
+
+
+def test_transition_band_is_flagged_for_review():
+    oil = CASE.replace('temperature = "20 degC"', 'kind = "custom"\ntemperature = "20 degC"\n'
+                       'density = "900 kg/m^3"\nviscosity = "0.08 Pa*s"\n'
+                       'vapor_pressure = "1 kPa"')
+    t = solve(loads(oil.encode()))
+    assert t.results["pipes"]["D1"]["regime"] == "transition"
+    check = next(c for c in t.checks if c.id == "flow_regime.D1")
+    assert check.status == "review"
+    assert t.step("pipe.D1.friction_factor").function == "friction.colebrook"
+
+
+def test_missing_efficiency_omits_power_with_note():
+    bare = CASE.replace("efficiency = 0.78\n", "")
+    t = solve(loads(bare.encode()))
+    assert "hydraulic_power" in t.results
+    assert "shaft_power" not in t.results and "electrical_power" not in t.results
+    assert any("pump.efficiency" in n for n in t.notes)
+
+
+def test_velocity_limit_review_by_default_fail_when_project_sets_it():
+    fast = CASE.replace('flow = "20 L/s"', 'flow = "30 L/s"').replace(
+        'flow_range = ["0 L/s", "30 L/s"]', "")
+    t = solve(loads(fast.encode()))
+    d1 = next(c for c in t.checks if c.id == "velocity_max.D1")
+    assert d1.status == "review" and d1.reference == "common_practice"
+    strict = fast + '[criteria]\ndischarge_velocity_max = "2.5 m/s"\n'
+    t = solve(loads(strict.encode()))
+    d1 = next(c for c in t.checks if c.id == "velocity_max.D1")
+    assert d1.status == "fail" and d1.limit == pytest.approx(2.5)
+
+
+def test_excessive_suction_lift_fails_npsh_check():
+    lift = CASE.replace('level = "2.0 m"', 'level = "-12.0 m"')
+    t = solve(loads(lift.encode()))
+    check = next(c for c in t.checks if c.id == "npsh_available")
+    assert check.status == "fail"
+
+
+def test_missing_exit_item_asks_for_review():
+    no_exit = CASE.replace(', { K = 1.0, note = "exit" }', "")
+    t = solve(loads(no_exit.encode()))
+    assert next(c for c in t.checks if c.id == "exit_loss_item").status == "review"
