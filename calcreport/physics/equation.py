@@ -9,7 +9,7 @@ recompute it, without changing the function:
 - ``latex``: the same in matplotlib mathtext, for the PDF;
 - ``substitute``: the right-hand side with ``{name}`` placeholders that the
   trace fills with the argument values and units, or a callable
-  ``(values, fmt) -> str`` for equations that print more than one line
+  ``(values, result, fmt) -> str`` for equations that print more than one line
   (Colebrook prints both sides of the implicit equation);
 - ``reference``: a key of ``catalog/references.toml``.
 
