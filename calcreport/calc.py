@@ -109,6 +109,7 @@ def solve(model: Model) -> Trace:
     surfaces = (p_baro, p_source, p_dest, exit_head)
     hydraulics = _hydraulics(b, model, design, liquid, surfaces)
     results = _results(hydraulics, liquid, p_baro, model)
+    results["profile"] = _profile(model, design, liquid, hydraulics, p_source, p_dest)
     results.update(_power(b, model, design, liquid, hydraulics, eta_drive, notes))
 
     low, high = _flow_span(model)
@@ -390,6 +391,9 @@ def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model) -> 
                  "roughness": _q(pipe.roughness), "side": pipe.side,
                  "regime": friction.flow_regime(values["reynolds"].value)}
         entry.update({key: _q(value) for key, value in values.items()})
+        if pipe.elevation_start and pipe.elevation_end:
+            entry["elevation_start"] = _q(pipe.elevation_start)
+            entry["elevation_end"] = _q(pipe.elevation_end)
         pipes[pipe.id] = entry
     return {
         "flow": _q(model.flow),
@@ -409,6 +413,44 @@ def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model) -> 
         },
         "pipes": pipes,
     }
+
+
+def _profile(model: Model, case: Case, liquid: Liquid, h: dict[str, Any], p_source: Given,
+             p_dest: Given) -> dict[str, Any]:
+    """Energy and hydraulic grade lines at every pipe end, source to destination.
+
+    Friction is lost along each pipe and its minor losses are drawn at its
+    downstream end; the pump adds the TDH between the last suction pipe and
+    the first discharge pipe. Elevations in metres on the input's datum.
+    """
+    rho_g = liquid.density.value * losses.G
+    egl = case.source_level.value + p_source.value / rho_g
+    nodes = [{"name": "source surface", "distance": 0.0, "egl": egl, "hgl": egl,
+              "elevation": case.source_level.value}]
+    distance = 0.0
+    pumped = False
+    for pipe in model.pipes:
+        values = h["pipes"][pipe.id]
+        if pipe.side == "discharge" and not pumped:
+            egl += h["tdh"].value
+            pumped = True
+        hv = float(losses.velocity_head(values["velocity"].value))
+        start = pipe.elevation_start.value if pipe.elevation_start else None
+        end = pipe.elevation_end.value if pipe.elevation_end else None
+        nodes.append({"name": f"{pipe.id} start", "distance": distance, "egl": egl,
+                      "hgl": egl - hv, "elevation": start})
+        distance += pipe.length.value
+        egl -= values["friction_loss"].value
+        nodes.append({"name": f"{pipe.id} end", "distance": distance, "egl": egl,
+                      "hgl": egl - hv, "elevation": end})
+        egl -= values["minor_loss"].value
+    if not pumped:
+        egl += h["tdh"].value
+    final = case.destination_level.value + p_dest.value / rho_g
+    nodes.append({"name": "destination surface", "distance": distance, "egl": egl,
+                  "hgl": final, "elevation": case.destination_level.value})
+    return {"nodes": nodes, "unit": "m", "pump_after": model.suction_pipes[-1].id
+            if model.suction_pipes else ""}
 
 
 def _flow_span(model: Model) -> tuple[float, float]:

@@ -1,4 +1,4 @@
-"""The command line: ``calcreport new | check | solve``.
+"""The command line: ``calcreport new | check | solve | build``.
 
 Exit status: 0 success, 2 bad input or usage, 1 internal failure. Only this
 module prints and exits; everything below it raises.
@@ -53,6 +53,11 @@ def _parser() -> argparse.ArgumentParser:
     solve.add_argument("input", help="the input TOML file")
     solve.add_argument("--json", action="store_true",
                        help="print the trace JSON (format calcreport-trace/1) instead")
+    build = commands.add_parser("build", help="write the PDF report and the trace JSON")
+    build.add_argument("input", help="the input TOML file")
+    build.add_argument("-o", "--output", metavar="DIR",
+                       help="folder for <input>.pdf and <input>.trace.json (default: beside "
+                       "the input)")
     return parser
 
 
@@ -102,7 +107,28 @@ def _solve(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
-_COMMANDS = {"new": _new, "check": _check, "solve": _solve}
+def _build(args: argparse.Namespace) -> int:
+    from calcreport.calc import solve
+    from calcreport.model.loader import load
+    from calcreport.output import write_all
+    from calcreport.report import render
+
+    source = Path(args.input)
+    model = load(source)
+    trace = solve(model)
+    folder = Path(args.output) if args.output else source.parent
+    if folder.exists() and not folder.is_dir():
+        sys.stderr.write(f"calcreport: the output {folder} exists and is not a folder\n")
+        return EXIT_INPUT
+    pdf = folder / f"{source.stem}.pdf"
+    trace_file = folder / f"{source.stem}.trace.json"
+    content = trace.dumps().encode("utf-8")
+    write_all({pdf: render(trace.to_json(), model.text), trace_file: content}, protect=source)
+    print(f"wrote {pdf} and {trace_file}")
+    return EXIT_OK
+
+
+_COMMANDS = {"new": _new, "check": _check, "solve": _solve, "build": _build}
 
 # Result key → (label, kind of quantity for display).
 _SUMMARY_ROWS = (
@@ -123,24 +149,19 @@ _SUMMARY_ROWS = (
 
 def summary(trace: dict[str, Any]) -> str:
     """A readable summary of a trace in the report's unit system."""
-    from calcreport.trace import fmt, pretty_unit
-    from calcreport.units import display_unit, to_display
+    from calcreport.units import display_unit, fmt, pretty_unit, show, to_display
 
     system = trace["project"]["units"]
     results = trace["results"]
-
-    def show(q: dict[str, Any], kind: str) -> str:
-        unit = display_unit(kind, system)
-        return f"{fmt(to_display(q['value'], q['unit'], unit), 4)} {pretty_unit(unit)}"
 
     lines = [trace["project"]["title"], ""]
     width = max(len(label) for _, label, _ in _SUMMARY_ROWS) + 2
     for key, label, kind in _SUMMARY_ROWS:
         if key in results:
-            lines.append(f"  {label:<{width}}{show(results[key], kind)}")
+            lines.append(f"  {label:<{width}}{show(results[key], kind, system)}")
     energy = results.get("energy", {})
     if "annual_energy" in energy:
-        lines.append(f"  {'Annual energy':<{width}}{show(energy['annual_energy'], 'energy')}")
+        lines.append(f"  {'Annual energy':<{width}}{show(energy['annual_energy'], 'energy', system)}")
     if "annual_cost" in energy:
         cost = energy["annual_cost"]
         lines.append(f"  {'Annual energy cost':<{width}}{cost['value']:,.0f} {cost['unit']}")

@@ -22,6 +22,7 @@ from typing import Any
 
 from calcreport.model.schema import Given
 from calcreport.physics.equation import Equation, lookup, registered
+from calcreport.units import fmt, pretty_unit
 
 __all__ = [
     "FORMAT",
@@ -30,45 +31,12 @@ __all__ = [
     "Step",
     "Trace",
     "TraceBuilder",
-    "fmt",
-    "pretty_unit",
     "quantity",
+    "substitute",
 ]
 
 FORMAT = "calcreport-trace/1"
 STATUSES = ("fail", "review", "pass")
-
-
-def fmt(x: float, sig: int = 5) -> str:
-    """Format a number to ``sig`` significant figures for a printed substitution.
-
-    Plain notation from 1e-4 to 1e7 (integers of six or seven digits are
-    printed whole rather than rounded), scientific notation outside.
-    """
-    if isinstance(x, bool):
-        return str(x)
-    if x == 0 or not math.isfinite(x):
-        return "0" if x == 0 else str(x)
-    magnitude = math.floor(math.log10(abs(x)))
-    if magnitude >= sig and magnitude < 7:
-        return f"{x:.0f}"
-    if -4 <= magnitude < 7:
-        decimals = max(0, sig - 1 - magnitude)
-        text = f"{x:.{decimals}f}"
-        return text
-    return f"{x:.{sig - 1}e}"
-
-
-_PRETTY = (("**", "^"), ("^3", "³"), ("^2", "²"), ("*", "·"), ("degC", "°C"), ("degF", "°F"))
-
-
-def pretty_unit(unit: str) -> str:
-    """A unit string as printed: ``m^3/s`` → ``m³/s``, ``Pa*s`` → ``Pa·s``."""
-    if unit in ("", "-", "dimensionless"):
-        return ""
-    for old, new in _PRETTY:
-        unit = unit.replace(old, new)
-    return unit
 
 
 def quantity(value: float, unit: str) -> dict[str, Any]:

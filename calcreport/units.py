@@ -23,10 +23,14 @@ __all__ = [
     "KINDS",
     "Kind",
     "UnitProblem",
+    "as_written",
     "display_unit",
     "expected",
+    "fmt",
     "parse",
+    "pretty_unit",
     "registry",
+    "show",
     "to_display",
 ]
 
@@ -83,12 +87,14 @@ _DIMENSION_OF = {
 
 # A leading number, then the unit expression (may be empty).
 _NUMBER = re.compile(r"^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
+# A leading "nan" or "inf": pint or float() would read these, the input must not.
+_NOT_FINITE = re.compile(r"^\s*[+-]?(?:nan|inf(?:inity)?)\b", re.IGNORECASE)
 
 _HINTS = {
     "psia": "surface pressures are read as gauge and station pressure as absolute: write psi",
     "bara": "surface pressures are read as gauge and station pressure as absolute: write bar",
-    "C": 'write degrees Celsius as "degC"',
-    "F": 'write degrees Fahrenheit as "degF" (F is the farad)',
+    "C": 'write degrees Celsius as "degC"; C is the coulomb',
+    "F": 'write degrees Fahrenheit as "degF"; F is the farad',
     "°C": 'write degrees Celsius as "degC"',
     "°F": 'write degrees Fahrenheit as "degF"',
     "lpm": 'write litres per minute as "L/min"',
@@ -118,47 +124,55 @@ def parse(value: Any, kind: str) -> float:
     sentence when the value is not a finite quantity of the expected kind.
     """
     spec = KINDS[kind]
+    give = f"give {expected(kind)}."
+    shown = as_written(value)
     if isinstance(value, bool):
-        raise UnitProblem(f"expected {expected(kind)}, got the boolean {value!r}")
+        raise UnitProblem(f"Expected {expected(kind)}, got the boolean {shown}.")
     if isinstance(value, int | float):
+        if not math.isfinite(value):
+            raise UnitProblem(f"The value {shown} is not a finite number; {give}")
         if kind != "dimensionless":
-            raise UnitProblem(
-                f"a bare number ({value!r}) has no unit; expected {expected(kind)}"
-            )
-        number = float(value)
-        unit = ""
-    elif isinstance(value, str):
-        match = _NUMBER.match(value)
-        if not match:
-            raise UnitProblem(
-                f"{value!r} does not start with a number; expected {expected(kind)}"
-            )
-        number = float(match.group(1))
-        unit = match.group(2).replace("%", "percent")
-    else:
-        raise UnitProblem(f"expected {expected(kind)}, got {type(value).__name__} {value!r}")
+            raise UnitProblem(f"The bare number {shown} has no unit; {give}")
+        return float(value)
+    if not isinstance(value, str):
+        raise UnitProblem(f"Expected {expected(kind)}, got {_noun(value)} {shown}.")
+    if _NOT_FINITE.match(value):
+        raise UnitProblem(f"The value {shown} is not a finite number; {give}")
+    match = _NUMBER.match(value)
+    if not match:
+        raise UnitProblem(f"The value {shown} does not start with a number; {give}")
+    number = float(match.group(1))
+    unit = match.group(2).replace("%", "percent")
     if not math.isfinite(number):
-        raise UnitProblem(f"{value!r} is not a finite number")
+        raise UnitProblem(f"The value {shown} is not a finite number; {give}")
     if unit == "" and kind != "dimensionless":
-        raise UnitProblem(f"{value!r} has no unit; expected {expected(kind)}")
+        raise UnitProblem(f"The value {shown} has no unit; {give}")
     if unit == "":
         return number
     ureg = registry()
     import pint
 
+    hint = _HINTS.get(unit, "")
+    if re.match(r"^[,_]\d", unit):
+        hint = "write the number without thousands separators"
+    hint = f" ({hint})" if hint else ""
     try:
         quantity = ureg.Quantity(number, unit)
     except (pint.errors.UndefinedUnitError, pint.errors.DefinitionSyntaxError) as exc:
-        hint = _HINTS.get(unit, "")
         raise UnitProblem(
-            f"unknown unit {unit!r} in {value!r}" + (f" ({hint})" if hint else "")
-            + f"; expected {expected(kind)}"
+            f'The unit "{unit}" in {shown} is not a known unit{hint}; {give}'
         ) from exc
     except Exception as exc:  # pint's parser raises several types for garbage
-        raise UnitProblem(f"cannot read the unit {unit!r} in {value!r}") from exc
+        raise UnitProblem(f'The unit "{unit}" in {shown} cannot be read{hint}; {give}') from exc
     if not _has_kind(quantity, kind):
         raise UnitProblem(
-            f"{value!r} is a {_describe(quantity)}, not a {kind}; expected {expected(kind)}"
+            f"The value {shown} is {_describe(quantity)}, not {_article(kind)}{hint}; {give}"
+        )
+    if kind == "temperature" and any(
+        name.startswith("delta_") for name, _ in quantity.unit_items()
+    ):
+        raise UnitProblem(
+            f"The value {shown} is a temperature difference, not a temperature; {give}"
         )
     if kind == "speed":
         result = quantity.to("turn / second").magnitude
@@ -166,16 +180,57 @@ def parse(value: Any, kind: str) -> float:
         result = quantity.to(spec.si or "dimensionless").magnitude
     result = float(result)
     if not math.isfinite(result):
-        raise UnitProblem(f"{value!r} is out of range")
+        raise UnitProblem(f"The value {shown} is out of range; {give}")
     return result
+
+
+def as_written(value: Any) -> str:
+    """``value`` as it would be written in TOML: ``"20 m"``, ``true``, ``[1, 2]``."""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, str):
+        escaped = value.replace("\\", "\\\\").replace('"', '\\"')
+        return f'"{escaped}"'
+    if isinstance(value, float):
+        if math.isnan(value):
+            return "nan"
+        if math.isinf(value):
+            return "inf" if value > 0 else "-inf"
+        return repr(value)
+    if isinstance(value, int):
+        return str(value)
+    if isinstance(value, list):
+        return "[" + ", ".join(as_written(v) for v in value) + "]"
+    if isinstance(value, dict):
+        items = ", ".join(f"{k} = {as_written(v)}" for k, v in value.items())
+        return "{ " + items + " }" if items else "{}"
+    if hasattr(value, "isoformat"):
+        return str(value.isoformat())
+    return str(value)
+
+
+def _noun(value: Any) -> str:
+    if isinstance(value, list):
+        return "an array"
+    if isinstance(value, dict):
+        return "a table"
+    if hasattr(value, "isoformat"):
+        return "a date or time"
+    return "the value"
 
 
 def expected(kind: str) -> str:
     """A phrase saying what a value of ``kind`` looks like, with examples."""
     spec = KINDS[kind]
+    head, sep, tail = spec.examples.rpartition(", ")
+    examples = f"{head} or {tail}" if sep else spec.examples
     if spec.name == "dimensionless":
-        return f"a plain number such as {spec.examples}"
-    return f"a {spec.name} with its unit, such as {spec.examples}"
+        return f"a plain number such as {examples}"
+    return f"a {spec.name} with its unit, such as {examples}"
+
+
+def _article(kind: str) -> str:
+    return "a plain number" if kind == "dimensionless" else f"a {kind}"
 
 
 def _has_kind(quantity: Any, kind: str) -> bool:
@@ -187,8 +242,8 @@ def _has_kind(quantity: Any, kind: str) -> bool:
 def _describe(quantity: Any) -> str:
     for name in _DIMENSION_OF:
         if _has_kind(quantity, name):
-            return name
-    return f"quantity of dimension {quantity.dimensionality}"
+            return _article(name)
+    return f"a quantity of dimension {quantity.dimensionality}"
 
 
 def display_unit(kind: str, system: str) -> str:
@@ -205,3 +260,41 @@ def to_display(value: float, si_unit: str, unit: str) -> float:
     if si_unit == "1/s" and unit == "rpm":
         return value * 60.0
     return float(ureg.Quantity(value, si_unit or "dimensionless").to(unit).magnitude)
+
+
+def fmt(x: float, sig: int = 5) -> str:
+    """Format a number to ``sig`` significant figures for a printed substitution.
+
+    Plain notation from 1e-4 to 1e7 (integers of six or seven digits are
+    printed whole rather than rounded), scientific notation outside.
+    """
+    if isinstance(x, bool):
+        return str(x)
+    if x == 0 or not math.isfinite(x):
+        return "0" if x == 0 else str(x)
+    magnitude = math.floor(math.log10(abs(x)))
+    if magnitude >= sig and magnitude < 7:
+        return f"{x:.0f}"
+    if -4 <= magnitude < 7:
+        decimals = max(0, sig - 1 - magnitude)
+        text = f"{x:.{decimals}f}"
+        return text
+    return f"{x:.{sig - 1}e}"
+
+
+_PRETTY = (("**", "^"), ("^3", "³"), ("^2", "²"), ("*", "·"), ("degC", "°C"), ("degF", "°F"))
+
+
+def pretty_unit(unit: str) -> str:
+    """A unit string as printed: ``m^3/s`` → ``m³/s``, ``Pa*s`` → ``Pa·s``."""
+    if unit in ("", "-", "dimensionless"):
+        return ""
+    for old, new in _PRETTY:
+        unit = unit.replace(old, new)
+    return unit
+
+
+def show(q: dict[str, Any], kind: str, system: str, sig: int = 4) -> str:
+    """A trace quantity ``{"value", "unit"}`` as printed in ``system``: ``"32.50 m"``."""
+    unit = display_unit(kind, system)
+    return f"{fmt(to_display(q['value'], q['unit'], unit), sig)} {pretty_unit(unit)}".strip()

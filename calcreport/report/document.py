@@ -1,0 +1,677 @@
+"""The PDF calculation report, laid out from a trace (JSON form) alone.
+
+Sections in a reviewer's order: cover, summary, contents, the system at a
+glance, conventions / assumptions / criteria / inputs, the calculation,
+design checks, charts, cautions, references, appendices (full step listing,
+friction-factor chart, files read and the input echoed verbatim). Every
+page carries the title block with ``Page N of M``. The renderer converts
+units for display and lays out text; it computes no engineering number.
+"""
+
+from __future__ import annotations
+
+import io
+import re
+import tomllib
+from collections.abc import Callable
+from functools import cache
+from pathlib import Path
+from typing import Any
+from xml.sax.saxutils import escape
+
+from reportlab.lib.units import mm
+from reportlab.pdfgen import canvas as rl_canvas
+from reportlab.platypus import (
+    BaseDocTemplate,
+    CondPageBreak,
+    Flowable,
+    Frame,
+    KeepTogether,
+    NextPageTemplate,
+    PageBreak,
+    PageTemplate,
+    Paragraph,
+    Spacer,
+    Table,
+    TableStyle,
+)
+from reportlab.platypus.tableofcontents import TableOfContents
+
+from calcreport.report import style
+from calcreport.report.mathtext import Equation
+from calcreport.units import display_unit, fmt, pretty_unit, show, to_display
+
+__all__ = ["render_pdf"]
+
+TEMPLATES = Path(__file__).parent / "templates"
+
+# Section of each step, by the first part of its id.
+SECTIONS = (
+    ("site", "Site and liquid properties", ("site.", "fluid.", "source.", "destination.")),
+    ("pipes", "Pipe hydraulics", ("pipe.",)),
+    ("system", "System head and total dynamic head", ("system.",)),
+    ("npsh", "NPSH available", ("npsh.",)),
+    ("power", "Power and energy", ("power.", "energy.")),
+)
+
+# Kind of quantity for display, by SI unit.
+_KIND_OF_UNIT = {
+    "m": "length", "m^3/s": "flow", "Pa": "pressure", "K": "temperature",
+    "kg/m^3": "density", "Pa*s": "viscosity", "m/s": "velocity", "W": "power", "J": "energy",
+}
+
+
+@cache
+def _jinja() -> Any:
+    import jinja2
+
+    return jinja2.Environment(
+        loader=jinja2.FileSystemLoader(str(TEMPLATES)),
+        autoescape=True,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        keep_trailing_newline=False,
+    )
+
+
+def _template(name: str, **values: Any) -> str:
+    return str(_jinja().get_template(name).render(**values))
+
+
+def _lines(name: str, **values: Any) -> list[str]:
+    return [line.strip() for line in _template(name, **values).splitlines() if line.strip()]
+
+
+def text(value: Any) -> str:
+    """Text from the input, escaped so it prints literally (no markup, no control chars)."""
+    cleaned = "".join(ch if ch >= " " or ch in "\t" else " " for ch in str(value))
+    return escape(cleaned)
+
+
+class _Report:
+    """Builds the story of one report from a trace."""
+
+    def __init__(self, trace: dict[str, Any], input_text: str,
+                 figures: dict[str, Any]) -> None:
+        self.t = trace
+        self.r = trace["results"]
+        self.system = trace["project"]["units"]
+        self.input_text = input_text
+        self.figures = figures
+        self.s = style.styles()
+        self.figure_count = 0
+        self.refs = {key: n for n, key in enumerate(trace["references"], start=1)}
+        try:
+            self.entered = tomllib.loads(input_text)
+        except tomllib.TOMLDecodeError:
+            self.entered = {}
+        self.section_number = 0
+
+    # -- helpers ---------------------------------------------------------------------------
+    def p(self, markup: str, st: Any = None) -> Paragraph:
+        return Paragraph(markup, st or self.s.body)
+
+    def heading(self, title: str, level: int = 1, numbered: bool = True) -> Paragraph:
+        if not numbered:
+            label = title
+        elif level == 1:
+            self.section_number += 1
+            self.sub_number = 0
+            label = f"{self.section_number}  {title}"
+        else:
+            self.sub_number += 1
+            label = f"{self.section_number}.{self.sub_number}  {title}"
+        para = Paragraph(escape(label), self.s.h1 if level == 1 else self.s.h2)
+        para._toc = (level - 1, label)  # type: ignore[attr-defined]
+        return para
+
+    def q(self, quantity: dict[str, Any] | None, kind: str | None = None, sig: int = 4) -> str:
+        if quantity is None:
+            return "—"
+        unit = quantity["unit"]
+        kind = kind or _KIND_OF_UNIT.get(unit)
+        if kind is None:
+            return f"{fmt(quantity['value'], sig)} {pretty_unit(unit)}".strip()
+        return show(quantity, kind, self.system, sig)
+
+    def q_both(self, quantity: dict[str, Any], kind: str | None = None) -> str:
+        """SI value, and the US value beside it in a US report."""
+        kind = kind or _KIND_OF_UNIT.get(quantity["unit"])
+        si = show(quantity, kind, "SI") if kind else self.q(quantity)
+        if self.system == "US" and kind:
+            return f"{si} ({show(quantity, kind, 'US')})"
+        return si
+
+    def table(self, rows: list[list[Any]], widths: list[float], header: bool = True,
+              extra: list[tuple[Any, ...]] | None = None) -> Table:
+        cells = [[c if isinstance(c, Flowable) else Paragraph(str(c), self.s.cell)
+                  for c in row] for row in rows]
+        table = Table(cells, colWidths=widths, repeatRows=1 if header else 0, hAlign="LEFT")
+        commands: list[tuple[Any, ...]] = [
+            ("VALIGN", (0, 0), (-1, -1), "TOP"),
+            ("LINEBELOW", (0, 0), (-1, -1), 0.25, style.RULE),
+            ("TOPPADDING", (0, 0), (-1, -1), 2),
+            ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
+            ("LEFTPADDING", (0, 0), (-1, -1), 3),
+            ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+        ]
+        if header:
+            commands += [("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
+                         ("LINEBELOW", (0, 0), (-1, 0), 0.8, style.INK)]
+        table.setStyle(TableStyle(commands + (extra or [])))
+        return table
+
+    def figure(self, key: str) -> list[Flowable]:
+        fig = self.figures.get(key)
+        if fig is None:
+            return []
+        from calcreport.report.vector import ChartFlowable
+
+        self.figure_count += 1
+        caption = f"Figure {self.figure_count} — {text(fig.title)}"
+        return [KeepTogether([ChartFlowable(fig.figure), self.p(caption, self.s.caption)])]
+
+    def ref(self, key: str) -> str:
+        return f"[{self.refs[key]}]" if key in self.refs else f"[{text(key)}]"
+
+    def entered_value(self, key: str) -> str:
+        node: Any = self.entered
+        for part in re.findall(r"[^.\[\]]+|\[\d+\]", key):
+            if part.startswith("["):
+                index = int(part[1:-1]) - 1
+                if not isinstance(node, list) or index >= len(node):
+                    return ""
+                node = node[index]
+            else:
+                if not isinstance(node, dict) or part not in node:
+                    return ""
+                node = node[part]
+        return "" if isinstance(node, dict | list) else str(node)
+
+    @property
+    def width(self) -> float:
+        page_w, _ = style.page_size(self.system)
+        return page_w - style.PAGE["margin_left"] - style.PAGE["margin_right"]
+
+    # -- sections --------------------------------------------------------------------------
+    def story(self) -> list[Flowable]:
+        story: list[Flowable] = []
+        story += self.cover()
+        story += [NextPageTemplate("body"), PageBreak()]
+        story += self.summary()
+        story += [PageBreak()] + self.contents()
+        story += [PageBreak()] + self.at_a_glance()
+        story += [PageBreak()] + self.basis()
+        story += [PageBreak()] + self.calculation()
+        story += [CondPageBreak(80 * mm)] + self.checks()
+        story += [PageBreak()] + self.charts()
+        story += [CondPageBreak(90 * mm)] + self.cautions()
+        story += [CondPageBreak(60 * mm)] + self.references()
+        story += [PageBreak()] + self.appendix()
+        return story
+
+    def cover(self) -> list[Flowable]:
+        pr = self.t["project"]
+        s = self.s
+        status = self.t["status"]
+        out: list[Flowable] = [Spacer(1, 4 * mm)]
+        out.append(self.p("PUMP-SYSTEM CALCULATION", s.cover_sub))
+        out.append(self.p(text(pr["title"]), s.cover_title))
+        if pr["client"]:
+            out.append(self.p(f"Client: {text(pr['client'])}", s.cover_sub))
+        out.append(Spacer(1, 6 * mm))
+        meta = [
+            ["Calculation no.", text(pr["calc_id"] or "—"), "Revision", text(pr["revision"] or "—")],
+            ["Date", text(pr["date"] or "—"), "Units", "SI" if self.system == "SI"
+             else "US customary"],
+        ]
+        out.append(self.table(meta, [32 * mm, 60 * mm, 25 * mm, 50 * mm], header=False))
+        out.append(Spacer(1, 6 * mm))
+        label = status["value"].upper()
+        banner = Table([[Paragraph(f"STATUS: {escape(label)}", s.status)],
+                        [Paragraph(escape(status["reason"]), s.small)]],
+                       colWidths=[self.width])
+        banner.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 1.2, style.INK),
+                                    ("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
+                                    ("ALIGN", (0, 0), (-1, -1), "CENTER")]))
+        out.append(banner)
+        out.append(Spacer(1, 6 * mm))
+        system = self.system_phrase()
+        preliminary = status["value"] == "preliminary"
+        out.append(self.p(_template("scope.j2", system=system, preliminary=preliminary,
+                                    flow=self.q(self.r["flow"], "flow"))))
+        out.append(Spacer(1, 4 * mm))
+        sign = [["", "Name / role", "Signature", "Date"],
+                ["Prepared by", text(pr["prepared_by"]), "", text(pr["date"])],
+                ["Checked by", text(pr["checked_by"]), "", ""],
+                ["Approved by", "", "", ""]]
+        table = Table([[Paragraph(str(c), s.cell) for c in row] for row in sign],
+                      colWidths=[28 * mm, 55 * mm, 55 * mm, 30 * mm],
+                      rowHeights=[5.5 * mm] + [10 * mm] * 3, hAlign="LEFT")
+        table.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 0.6, style.INK),
+                                   ("INNERGRID", (0, 0), (-1, -1), 0.3, style.RULE),
+                                   ("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
+                                   ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+        out.append(table)
+        out.append(Spacer(1, 5 * mm))
+        revisions = [["Rev.", "Date", "Description", "Prepared", "Checked"],
+                     [text(pr["revision"] or "—"), text(pr["date"]),
+                      "Issued for checking" if preliminary else "Issued", text(pr["prepared_by"]),
+                      text(pr["checked_by"])]]
+        stamp = Table([[Paragraph("Engineer's seal / stamp", s.small)]],
+                      colWidths=[45 * mm], rowHeights=[32 * mm])
+        stamp.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 0.6, style.INK),
+                                   ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+        rev = self.table(revisions, [12 * mm, 22 * mm, 40 * mm, 25 * mm, 25 * mm])
+        out.append(Table([[rev, stamp]], colWidths=[self.width - 48 * mm, 48 * mm],
+                         style=[("VALIGN", (0, 0), (-1, -1), "TOP"),
+                                ("LEFTPADDING", (0, 0), (-1, -1), 0)]))
+        return out
+
+    def system_phrase(self) -> str:
+        fluid = self.t["given"].get("fluid.temperature")
+        temperature = self.q(fluid, "temperature") if fluid else ""
+        kind = self.entered.get("fluid", {}).get("kind", "water")
+        liquid = "water" if kind == "water" else text(self.entered.get("fluid", {}).get(
+            "name", "the liquid"))
+        pipes = self.r["pipes"]
+        source = self.q(self.t["given"]["source.level"], "length")
+        destination = self.q(self.t["given"]["destination.level"], "length")
+        return (f"the transfer of {liquid} at {temperature} from the source surface at "
+                f"{source} to the destination surface at {destination} through "
+                f"{len(pipes)} pipe{'s' if len(pipes) != 1 else ''} "
+                f"({', '.join(text(p) for p in pipes)})")
+
+    def summary(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Summary")]
+        out.append(self.p(f"This calculation covers {self.system_phrase()}."))
+        pump = self.t["given"].get("pump.efficiency")
+        motor = self.t["given"].get("motor.efficiency")
+        out.append(self.p(
+            "<b>Pump:</b> not selected; "
+            + (f"efficiency {fmt(pump['value'], 3)} assumed for power." if pump
+               else "no efficiency given, so shaft power is not computed.")
+            + " <b>Motor:</b> "
+            + (f"efficiency {fmt(motor['value'], 3)} assumed; rating to be selected with the pump."
+               if motor else "not given.")))
+        rows = [["Case", "Flow", "TDH", "Pump eff.", "NPSHa", "NPSHr", "Margin", "Shaft power",
+                 "Electrical"]]
+        for case in self.t["cases"]:
+            res = self.r["cases"][case["id"]]
+            rows.append([
+                f"<b>{text(case['id'])}</b> {text(case['title'])}",
+                self.q(res["flow"], "flow"), self.q(res["total_dynamic_head"], "length"),
+                fmt(pump["value"], 3) if pump else "—",
+                self.q(res["npsh_available"], "length"), "—", "—",
+                self.q(res.get("shaft_power"), "power"),
+                self.q(res.get("electrical_power"), "power"),
+            ])
+        w = self.width
+        out.append(self.table(rows, [w * 0.25] + [w * 0.75 / 8] * 8))
+        out.append(Spacer(1, 4 * mm))
+        energy = self.r.get("energy", {})
+        if energy:
+            parts = [f"annual energy {self.q(energy['annual_energy'], 'energy', 5)}"]
+            if "annual_cost" in energy:
+                cost = energy["annual_cost"]
+                parts.append(f"annual energy cost {cost['value']:,.0f} {text(cost['unit'])}")
+            out.append(self.p("<b>Energy:</b> " + "; ".join(parts) + "."))
+        out.append(self.heading("Checks that are not a pass", 2))
+        open_checks = [c for c in self.t["checks"] if c["status"] != "pass"]
+        if open_checks:
+            out.append(self.check_table(open_checks))
+        else:
+            out.append(self.p("Every design check passes."))
+        out.append(self.heading("Open items", 2))
+        reason = self.t["status"]["reason"]
+        items = [text(reason[:1].upper() + reason[1:]) + "."] if \
+            self.t["status"]["value"] == "preliminary" else []
+        items += [text(n) for n in self.t["notes"]]
+        items += [f"{text(c['title'])} ({text(c['case'])}): {text(c['message'])}"
+                  for c in open_checks if c["status"] == "review" and c["message"]]
+        for n, item in enumerate(items or ["None."], start=1):
+            out.append(self.p(f"{n}. {item}"))
+        out.append(self.heading("Conclusion", 2))
+        out.append(self.p(self.conclusion()))
+        return out
+
+    def conclusion(self) -> str:
+        fails = [c for c in self.t["checks"] if c["status"] == "fail"]
+        tdh = self.q(self.r["total_dynamic_head"], "length")
+        flow = self.q(self.r["flow"], "flow")
+        if fails:
+            return (f"The design does <b>not</b> meet {len(fails)} criteri"
+                    f"{'on' if len(fails) == 1 else 'a'} (see "Design checks"): it must be revised "
+                    "before a pump is selected.")
+        if self.t["status"]["value"] == "preliminary":
+            return (f"The pump must deliver {flow} against a total dynamic head of {tdh} with "
+                    f"NPSH available of {self.q(self.r['npsh_available'], 'length')}; select the "
+                    "pump on its certified curve and recheck this calculation against it.")
+        return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
+
+    def contents(self) -> list[Flowable]:
+        toc = TableOfContents()
+        toc.levelStyles = self.s.toc
+        toc.dotsMinLevel = 0
+        return [Paragraph("Contents", self.s.h1), toc]
+
+    def at_a_glance(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("The system at a glance")]
+        out += self.figure("sketch")
+        out += self.figure("profile")
+        rows = [["Pipe", "Side", "Length", "Inner diameter", "Roughness", "Fittings (K × count)"]]
+        for ident, p in self.r["pipes"].items():
+            fittings = self.fitting_list(ident)
+            rows.append([text(ident), p["side"], self.q(p["length"], "length"),
+                         self.q(p["inner_diameter"], "diameter"),
+                         self.q(p["roughness"], "roughness", 3), fittings])
+        w = self.width
+        out.append(self.table(rows, [w * 0.08, w * 0.1, w * 0.12, w * 0.14, w * 0.12, w * 0.44]))
+        return out
+
+    def fitting_list(self, ident: str) -> str:
+        step = self.step(f"pipe.{ident}.k_total")
+        parts = []
+        for source in step["arguments"]["K"]["from"]:
+            base = source.rsplit(".", 1)[0]
+            note = self.entered_value(f"{base}.note")
+            count = self.entered_value(f"{base}.count") or "1"
+            K = self.entered_value(f"{base}.K")
+            parts.append(f"{text(note) or 'item'}: {text(K)} × {text(count)}")
+        for n in range(1, 100):
+            rated = self.steps_by_id.get(f"pipe.{ident}.equipment[{n}]")
+            if rated is None:
+                break
+            parts.append(f"{text(rated['title'].replace('Loss of ', ''))}: rated loss "
+                         f"{self.q_both(rated['arguments']['dp'], 'pressure')} at "
+                         f"{self.q(rated['arguments']['Q_rated'], 'flow')}")
+        return "; ".join(parts) or "none"
+
+    @property
+    def steps_by_id(self) -> dict[str, dict[str, Any]]:
+        if not hasattr(self, "_steps"):
+            self._steps = {s["id"]: s for s in self.t["steps"]}
+        return self._steps
+
+    def step(self, step_id: str) -> dict[str, Any]:
+        return self.steps_by_id[step_id]
+
+    def basis(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Basis of the calculation")]
+        out.append(self.heading("Conventions", 2))
+        box = [[self.p(f"C{n}. {line}", self.s.small)]
+               for n, line in enumerate(_lines("conventions.j2", us=self.system == "US"), 1)]
+        conventions = Table(box, colWidths=[self.width])
+        conventions.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 0.8, style.INK),
+                                         ("BACKGROUND", (0, 0), (-1, -1), style.SHADE)]))
+        out.append(conventions)
+        out.append(self.heading("Assumptions", 2))
+        for a in self.t["assumptions"]:
+            value = f" ({text(a['value'])})" if a.get("value") else ""
+            out.append(self.p(f"<b>{a['id']}</b>  {text(a['text'])}{value}"))
+        out.append(self.heading("Design criteria", 2))
+        rows = [["Criterion", "Limit", "Basis", "Source"]]
+        seen = set()
+        for c in self.t["checks"]:
+            key = (c["id"].split(".")[0], c["limit"]["value"] if c["limit"] else None)
+            if key in seen or c["limit"] is None:
+                continue
+            seen.add(key)
+            source = ("common practice, no published source" if c["reference"] ==
+                      "common_practice" else self.ref(c["reference"]))
+            rows.append([text(c["title"].split(" in ")[0]),
+                         f"{c['comparison']} {self.q(c['limit'])}",
+                         text(c["basis"]), source])
+        w = self.width
+        out.append(self.table(rows, [w * 0.2, w * 0.14, w * 0.46, w * 0.2]))
+        out.append(self.heading("Inputs as entered and as used (SI)", 2))
+        rows = [["Input key", "As entered", "As used (SI)"]]
+        for key, q in self.t["given"].items():
+            entered = self.entered_value(key)
+            si = f"{fmt(q['value'], 6)} {pretty_unit(q['unit'])}".strip()
+            if "pressure" in key and q["unit"] == "Pa":
+                si += " (abs)" if key == "site.station_pressure" else " (gauge)"
+            rows.append([self.p(text(key), self.s.mono), text(entered), si])
+        out.append(self.table(rows, [w * 0.42, w * 0.3, w * 0.28]))
+        return out
+
+    def step_block(self, st: dict[str, Any]) -> list[Flowable]:
+        s = self.s
+        head = (f"{text(st['title'])} <font name='DejaVuMono' size='7.5'>[{text(st['id'])}]"
+                f"</font>  {self.ref(st['reference'])}")
+        parts: list[Flowable] = [self.p(head, s.step_head), Equation(st["latex"], 10.5)]
+        parts.append(self.p(text(st["substituted"]), s.substituted))
+        result = {"value": st["value"], "unit": st["unit"]}
+        result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
+        inputs = ", ".join(text(i) for i in st["inputs"])
+        parts.append(self.p(f"<b>Result:</b> {result_text}    "
+                            f"<font size='7'>inputs: {inputs}</font>", s.substituted))
+        return [KeepTogether(parts)]
+
+    def calculation(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Calculation")]
+        for key, title, prefixes in SECTIONS:
+            steps = [st for st in self.t["steps"] if st["id"].startswith(prefixes)]
+            if not steps:
+                continue
+            out.append(self.heading(title, 2))
+            if key == "pipes":
+                out += self.pipe_section(steps)
+            else:
+                for st in steps:
+                    out += self.step_block(st)
+        return out
+
+    def pipe_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
+        out: list[Flowable] = []
+        sym = {"length": pretty_unit(display_unit("length", self.system)),
+               "diameter": pretty_unit(display_unit("diameter", self.system)),
+               "velocity": pretty_unit(display_unit("velocity", self.system))}
+        rows = [["Pipe", f"D [{sym['diameter']}]", f"L [{sym['length']}]",
+                 f"v [{sym['velocity']}]", "Re", "ε/D", "f", "ΣK", f"h_f [{sym['length']}]",
+                 f"h_m [{sym['length']}]"]]
+        for ident, p in self.r["pipes"].items():
+            def num(qty: dict[str, Any], kind: str) -> str:
+                return fmt(to_display(qty["value"], qty["unit"],
+                                      display_unit(kind, self.system)), 4)
+            rows.append([text(ident), num(p["inner_diameter"], "diameter"),
+                         num(p["length"], "length"), num(p["velocity"], "velocity"),
+                         f"{p['reynolds']['value']:,.0f}", fmt(p["relative_roughness"]["value"], 3),
+                         fmt(p["friction_factor"]["value"], 4), fmt(p["k_total"]["value"], 4),
+                         num(p["friction_loss"], "length"), num(p["minor_loss"], "length")])
+        w = self.width
+        out.append(self.table(rows, [w * 0.1] * 10))
+        out.append(self.p("One worked example of each equation type follows; every step of "
+                          "every pipe is listed in Appendix A.", self.s.small))
+        shown: set[str] = set()
+        for st in steps:
+            if st["function"] in shown:
+                continue
+            shown.add(st["function"])
+            out += self.step_block(st)
+        return out
+
+    def check_table(self, checks: list[dict[str, Any]]) -> Table:
+        rows = [["Status", "Check", "Case", "Value", "Limit", "Basis"]]
+        extra: list[tuple[Any, ...]] = []
+        for n, c in enumerate(checks, start=1):
+            unit = (c["value"] or c["limit"] or {"unit": ""})["unit"]
+            kind = _KIND_OF_UNIT.get(unit)
+            value = self.q(c["value"], kind) if c["value"] else "—"
+            if c["value"] and not kind:
+                value = f"{c['value']['value']:.4g}"
+            limit = f"{c['comparison']} {self.q(c['limit'], kind)}" if c["limit"] else text(
+                c["comparison"])
+            source = ("common practice" if c["reference"] == "common_practice"
+                      else self.ref(c["reference"]))
+            message = f"<br/><i>{text(c['message'])}</i>" if c["message"] else ""
+            rows.append([c["status"].upper(), text(c["title"]) + message, text(c["case"]),
+                         value, limit, f"{text(c['basis'])} ({source})"])
+            extra += [("BACKGROUND", (0, n), (0, n), style.STATUS_FILL[c["status"]]),
+                      ("TEXTCOLOR", (0, n), (0, n), style.STATUS_INK[c["status"]])]
+        w = self.width
+        table = self.table(rows, [w * 0.09, w * 0.25, w * 0.06, w * 0.11, w * 0.12, w * 0.37])
+        for n, c in enumerate(checks, start=1):
+            table._cellvalues[n][0] = Paragraph(
+                f"<font color='{'white' if c['status'] == 'fail' else 'black'}'><b>"
+                f"{c['status'].upper()}</b></font>", self.s.cell)
+        table.setStyle(TableStyle(extra))
+        return table
+
+    def checks(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Design checks")]
+        out.append(self.p("Sorted fail, review, pass. A limit of common practice is a rule of "
+                          "thumb for review, not a code requirement; a limit the project sets in "
+                          "its input fails when exceeded."))
+        out.append(self.check_table(self.t["checks"]))
+        return out
+
+    def charts(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Charts")]
+        for key in ("system_curve", "npsh", "loss_breakdown"):
+            out += self.figure(key)
+        return out
+
+    def cautions(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Exclusions, cautions and code-deferral notes")]
+        out.append(self.heading("Cautions from this calculation's results", 2))
+        specific = [f"{text(c['title'])} ({text(c['case'])}): {c['status']}"
+                    + (f" — {text(c['message'])}" if c["message"] else "")
+                    for c in self.t["checks"] if c["status"] != "pass"]
+        specific += [text(n) for n in self.t["notes"]]
+        for a in self.t["assumptions"]:
+            if "efficiency" in a["text"].lower():
+                specific.append(f"Assumption {a['id']}: {text(a['text'])}")
+        if "pump.efficiency" in self.t["given"]:
+            specific.append("The pump efficiency is an assumed value until a pump is selected; "
+                            "shaft and electrical power scale inversely with it.")
+        for n, item in enumerate(specific or ["None."], start=1):
+            out.append(self.p(f"{n}. {item}"))
+        out.append(self.heading("Standing cautions and code deferral", 2))
+        for n, line in enumerate(_lines("cautions.j2"), start=1):
+            out.append(self.p(f"{n}. {line}"))
+        return out
+
+    def references(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("References")]
+        for key, citation in self.t["references"].items():
+            out.append(self.p(f"[{self.refs[key]}] {text(citation)} "
+                              f"<font name='DejaVuMono' size='7'>({text(key)})</font>"))
+        return out
+
+    def appendix(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Appendix A — Full step listing", numbered=False)]
+        for st in self.t["steps"]:
+            out += self.step_block(st)
+        out += [PageBreak(), self.heading("Appendix B — Darcy friction factor chart", numbered=False)]
+        out += self.figure("friction_factor")
+        out += [PageBreak(), self.heading("Appendix C — Files read and the input as entered", numbered=False)]
+        inp = self.t["input"]
+        sw = self.t.get("software", {})
+        rows = [["File", "SHA-256"], [text(inp["path"]), self.p(text(inp["sha256"]),
+                                                               self.s.mono)]]
+        out.append(self.table(rows, [self.width * 0.4, self.width * 0.6]))
+        out.append(self.p(f"Produced by {text(sw.get('name', 'calcreport'))} "
+                          f"{text(sw.get('version', ''))}; trace format {text(self.t['format'])}.",
+                          self.s.small))
+        out.append(self.p(f"Input echoed verbatim (SHA-256 {text(inp['sha256'])}):", self.s.small))
+        for line in self.input_text.splitlines() or [""]:
+            out.append(Paragraph(text(line).replace(" ", "&nbsp;") or "&nbsp;", self.s.mono))
+        return out
+
+
+class _Doc(BaseDocTemplate):
+    def afterFlowable(self, flowable: Flowable) -> None:  # noqa: N802 (reportlab API)
+        toc = getattr(flowable, "_toc", None)
+        if toc is not None:
+            level, label = toc
+            key = f"s{id(flowable)}"
+            self.canv.bookmarkPage(key)
+            self.canv.addOutlineEntry(label, key, level=level, closed=level > 0)
+            self.notify("TOCEntry", (level, escape(label), self.page, key))
+
+
+def _canvas_maker(project: dict[str, Any], status: str) -> Callable[..., rl_canvas.Canvas]:
+    """A canvas that draws the title block with 'Page N of M' once the count is known."""
+
+    class TitleBlockCanvas(rl_canvas.Canvas):
+        def __init__(self, *args: Any, **kwargs: Any) -> None:
+            kwargs["invariant"] = 1
+            super().__init__(*args, **kwargs)
+            self._pages: list[dict[str, Any]] = []
+
+        def showPage(self) -> None:  # noqa: N802 (reportlab API)
+            self._pages.append(dict(self.__dict__))
+            self._startPage()
+
+        def save(self) -> None:
+            total = len(self._pages)
+            for state in self._pages:
+                self.__dict__.update(state)
+                self._title_block(total)
+                super().showPage()
+            super().save()
+
+        def _title_block(self, total: int) -> None:
+            width, height = self._pagesize
+            left = style.PAGE["margin_left"]
+            right = width - style.PAGE["margin_right"]
+            top = height - 10 * mm
+            h = style.PAGE["title_block_height"]
+            self.saveState()
+            self.setStrokeColor(style.INK)
+            self.setLineWidth(0.8)
+            self.rect(left, top - h, right - left, h)
+            col1 = left + (right - left) * 0.55
+            col2 = left + (right - left) * 0.78
+            self.line(col1, top - h, col1, top)
+            self.line(col2, top - h, col2, top)
+            self.setFont("DejaVu-Bold", 8.5)
+            title = project["title"]
+            while self.stringWidth(title, "DejaVu-Bold", 8.5) > col1 - left - 6 and len(title) > 4:
+                title = title[:-2]
+            if title != project["title"]:
+                title = title.rstrip() + "…"
+            self.drawString(left + 3, top - 6 * mm, title)
+            self.setFont("DejaVu", 7.2)
+            self.drawString(left + 3, top - 11 * mm, (project["client"] or "")[:90])
+            self.drawString(col1 + 3, top - 6 * mm, f"Calc. {project['calc_id'] or '—'}")
+            self.drawString(col1 + 3, top - 11 * mm,
+                            f"Rev. {project['revision'] or '—'}   {project['date']}")
+            self.setFont("DejaVu-Bold", 8.5)
+            self.drawString(col2 + 3, top - 6 * mm, f"Page {self._pageNumber} of {total}")
+            self.setFont("DejaVu", 7.2)
+            units = "SI units" if project["units"] == "SI" else "US customary units"
+            self.drawString(col2 + 3, top - 11 * mm, f"{units} · {status}")
+            self.setFont("DejaVu", 6.5)
+            self.setFillColor(style.RULE)
+            self.drawString(left, 9 * mm, "Calculation prepared with calcreport from the input "
+                            "and trace named in Appendix C. Verify before use.")
+            self.restoreState()
+
+    return TitleBlockCanvas
+
+
+def render_pdf(trace: dict[str, Any], input_text: str, figures: dict[str, Any]) -> bytes:
+    """The PDF report of ``trace`` as bytes (deterministic for the same inputs)."""
+    report = _Report(trace, input_text, figures)
+    project = trace["project"]
+    size = style.page_size(report.system)
+    buffer = io.BytesIO()
+    doc = _Doc(
+        buffer,
+        pagesize=size,
+        leftMargin=style.PAGE["margin_left"],
+        rightMargin=style.PAGE["margin_right"],
+        topMargin=style.PAGE["margin_top"],
+        bottomMargin=style.PAGE["margin_bottom"],
+        title=f"{project['calc_id']} {project['title']}".strip(),
+        author=project["prepared_by"] or "calcreport",
+        subject=f"Pump-system calculation, revision {project['revision']}".strip(),
+        creator="calcreport",
+        invariant=1,
+    )
+    frame = Frame(doc.leftMargin, doc.bottomMargin, doc.width, doc.height, id="body")
+    doc.addPageTemplates([PageTemplate("cover", [frame]), PageTemplate("body", [frame])])
+    doc.multiBuild(report.story(), canvasmaker=_canvas_maker(project, trace["status"]["value"]))
+    return buffer.getvalue()
