@@ -115,7 +115,11 @@ def solve(model: Model) -> Trace:
     low, high = _flow_span(model)
     flows = np.linspace(low, high, CURVE_POINTS)
     sweep = _hydraulics(
-        _Sweep(), model, design, liquid, surfaces,
+        _Sweep(),
+        model,
+        design,
+        liquid,
+        surfaces,
         flow=Given(flows, "m^3/s", "flow_range"),  # type: ignore[arg-type]
     )
     curve = {
@@ -188,8 +192,12 @@ def _barometric(b: TraceBuilder, model: Model) -> Given:
     elevation = model.site.elevation or b.assume(
         "Site elevation not given: the source surface is taken at sea level.", 0.0, "m"
     )
-    return b.step("site.barometric_pressure", "Barometric pressure at the site",
-                  atmosphere.pressure, z=elevation)
+    return b.step(
+        "site.barometric_pressure",
+        "Barometric pressure at the site",
+        atmosphere.pressure,
+        z=elevation,
+    )
 
 
 def _liquid(b: TraceBuilder, model: Model, p_baro: Given) -> Liquid:
@@ -198,18 +206,24 @@ def _liquid(b: TraceBuilder, model: Model, p_baro: Given) -> Liquid:
         assert fluid.density and fluid.viscosity and fluid.vapor_pressure
         return Liquid(fluid.density, fluid.viscosity, fluid.vapor_pressure)
     T = fluid.temperature
-    p_v = b.step("fluid.vapor_pressure", "Vapour pressure of water", water.saturation_pressure,
-                 T=T)
+    p_v = b.step("fluid.vapor_pressure", "Vapour pressure of water", water.saturation_pressure, T=T)
     if model.source.saturation:
         p = p_v
     else:
         assert model.source.pressure is not None
-        p = b.step("fluid.pressure", "Absolute pressure on the source surface",
-                   head.absolute_pressure, p_baro=p_baro, p_g=model.source.pressure)
+        p = b.step(
+            "fluid.pressure",
+            "Absolute pressure on the source surface",
+            head.absolute_pressure,
+            p_baro=p_baro,
+            p_g=model.source.pressure,
+        )
     rho = b.step("fluid.density", "Density of water", water.density, T=T, p=p)
     mu = b.step("fluid.viscosity", "Dynamic viscosity of water", water.viscosity, T=T, rho=rho)
-    b.assume("Liquid properties are those at the source surface pressure and the stated "
-             "temperature throughout the system.")
+    b.assume(
+        "Liquid properties are those at the source surface pressure and the stated "
+        "temperature throughout the system."
+    )
     return Liquid(rho, mu, p_v)
 
 
@@ -222,15 +236,23 @@ def _exit_head(b: TraceBuilder, model: Model) -> Given | None:
     """None for a free discharge (the velocity head is computed per case)."""
     if model.destination.inlet == "free":
         return None
-    return b.assume("Submerged inlet: the exit loss is a fitting item (K = 1); no outlet "
-                    "velocity head is added.", 0.0, "m")
+    return b.assume(
+        "Submerged inlet: the exit loss is a fitting item (K = 1); no outlet "
+        "velocity head is added.",
+        0.0,
+        "m",
+    )
 
 
 def _surface_pressure(b: TraceBuilder, vessel: Vessel, liquid: Liquid, p_baro: Given) -> Given:
     if vessel.saturation:
-        return b.step(f"{vessel.role}.pressure",
-                      f"Gauge pressure on the boiling {vessel.role} surface",
-                      head.saturation_gauge_pressure, p_v=liquid.vapor_pressure, p_baro=p_baro)
+        return b.step(
+            f"{vessel.role}.pressure",
+            f"Gauge pressure on the boiling {vessel.role} surface",
+            head.saturation_gauge_pressure,
+            p_v=liquid.vapor_pressure,
+            p_baro=p_baro,
+        )
     assert vessel.pressure is not None
     return vessel.pressure
 
@@ -239,52 +261,114 @@ def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[
     sid = case.sid
     name = f"pipe.{pipe.id}"
     D = pipe.inner_diameter
-    v = ev.step(sid(f"{name}.velocity"), f"Mean velocity in {pipe.id}", losses.velocity,
-                case.id, Q=flow, D=D)
-    Re = ev.step(sid(f"{name}.reynolds"), f"Reynolds number in {pipe.id}", friction.reynolds,
-                 case.id, rho=liquid.density, v=v, D=D, mu=liquid.viscosity)
-    eD = ev.step(sid(f"{name}.relative_roughness"), f"Relative roughness of {pipe.id}",
-                 friction.relative_roughness, case.id, roughness=pipe.roughness, D=D)
+    v = ev.step(
+        sid(f"{name}.velocity"),
+        f"Mean velocity in {pipe.id}",
+        losses.velocity,
+        case.id,
+        Q=flow,
+        D=D,
+    )
+    Re = ev.step(
+        sid(f"{name}.reynolds"),
+        f"Reynolds number in {pipe.id}",
+        friction.reynolds,
+        case.id,
+        rho=liquid.density,
+        v=v,
+        D=D,
+        mu=liquid.viscosity,
+    )
+    eD = ev.step(
+        sid(f"{name}.relative_roughness"),
+        f"Relative roughness of {pipe.id}",
+        friction.relative_roughness,
+        case.id,
+        roughness=pipe.roughness,
+        D=D,
+    )
     out = {"velocity": v, "reynolds": Re, "relative_roughness": eD}
     title = f"Darcy friction factor in {pipe.id}"
     if isinstance(ev, TraceBuilder) and Re.value < friction.LAMINAR_LIMIT:
-        f = ev.step(sid(f"{name}.friction_factor"), title + " (laminar)", friction.laminar,
-                    case.id, Re=Re)
+        f = ev.step(
+            sid(f"{name}.friction_factor"), title + " (laminar)", friction.laminar, case.id, Re=Re
+        )
     else:
         if isinstance(ev, TraceBuilder):
             out["friction_factor_explicit"] = ev.step(
                 sid(f"{name}.friction_factor_explicit"),
                 f"Explicit friction factor in {pipe.id} (cross-check)",
-                friction.swamee_jain, case.id, Re=Re, eD=eD)
-        f = ev.step(sid(f"{name}.friction_factor"), title + " (Colebrook)", friction.colebrook,
-                    case.id, Re=Re, eD=eD)
+                friction.swamee_jain,
+                case.id,
+                Re=Re,
+                eD=eD,
+            )
+        f = ev.step(
+            sid(f"{name}.friction_factor"),
+            title + " (Colebrook)",
+            friction.colebrook,
+            case.id,
+            Re=Re,
+            eD=eD,
+        )
     out["friction_factor"] = f
-    out["friction_loss"] = ev.step(sid(f"{name}.friction_loss"),
-                                   f"Friction loss in {pipe.id} (Darcy-Weisbach)",
-                                   losses.darcy_weisbach, case.id, f=f, L=pipe.length, D=D, v=v)
+    out["friction_loss"] = ev.step(
+        sid(f"{name}.friction_loss"),
+        f"Friction loss in {pipe.id} (Darcy-Weisbach)",
+        losses.darcy_weisbach,
+        case.id,
+        f=f,
+        L=pipe.length,
+        D=D,
+        v=v,
+    )
     coefficients = [ft for ft in pipe.fittings if ft.K is not None]
-    K = ev.step(sid(f"{name}.k_total"), f"Sum of fitting coefficients of {pipe.id}",
-                losses.k_total, case.id,
-                K=[ft.K for ft in coefficients],
-                count=[ft.count for ft in coefficients])
+    K = ev.step(
+        sid(f"{name}.k_total"),
+        f"Sum of fitting coefficients of {pipe.id}",
+        losses.k_total,
+        case.id,
+        K=[ft.K for ft in coefficients],
+        count=[ft.count for ft in coefficients],
+    )
     out["k_total"] = K
-    out["fitting_loss"] = ev.step(sid(f"{name}.fitting_loss"), f"Fitting losses in {pipe.id}",
-                                  losses.minor_loss, case.id, K_total=K, v=v)
+    out["fitting_loss"] = ev.step(
+        sid(f"{name}.fitting_loss"),
+        f"Fitting losses in {pipe.id}",
+        losses.minor_loss,
+        case.id,
+        K_total=K,
+        v=v,
+    )
     rated = [
-        ev.step(sid(f"{name}.equipment[{i}]"), f"Loss of {ft.label} in {pipe.id}",
-                losses.rated_loss, case.id, dp=ft.dp, Q=flow, Q_rated=ft.at_flow,
-                rho=liquid.density)
+        ev.step(
+            sid(f"{name}.equipment[{i}]"),
+            f"Loss of {ft.label} in {pipe.id}",
+            losses.rated_loss,
+            case.id,
+            dp=ft.dp,
+            Q=flow,
+            Q_rated=ft.at_flow,
+            rho=liquid.density,
+        )
         for i, ft in enumerate(pipe.fittings, start=1)
         if ft.dp is not None
     ]
     if rated:
-        out["equipment_loss"] = ev.step(sid(f"{name}.equipment_loss"),
-                                        f"Equipment losses in {pipe.id}", losses.head_sum,
-                                        case.id, h=rated)
-        out["minor_loss"] = ev.step(sid(f"{name}.minor_loss"),
-                                    f"Minor losses in {pipe.id} (fittings and equipment)",
-                                    losses.head_sum, case.id,
-                                    h=[out["fitting_loss"], out["equipment_loss"]])
+        out["equipment_loss"] = ev.step(
+            sid(f"{name}.equipment_loss"),
+            f"Equipment losses in {pipe.id}",
+            losses.head_sum,
+            case.id,
+            h=rated,
+        )
+        out["minor_loss"] = ev.step(
+            sid(f"{name}.minor_loss"),
+            f"Minor losses in {pipe.id} (fittings and equipment)",
+            losses.head_sum,
+            case.id,
+            h=[out["fitting_loss"], out["equipment_loss"]],
+        )
     else:
         out["minor_loss"] = out["fitting_loss"]
     return out
@@ -309,36 +393,81 @@ def _hydraulics(
     sid = case.sid
     pipes = {p.id: _pipe(ev, case, p, Q, liquid) for p in model.pipes}
     out: dict[str, Any] = {"pipes": pipes}
-    out["static_head"] = ev.step(sid("system.static_head"), "Static head", head.static_head,
-                                 case.id, z_d=case.destination_level, z_s=case.source_level)
-    out["pressure_head"] = ev.step(sid("system.pressure_head"), "Pressure head",
-                                   head.pressure_head, case.id, p_d=p_dest, p_s=p_source,
-                                   rho=liquid.density)
-    out["friction_loss"] = ev.step(sid("system.friction_loss"), "Friction loss of all pipes",
-                                   losses.head_sum, case.id,
-                                   h=[p["friction_loss"] for p in pipes.values()])
-    out["minor_loss"] = ev.step(sid("system.minor_loss"),
-                                "Minor and equipment losses of all pipes", losses.head_sum,
-                                case.id, h=[p["minor_loss"] for p in pipes.values()])
+    out["static_head"] = ev.step(
+        sid("system.static_head"),
+        "Static head",
+        head.static_head,
+        case.id,
+        z_d=case.destination_level,
+        z_s=case.source_level,
+    )
+    out["pressure_head"] = ev.step(
+        sid("system.pressure_head"),
+        "Pressure head",
+        head.pressure_head,
+        case.id,
+        p_d=p_dest,
+        p_s=p_source,
+        rho=liquid.density,
+    )
+    out["friction_loss"] = ev.step(
+        sid("system.friction_loss"),
+        "Friction loss of all pipes",
+        losses.head_sum,
+        case.id,
+        h=[p["friction_loss"] for p in pipes.values()],
+    )
+    out["minor_loss"] = ev.step(
+        sid("system.minor_loss"),
+        "Minor and equipment losses of all pipes",
+        losses.head_sum,
+        case.id,
+        h=[p["minor_loss"] for p in pipes.values()],
+    )
     if exit_head is None:
         last = model.pipes[-1]
-        exit_head = ev.step(sid("system.outlet_velocity_head"),
-                            f"Velocity head leaving the free discharge of {last.id}",
-                            losses.velocity_head, case.id, v=pipes[last.id]["velocity"])
+        exit_head = ev.step(
+            sid("system.outlet_velocity_head"),
+            f"Velocity head leaving the free discharge of {last.id}",
+            losses.velocity_head,
+            case.id,
+            v=pipes[last.id]["velocity"],
+        )
     out["outlet_velocity_head"] = exit_head
-    out["tdh"] = ev.step(sid("system.total_dynamic_head"), "Total dynamic head",
-                         head.total_dynamic_head, case.id, H_s=out["static_head"],
-                         H_p=out["pressure_head"], h_f=out["friction_loss"],
-                         h_m=out["minor_loss"], h_v_out=exit_head)
-    suction = [pipes[p.id][key] for p in model.suction_pipes
-               for key in ("friction_loss", "minor_loss")]
-    out["suction_loss"] = ev.step(sid("npsh.suction_loss"), "Head loss of the suction side",
-                                  losses.head_sum, case.id, h=suction)
-    out["npsh_available"] = ev.step(sid("npsh.available"), "NPSH available",
-                                    head.npsh_available, case.id, p_baro=p_baro, p_s=p_source,
-                                    rho=liquid.density, z_s=case.npsh_level,
-                                    z_p=model.pump.elevation, h_L=out["suction_loss"],
-                                    p_v=liquid.vapor_pressure)
+    out["tdh"] = ev.step(
+        sid("system.total_dynamic_head"),
+        "Total dynamic head",
+        head.total_dynamic_head,
+        case.id,
+        H_s=out["static_head"],
+        H_p=out["pressure_head"],
+        h_f=out["friction_loss"],
+        h_m=out["minor_loss"],
+        h_v_out=exit_head,
+    )
+    suction = [
+        pipes[p.id][key] for p in model.suction_pipes for key in ("friction_loss", "minor_loss")
+    ]
+    out["suction_loss"] = ev.step(
+        sid("npsh.suction_loss"),
+        "Head loss of the suction side",
+        losses.head_sum,
+        case.id,
+        h=suction,
+    )
+    out["npsh_available"] = ev.step(
+        sid("npsh.available"),
+        "NPSH available",
+        head.npsh_available,
+        case.id,
+        p_baro=p_baro,
+        p_s=p_source,
+        rho=liquid.density,
+        z_s=case.npsh_level,
+        z_p=model.pump.elevation,
+        h_L=out["suction_loss"],
+        p_v=liquid.vapor_pressure,
+    )
     return out
 
 
@@ -353,31 +482,63 @@ def _power(
 ) -> dict[str, Any]:
     sid = case.sid
     out: dict[str, Any] = {}
-    P_h = b.step(sid("power.hydraulic"), "Hydraulic power", power.hydraulic_power, case.id,
-                 rho=liquid.density, Q=case.flow, H=hydraulics["tdh"])
+    P_h = b.step(
+        sid("power.hydraulic"),
+        "Hydraulic power",
+        power.hydraulic_power,
+        case.id,
+        rho=liquid.density,
+        Q=case.flow,
+        H=hydraulics["tdh"],
+    )
     out["hydraulic_power"] = _q(P_h)
     if model.pump.efficiency is None:
         return out
-    P_s = b.step(sid("power.shaft"), "Shaft power", power.shaft_power, case.id, P_h=P_h,
-                 eta_p=model.pump.efficiency)
+    P_s = b.step(
+        sid("power.shaft"),
+        "Shaft power",
+        power.shaft_power,
+        case.id,
+        P_h=P_h,
+        eta_p=model.pump.efficiency,
+    )
     out["shaft_power"] = _q(P_s)
     if model.motor_efficiency is None:
         return out
-    P_e = b.step(sid("power.electrical"), "Electrical input power", power.electrical_power,
-                 case.id, P_s=P_s, eta_m=model.motor_efficiency, eta_d=eta_drive)
+    P_e = b.step(
+        sid("power.electrical"),
+        "Electrical input power",
+        power.electrical_power,
+        case.id,
+        P_s=P_s,
+        eta_m=model.motor_efficiency,
+        eta_d=eta_drive,
+    )
     out["electrical_power"] = _q(P_e)
     op = model.operation
     if op.hours_per_year is None:
         notes.append("Annual energy is not computed: operation.hours_per_year is not given.")
         return out
-    hours = b.step(sid("energy.operating_time"), "Operating time per year",
-                   power.hours_to_seconds, case.id, hours=op.hours_per_year)
-    E = b.step(sid("energy.annual"), "Annual energy", power.annual_energy, case.id, P_e=P_e,
-               t=hours)
+    hours = b.step(
+        sid("energy.operating_time"),
+        "Operating time per year",
+        power.hours_to_seconds,
+        case.id,
+        hours=op.hours_per_year,
+    )
+    E = b.step(
+        sid("energy.annual"), "Annual energy", power.annual_energy, case.id, P_e=P_e, t=hours
+    )
     energy = {"annual_energy": _q(E)}
     if op.energy_price is not None:
-        C = b.step(sid("energy.annual_cost"), "Annual energy cost", power.annual_cost, case.id,
-                   E=E, price=op.energy_price)
+        C = b.step(
+            sid("energy.annual_cost"),
+            "Annual energy cost",
+            power.annual_cost,
+            case.id,
+            E=E,
+            price=op.energy_price,
+        )
         energy["annual_cost"] = quantity(C.value, op.currency)
     out["energy"] = energy
     return out
@@ -387,9 +548,13 @@ def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model) -> 
     pipes = {}
     for pipe in model.pipes:
         values = h["pipes"][pipe.id]
-        entry = {"inner_diameter": _q(pipe.inner_diameter), "length": _q(pipe.length),
-                 "roughness": _q(pipe.roughness), "side": pipe.side,
-                 "regime": friction.flow_regime(values["reynolds"].value)}
+        entry = {
+            "inner_diameter": _q(pipe.inner_diameter),
+            "length": _q(pipe.length),
+            "roughness": _q(pipe.roughness),
+            "side": pipe.side,
+            "regime": friction.flow_regime(values["reynolds"].value),
+        }
         entry.update({key: _q(value) for key, value in values.items()})
         if pipe.elevation_start and pipe.elevation_end:
             entry["elevation_start"] = _q(pipe.elevation_start)
@@ -415,8 +580,9 @@ def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model) -> 
     }
 
 
-def _profile(model: Model, case: Case, liquid: Liquid, h: dict[str, Any], p_source: Given,
-             p_dest: Given) -> dict[str, Any]:
+def _profile(
+    model: Model, case: Case, liquid: Liquid, h: dict[str, Any], p_source: Given, p_dest: Given
+) -> dict[str, Any]:
     """Energy and hydraulic grade lines at every pipe end, source to destination.
 
     Friction is lost along each pipe and its minor losses are drawn at its
@@ -425,8 +591,15 @@ def _profile(model: Model, case: Case, liquid: Liquid, h: dict[str, Any], p_sour
     """
     rho_g = liquid.density.value * losses.G
     egl = case.source_level.value + p_source.value / rho_g
-    nodes = [{"name": "source surface", "distance": 0.0, "egl": egl, "hgl": egl,
-              "elevation": case.source_level.value}]
+    nodes = [
+        {
+            "name": "source surface",
+            "distance": 0.0,
+            "egl": egl,
+            "hgl": egl,
+            "elevation": case.source_level.value,
+        }
+    ]
     distance = 0.0
     pumped = False
     for pipe in model.pipes:
@@ -437,20 +610,44 @@ def _profile(model: Model, case: Case, liquid: Liquid, h: dict[str, Any], p_sour
         hv = float(losses.velocity_head(values["velocity"].value))
         start = pipe.elevation_start.value if pipe.elevation_start else None
         end = pipe.elevation_end.value if pipe.elevation_end else None
-        nodes.append({"name": f"{pipe.id} start", "distance": distance, "egl": egl,
-                      "hgl": egl - hv, "elevation": start})
+        nodes.append(
+            {
+                "name": f"{pipe.id} start",
+                "distance": distance,
+                "egl": egl,
+                "hgl": egl - hv,
+                "elevation": start,
+            }
+        )
         distance += pipe.length.value
         egl -= values["friction_loss"].value
-        nodes.append({"name": f"{pipe.id} end", "distance": distance, "egl": egl,
-                      "hgl": egl - hv, "elevation": end})
+        nodes.append(
+            {
+                "name": f"{pipe.id} end",
+                "distance": distance,
+                "egl": egl,
+                "hgl": egl - hv,
+                "elevation": end,
+            }
+        )
         egl -= values["minor_loss"].value
     if not pumped:
         egl += h["tdh"].value
     final = case.destination_level.value + p_dest.value / rho_g
-    nodes.append({"name": "destination surface", "distance": distance, "egl": egl,
-                  "hgl": final, "elevation": case.destination_level.value})
-    return {"nodes": nodes, "unit": "m", "pump_after": model.suction_pipes[-1].id
-            if model.suction_pipes else ""}
+    nodes.append(
+        {
+            "name": "destination surface",
+            "distance": distance,
+            "egl": egl,
+            "hgl": final,
+            "elevation": case.destination_level.value,
+        }
+    )
+    return {
+        "nodes": nodes,
+        "unit": "m",
+        "pump_after": model.suction_pipes[-1].id if model.suction_pipes else "",
+    }
 
 
 def _flow_span(model: Model) -> tuple[float, float]:

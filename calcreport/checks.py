@@ -52,24 +52,43 @@ def _status(ok: bool, project_set: bool) -> str:
     return "fail" if project_set else "review"
 
 
-def _velocity(model: Model, pipe: dict[str, Any], pipe_id: str, side: str,
-              case: str) -> list[Check]:
+def _velocity(
+    model: Model, pipe: dict[str, Any], pipe_id: str, side: str, case: str
+) -> list[Check]:
     v = pipe["velocity"]["value"]
     name = f"{side}_velocity_max"
     limit, basis, ref, project = _limit(model, name)
-    checks = [Check(
-        id=f"velocity_max.{pipe_id}", title=f"Velocity in {side} pipe {pipe_id}",
-        status=_status(v <= limit, project), value=v, unit="m/s", limit=limit,
-        comparison="<=", basis=basis, reference=ref, case=case,
-        message="" if v <= limit else f"{v:.3g} m/s exceeds the {side} limit {limit:.3g} m/s",
-    )]
+    checks = [
+        Check(
+            id=f"velocity_max.{pipe_id}",
+            title=f"Velocity in {side} pipe {pipe_id}",
+            status=_status(v <= limit, project),
+            value=v,
+            unit="m/s",
+            limit=limit,
+            comparison="<=",
+            basis=basis,
+            reference=ref,
+            case=case,
+            message="" if v <= limit else f"{v:.3g} m/s exceeds the {side} limit {limit:.3g} m/s",
+        )
+    ]
     low, basis, ref, project = _limit(model, "velocity_min")
-    checks.append(Check(
-        id=f"velocity_min.{pipe_id}", title=f"Minimum velocity in pipe {pipe_id}",
-        status=_status(v >= low, project), value=v, unit="m/s", limit=low,
-        comparison=">=", basis=basis, reference=ref, case=case,
-        message="" if v >= low else f"{v:.3g} m/s is below {low:.3g} m/s",
-    ))
+    checks.append(
+        Check(
+            id=f"velocity_min.{pipe_id}",
+            title=f"Minimum velocity in pipe {pipe_id}",
+            status=_status(v >= low, project),
+            value=v,
+            unit="m/s",
+            limit=low,
+            comparison=">=",
+            basis=basis,
+            reference=ref,
+            case=case,
+            message="" if v >= low else f"{v:.3g} m/s is below {low:.3g} m/s",
+        )
+    )
     return checks
 
 
@@ -78,12 +97,17 @@ def _regime(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
     Re = pipe["reynolds"]["value"]
     transition = regime == "transition"
     return Check(
-        id=f"flow_regime.{pipe_id}", title=f"Flow regime in pipe {pipe_id}",
-        status="review" if transition else "pass", value=Re, unit="", limit=None,
+        id=f"flow_regime.{pipe_id}",
+        title=f"Flow regime in pipe {pipe_id}",
+        status="review" if transition else "pass",
+        value=Re,
+        unit="",
+        limit=None,
         comparison="not in 2000-4000",
         basis="Friction factors between Re 2000 and 4000 are uncertain; Colebrook is used "
         "there as the conservative value",
-        reference="moody_1944", case=case,
+        reference="moody_1944",
+        case=case,
         message=f"Re = {Re:.0f}: {regime} flow" + (" (transition band)" if transition else ""),
     )
 
@@ -91,19 +115,32 @@ def _regime(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
 def _npsh(results: dict[str, Any], case: str) -> list[Check]:
     npsha = results["npsh_available"]["value"]
     positive = Check(
-        id="npsh_available", title="NPSH available is positive",
-        status="pass" if npsha > 0.0 else "fail", value=npsha, unit="m", limit=0.0,
-        comparison=">", basis="With NPSHa at or below zero the liquid vaporises at the pump "
+        id="npsh_available",
+        title="NPSH available is positive",
+        status="pass" if npsha > 0.0 else "fail",
+        value=npsha,
+        unit="m",
+        limit=0.0,
+        comparison=">",
+        basis="With NPSHa at or below zero the liquid vaporises at the pump "
         "inlet whatever pump is chosen (suction lift beyond what the site allows)",
-        reference="hi_npsh", case=case,
+        reference="hi_npsh",
+        case=case,
         message="" if npsha > 0.0 else f"NPSHa = {npsha:.3g} m: reduce suction lift or losses",
     )
     margin = Check(
-        id="npsh_margin", title="NPSH margin over NPSH required",
-        status="review", value=npsha, unit="m", limit=None, comparison=">=",
+        id="npsh_margin",
+        title="NPSH margin over NPSH required",
+        status="review",
+        value=npsha,
+        unit="m",
+        limit=None,
+        comparison=">=",
         basis="NPSH required is not known until a pump is selected; compare NPSHa with the "
         "selected pump's NPSH3 and the margin its application needs",
-        reference="hi_npsh", case=case, message="open item: pump not selected",
+        reference="hi_npsh",
+        case=case,
+        message="open item: pump not selected",
     )
     return [positive, margin]
 
@@ -112,17 +149,22 @@ def _exit_item(model: Model, case: str) -> Check | None:
     if model.destination.inlet != "submerged":
         return None
     has_exit = any(
-        ft.kind == "exit" or _EXIT.search(ft.note)
-        for pipe in model.pipes
-        for ft in pipe.fittings
+        ft.kind == "exit" or _EXIT.search(ft.note) for pipe in model.pipes for ft in pipe.fittings
     )
     return Check(
-        id="exit_loss_item", title="Exit loss of the submerged inlet is listed",
-        status="pass" if has_exit else "review", value=None, unit="", limit=None,
+        id="exit_loss_item",
+        title="Exit loss of the submerged inlet is listed",
+        status="pass" if has_exit else "review",
+        value=None,
+        unit="",
+        limit=None,
         comparison="present",
         basis="The energy equation is written surface to surface: the exit loss (K = 1) "
         "must be a fitting item of the last pipe",
-        reference="calcreport_conventions", case=case,
-        message="" if has_exit else "no fitting item is noted as the exit; add "
+        reference="calcreport_conventions",
+        case=case,
+        message=""
+        if has_exit
+        else "no fitting item is noted as the exit; add "
         '{ K = 1.0, note = "exit" } to the last pipe if it discharges below the surface',
     )

@@ -42,8 +42,12 @@ def _parser() -> argparse.ArgumentParser:
     commands.required = True
 
     new = commands.add_parser("new", help="write a commented starter input file")
-    new.add_argument("path", nargs="?", default="pump-system.toml",
-                     help="file to write (default: pump-system.toml)")
+    new.add_argument(
+        "path",
+        nargs="?",
+        default="pump-system.toml",
+        help="file to write (default: pump-system.toml)",
+    )
     new.add_argument("--force", action="store_true", help="overwrite an existing file")
 
     check = commands.add_parser("check", help="validate an input file (exit 0 or 2)")
@@ -51,13 +55,19 @@ def _parser() -> argparse.ArgumentParser:
 
     solve = commands.add_parser("solve", help="solve and print a summary, or the trace JSON")
     solve.add_argument("input", help="the input TOML file")
-    solve.add_argument("--json", action="store_true",
-                       help="print the trace JSON (format calcreport-trace/1) instead")
+    solve.add_argument(
+        "--json",
+        action="store_true",
+        help="print the trace JSON (format calcreport-trace/1) instead",
+    )
     build = commands.add_parser("build", help="write the PDF report and the trace JSON")
     build.add_argument("input", help="the input TOML file")
-    build.add_argument("-o", "--output", metavar="DIR",
-                       help="folder for <input>.pdf and <input>.trace.json (default: beside "
-                       "the input)")
+    build.add_argument(
+        "-o",
+        "--output",
+        metavar="DIR",
+        help="folder for <input>.pdf and <input>.trace.json (default: beside the input)",
+    )
     return parser
 
 
@@ -161,7 +171,9 @@ def summary(trace: dict[str, Any]) -> str:
             lines.append(f"  {label:<{width}}{show(results[key], kind, system)}")
     energy = results.get("energy", {})
     if "annual_energy" in energy:
-        lines.append(f"  {'Annual energy':<{width}}{show(energy['annual_energy'], 'energy', system)}")
+        lines.append(
+            f"  {'Annual energy':<{width}}{show(energy['annual_energy'], 'energy', system)}"
+        )
     if "annual_cost" in energy:
         cost = energy["annual_cost"]
         lines.append(f"  {'Annual energy cost':<{width}}{cost['value']:,.0f} {cost['unit']}")

@@ -21,14 +21,22 @@ def write_all(files: dict[Path, bytes], protect: Path | None = None) -> None:
     if protect is not None:
         for path in files:
             if path.resolve() == protect.resolve():
-                raise InputError([Problem("output", f"refusing to write over the input file "
-                                          f"{protect}; choose another output folder")])
+                raise InputError(
+                    [
+                        Problem(
+                            "output",
+                            f"refusing to write over the input file "
+                            f"{protect}; choose another output folder",
+                        )
+                    ]
+                )
     temporary: dict[Path, str] = {}
     try:
         for path, content in files.items():
             path.parent.mkdir(parents=True, exist_ok=True)
-            handle, name = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.",
-                                            suffix=".part")
+            handle, name = tempfile.mkstemp(
+                dir=path.parent, prefix=f".{path.name}.", suffix=".part"
+            )
             temporary[path] = name
             with os.fdopen(handle, "wb") as out:
                 out.write(content)

@@ -227,8 +227,11 @@ class TraceBuilder:
         for name, arg in args.items():
             if isinstance(arg, list):
                 values[name] = tuple(a.value for a in arg)
-                arguments.append(Argument(name, values[name], arg[0].unit if arg else "",
-                                          tuple(a.key for a in arg)))
+                arguments.append(
+                    Argument(
+                        name, values[name], arg[0].unit if arg else "", tuple(a.key for a in arg)
+                    )
+                )
             else:
                 values[name] = arg.value
                 arguments.append(Argument(name, arg.value, arg.unit, arg.key))

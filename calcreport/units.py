@@ -63,7 +63,7 @@ KINDS: dict[str, Kind] = {
         Kind("volume", "m^3", "m^3", "gallon", '"250000 m^3", "2 Mgallon"'),
         Kind("speed", "1/s", "rpm", "rpm", '"2950 rpm"'),
         Kind("time", "s", "s", "s", '"2 s"'),
-        Kind("dimensionless", "", "", "", "0.72 or \"72 %\""),
+        Kind("dimensionless", "", "", "", '0.72 or "72 %"'),
     )
 }
 

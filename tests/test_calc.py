@@ -93,10 +93,12 @@ def test_against_independent_calculation(trace):
     assert r["shaft_power"]["value"] == pytest.approx(P_h / 0.78, rel=1e-5)
     assert r["electrical_power"]["value"] == pytest.approx(P_h / 0.78 / 0.92, rel=1e-5)
     energy = r["energy"]
-    assert energy["annual_energy"]["value"] == pytest.approx(P_h / 0.78 / 0.92 * 6000 * 3600,
-                                                             rel=1e-5)
+    assert energy["annual_energy"]["value"] == pytest.approx(
+        P_h / 0.78 / 0.92 * 6000 * 3600, rel=1e-5
+    )
     assert energy["annual_cost"]["value"] == pytest.approx(
-        P_h / 0.78 / 0.92 * 6000 / 1000 * 0.10, rel=1e-5)
+        P_h / 0.78 / 0.92 * 6000 / 1000 * 0.10, rel=1e-5
+    )
     assert energy["annual_cost"]["unit"] == "USD"
 
 
@@ -124,8 +126,15 @@ def test_system_curve_check_values(trace):
     curve = trace.results["system_curve"]
     flows = curve["flow"]["value"]
     heads = dict(zip((round(q * 1e3, 6) for q in flows), curve["head"]["value"], strict=True))
-    expected = {0: 23.0000, 5: 23.6898, 10: 25.5289, 15: 28.4685, 20: 32.4977, 25: 37.6122,
-                30: 43.8100}
+    expected = {
+        0: 23.0000,
+        5: 23.6898,
+        10: 25.5289,
+        15: 28.4685,
+        20: 32.4977,
+        25: 37.6122,
+        30: 43.8100,
+    }
     for q, h in expected.items():
         assert heads[float(q)] == pytest.approx(h, rel=1e-4)
 
@@ -134,9 +143,11 @@ def test_curve_passes_through_duty_point(trace):
     curve = trace.results["system_curve"]
     i = [round(q, 9) for q in curve["flow"]["value"]].index(0.02)
     assert curve["head"]["value"][i] == pytest.approx(
-        trace.results["total_dynamic_head"]["value"], rel=1e-13)
+        trace.results["total_dynamic_head"]["value"], rel=1e-13
+    )
     assert curve["npsh_available"]["value"][i] == pytest.approx(
-        trace.results["npsh_available"]["value"], rel=1e-13)
+        trace.results["npsh_available"]["value"], rel=1e-13
+    )
 
 
 def test_high_site_lowers_npsh_available():
@@ -184,9 +195,10 @@ def test_every_step_has_reference_and_unit_text():
 
 
 def test_free_discharge_adds_outlet_velocity_head():
-    free = CASE.replace('[destination]\nlevel = "25.0 m"',
-                        '[destination]\nlevel = "30.0 m"\ninlet = "free"\n'
-                        'outlet_elevation = "25.0 m"')
+    free = CASE.replace(
+        '[destination]\nlevel = "25.0 m"',
+        '[destination]\nlevel = "30.0 m"\ninlet = "free"\noutlet_elevation = "25.0 m"',
+    )
     free = free.replace(', { K = 1.0, note = "exit" }', "")
     r = solve(loads(free.encode())).results
     v = r["pipes"]["D1"]["velocity"]["value"]
@@ -201,13 +213,13 @@ def test_pressurised_destination_adds_pressure_head():
     pressurised = CASE.replace('level = "25.0 m"', 'level = "25.0 m"\npressure = "150 kPa"')
     t = solve(loads(pressurised.encode()))
     rho = t.results["fluid"]["density"]["value"]
-    assert t.results["pressure_head"]["value"] == pytest.approx(150e3 / (rho * 9.80665),
-                                                                rel=1e-14)
+    assert t.results["pressure_head"]["value"] == pytest.approx(150e3 / (rho * 9.80665), rel=1e-14)
 
 
 def test_boiling_source_cancels_pressure_terms():
     hot = CASE.replace('temperature = "20 degC"', 'temperature = "80 degC"').replace(
-        'level = "2.0 m"', 'level = "2.0 m"\npressure = "saturation"')
+        'level = "2.0 m"', 'level = "2.0 m"\npressure = "saturation"'
+    )
     r = solve(loads(hot.encode())).results
     suction = r["pipes"]["S1"]["friction_loss"]["value"] + r["pipes"]["S1"]["minor_loss"]["value"]
     # NPSHa = static suction head - suction losses when the surface is at saturation.
@@ -215,21 +227,26 @@ def test_boiling_source_cancels_pressure_terms():
 
 
 def test_equipment_rated_loss_scales_with_flow_squared():
-    with_hx = CASE.replace('{ K = 3.0, count = 1 }',
-                           '{ K = 3.0, count = 1 }, { dp = "35 kPa", at_flow = "40 L/s" }')
+    with_hx = CASE.replace(
+        "{ K = 3.0, count = 1 }", '{ K = 3.0, count = 1 }, { dp = "35 kPa", at_flow = "40 L/s" }'
+    )
     t = solve(loads(with_hx.encode()))
     rho = t.results["fluid"]["density"]["value"]
     d1 = t.results["pipes"]["D1"]
     expected = 35e3 / (rho * 9.80665) * 0.25
     assert d1["equipment_loss"]["value"] == pytest.approx(expected, rel=1e-14)
     assert d1["minor_loss"]["value"] == pytest.approx(
-        d1["fitting_loss"]["value"] + expected, rel=1e-14)
+        d1["fitting_loss"]["value"] + expected, rel=1e-14
+    )
 
 
 def test_laminar_pipe_uses_64_over_re():
-    viscous = CASE.replace('temperature = "20 degC"', 'kind = "custom"\ntemperature = "20 degC"\n'
-                           'density = "900 kg/m^3"\nviscosity = "0.5 Pa*s"\n'
-                           'vapor_pressure = "1 kPa"')
+    viscous = CASE.replace(
+        'temperature = "20 degC"',
+        'kind = "custom"\ntemperature = "20 degC"\n'
+        'density = "900 kg/m^3"\nviscosity = "0.5 Pa*s"\n'
+        'vapor_pressure = "1 kPa"',
+    )
     t = solve(loads(viscous.encode()))
     p = t.results["pipes"]["D1"]
     assert p["regime"] == "laminar"
@@ -238,9 +255,12 @@ def test_laminar_pipe_uses_64_over_re():
 
 
 def test_transition_band_is_flagged_for_review():
-    oil = CASE.replace('temperature = "20 degC"', 'kind = "custom"\ntemperature = "20 degC"\n'
-                       'density = "900 kg/m^3"\nviscosity = "0.08 Pa*s"\n'
-                       'vapor_pressure = "1 kPa"')
+    oil = CASE.replace(
+        'temperature = "20 degC"',
+        'kind = "custom"\ntemperature = "20 degC"\n'
+        'density = "900 kg/m^3"\nviscosity = "0.08 Pa*s"\n'
+        'vapor_pressure = "1 kPa"',
+    )
     t = solve(loads(oil.encode()))
     assert t.results["pipes"]["D1"]["regime"] == "transition"
     check = next(c for c in t.checks if c.id == "flow_regime.D1")
@@ -258,7 +278,8 @@ def test_missing_efficiency_omits_power_with_note():
 
 def test_velocity_limit_review_by_default_fail_when_project_sets_it():
     fast = CASE.replace('flow = "20 L/s"', 'flow = "30 L/s"').replace(
-        'flow_range = ["0 L/s", "30 L/s"]', "")
+        'flow_range = ["0 L/s", "30 L/s"]', ""
+    )
     t = solve(loads(fast.encode()))
     d1 = next(c for c in t.checks if c.id == "velocity_max.D1")
     assert d1.status == "review" and d1.reference == "common_practice"

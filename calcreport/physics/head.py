@@ -194,9 +194,7 @@ def saturation_gauge_pressure(p_v: Any, p_baro: Any) -> Any:
     " − {h_L} − {p_v} / ({rho} × 9.80665 m/s²)",
     reference="hi_npsh",
 )
-def npsh_available(
-    p_baro: Any, p_s: Any, rho: Any, z_s: Any, z_p: Any, h_L: Any, p_v: Any
-) -> Any:
+def npsh_available(p_baro: Any, p_s: Any, rho: Any, z_s: Any, z_p: Any, h_L: Any, p_v: Any) -> Any:
     r"""Net positive suction head available at the pump's datum.
 
     .. math:: NPSH_a = \frac{p_{baro} + p_s}{\rho g} + (z_s - z_p) - h_{L,s}

@@ -56,8 +56,15 @@ SECTIONS = (
 
 # Kind of quantity for display, by SI unit.
 _KIND_OF_UNIT = {
-    "m": "length", "m^3/s": "flow", "Pa": "pressure", "K": "temperature",
-    "kg/m^3": "density", "Pa*s": "viscosity", "m/s": "velocity", "W": "power", "J": "energy",
+    "m": "length",
+    "m^3/s": "flow",
+    "Pa": "pressure",
+    "K": "temperature",
+    "kg/m^3": "density",
+    "Pa*s": "viscosity",
+    "m/s": "velocity",
+    "W": "power",
+    "J": "energy",
 }
 
 
@@ -91,8 +98,7 @@ def text(value: Any) -> str:
 class _Report:
     """Builds the story of one report from a trace."""
 
-    def __init__(self, trace: dict[str, Any], input_text: str,
-                 figures: dict[str, Any]) -> None:
+    def __init__(self, trace: dict[str, Any], input_text: str, figures: dict[str, Any]) -> None:
         self.t = trace
         self.r = trace["results"]
         self.system = trace["project"]["units"]
@@ -142,10 +148,17 @@ class _Report:
             return f"{si} ({show(quantity, kind, 'US')})"
         return si
 
-    def table(self, rows: list[list[Any]], widths: list[float], header: bool = True,
-              extra: list[tuple[Any, ...]] | None = None) -> Table:
-        cells = [[c if isinstance(c, Flowable) else Paragraph(str(c), self.s.cell)
-                  for c in row] for row in rows]
+    def table(
+        self,
+        rows: list[list[Any]],
+        widths: list[float],
+        header: bool = True,
+        extra: list[tuple[Any, ...]] | None = None,
+    ) -> Table:
+        cells = [
+            [c if isinstance(c, Flowable) else Paragraph(str(c), self.s.cell) for c in row]
+            for row in rows
+        ]
         table = Table(cells, colWidths=widths, repeatRows=1 if header else 0, hAlign="LEFT")
         commands: list[tuple[Any, ...]] = [
             ("VALIGN", (0, 0), (-1, -1), "TOP"),
@@ -156,8 +169,10 @@ class _Report:
             ("RIGHTPADDING", (0, 0), (-1, -1), 3),
         ]
         if header:
-            commands += [("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
-                         ("LINEBELOW", (0, 0), (-1, 0), 0.8, style.INK)]
+            commands += [
+                ("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
+                ("LINEBELOW", (0, 0), (-1, 0), 0.8, style.INK),
+            ]
         table.setStyle(TableStyle(commands + (extra or [])))
         return table
 
@@ -221,91 +236,176 @@ class _Report:
             out.append(self.p(f"Client: {text(pr['client'])}", s.cover_sub))
         out.append(Spacer(1, 6 * mm))
         meta = [
-            ["Calculation no.", text(pr["calc_id"] or "—"), "Revision", text(pr["revision"] or "—")],
-            ["Date", text(pr["date"] or "—"), "Units", "SI" if self.system == "SI"
-             else "US customary"],
+            [
+                "Calculation no.",
+                text(pr["calc_id"] or "—"),
+                "Revision",
+                text(pr["revision"] or "—"),
+            ],
+            [
+                "Date",
+                text(pr["date"] or "—"),
+                "Units",
+                "SI" if self.system == "SI" else "US customary",
+            ],
         ]
         out.append(self.table(meta, [32 * mm, 60 * mm, 25 * mm, 50 * mm], header=False))
         out.append(Spacer(1, 6 * mm))
         label = status["value"].upper()
-        banner = Table([[Paragraph(f"STATUS: {escape(label)}", s.status)],
-                        [Paragraph(escape(status["reason"]), s.small)]],
-                       colWidths=[self.width])
-        banner.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 1.2, style.INK),
-                                    ("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
-                                    ("ALIGN", (0, 0), (-1, -1), "CENTER")]))
+        banner = Table(
+            [
+                [Paragraph(f"STATUS: {escape(label)}", s.status)],
+                [Paragraph(escape(status["reason"]), s.small)],
+            ],
+            colWidths=[self.width],
+        )
+        banner.setStyle(
+            TableStyle(
+                [
+                    ("BOX", (0, 0), (-1, -1), 1.2, style.INK),
+                    ("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
+                    ("ALIGN", (0, 0), (-1, -1), "CENTER"),
+                ]
+            )
+        )
         out.append(banner)
         out.append(Spacer(1, 6 * mm))
         system = self.system_phrase()
         preliminary = status["value"] == "preliminary"
-        out.append(self.p(_template("scope.j2", system=system, preliminary=preliminary,
-                                    flow=self.q(self.r["flow"], "flow"))))
+        out.append(
+            self.p(
+                _template(
+                    "scope.j2",
+                    system=system,
+                    preliminary=preliminary,
+                    flow=self.q(self.r["flow"], "flow"),
+                )
+            )
+        )
         out.append(Spacer(1, 4 * mm))
-        sign = [["", "Name / role", "Signature", "Date"],
-                ["Prepared by", text(pr["prepared_by"]), "", text(pr["date"])],
-                ["Checked by", text(pr["checked_by"]), "", ""],
-                ["Approved by", "", "", ""]]
-        table = Table([[Paragraph(str(c), s.cell) for c in row] for row in sign],
-                      colWidths=[28 * mm, 55 * mm, 55 * mm, 30 * mm],
-                      rowHeights=[5.5 * mm] + [10 * mm] * 3, hAlign="LEFT")
-        table.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 0.6, style.INK),
-                                   ("INNERGRID", (0, 0), (-1, -1), 0.3, style.RULE),
-                                   ("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
-                                   ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+        sign = [
+            ["", "Name / role", "Signature", "Date"],
+            ["Prepared by", text(pr["prepared_by"]), "", text(pr["date"])],
+            ["Checked by", text(pr["checked_by"]), "", ""],
+            ["Approved by", "", "", ""],
+        ]
+        table = Table(
+            [[Paragraph(str(c), s.cell) for c in row] for row in sign],
+            colWidths=[28 * mm, 55 * mm, 55 * mm, 30 * mm],
+            rowHeights=[5.5 * mm] + [10 * mm] * 3,
+            hAlign="LEFT",
+        )
+        table.setStyle(
+            TableStyle(
+                [
+                    ("BOX", (0, 0), (-1, -1), 0.6, style.INK),
+                    ("INNERGRID", (0, 0), (-1, -1), 0.3, style.RULE),
+                    ("BACKGROUND", (0, 0), (-1, 0), style.SHADE),
+                    ("VALIGN", (0, 0), (-1, -1), "TOP"),
+                ]
+            )
+        )
         out.append(table)
         out.append(Spacer(1, 5 * mm))
-        revisions = [["Rev.", "Date", "Description", "Prepared", "Checked"],
-                     [text(pr["revision"] or "—"), text(pr["date"]),
-                      "Issued for checking" if preliminary else "Issued", text(pr["prepared_by"]),
-                      text(pr["checked_by"])]]
-        stamp = Table([[Paragraph("Engineer's seal / stamp", s.small)]],
-                      colWidths=[45 * mm], rowHeights=[32 * mm])
-        stamp.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 0.6, style.INK),
-                                   ("VALIGN", (0, 0), (-1, -1), "TOP")]))
+        revisions = [
+            ["Rev.", "Date", "Description", "Prepared", "Checked"],
+            [
+                text(pr["revision"] or "—"),
+                text(pr["date"]),
+                "Issued for checking" if preliminary else "Issued",
+                text(pr["prepared_by"]),
+                text(pr["checked_by"]),
+            ],
+        ]
+        stamp = Table(
+            [[Paragraph("Engineer's seal / stamp", s.small)]],
+            colWidths=[45 * mm],
+            rowHeights=[32 * mm],
+        )
+        stamp.setStyle(
+            TableStyle(
+                [("BOX", (0, 0), (-1, -1), 0.6, style.INK), ("VALIGN", (0, 0), (-1, -1), "TOP")]
+            )
+        )
         rev = self.table(revisions, [12 * mm, 22 * mm, 40 * mm, 25 * mm, 25 * mm])
-        out.append(Table([[rev, stamp]], colWidths=[self.width - 48 * mm, 48 * mm],
-                         style=[("VALIGN", (0, 0), (-1, -1), "TOP"),
-                                ("LEFTPADDING", (0, 0), (-1, -1), 0)]))
+        out.append(
+            Table(
+                [[rev, stamp]],
+                colWidths=[self.width - 48 * mm, 48 * mm],
+                style=[("VALIGN", (0, 0), (-1, -1), "TOP"), ("LEFTPADDING", (0, 0), (-1, -1), 0)],
+            )
+        )
         return out
 
     def system_phrase(self) -> str:
         fluid = self.t["given"].get("fluid.temperature")
         temperature = self.q(fluid, "temperature") if fluid else ""
         kind = self.entered.get("fluid", {}).get("kind", "water")
-        liquid = "water" if kind == "water" else text(self.entered.get("fluid", {}).get(
-            "name", "the liquid"))
+        liquid = (
+            "water"
+            if kind == "water"
+            else text(self.entered.get("fluid", {}).get("name", "the liquid"))
+        )
         pipes = self.r["pipes"]
         source = self.q(self.t["given"]["source.level"], "length")
         destination = self.q(self.t["given"]["destination.level"], "length")
-        return (f"the transfer of {liquid} at {temperature} from the source surface at "
-                f"{source} to the destination surface at {destination} through "
-                f"{len(pipes)} pipe{'s' if len(pipes) != 1 else ''} "
-                f"({', '.join(text(p) for p in pipes)})")
+        return (
+            f"the transfer of {liquid} at {temperature} from the source surface at "
+            f"{source} to the destination surface at {destination} through "
+            f"{len(pipes)} pipe{'s' if len(pipes) != 1 else ''} "
+            f"({', '.join(text(p) for p in pipes)})"
+        )
 
     def summary(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Summary")]
         out.append(self.p(f"This calculation covers {self.system_phrase()}."))
         pump = self.t["given"].get("pump.efficiency")
         motor = self.t["given"].get("motor.efficiency")
-        out.append(self.p(
-            "<b>Pump:</b> not selected; "
-            + (f"efficiency {fmt(pump['value'], 3)} assumed for power." if pump
-               else "no efficiency given, so shaft power is not computed.")
-            + " <b>Motor:</b> "
-            + (f"efficiency {fmt(motor['value'], 3)} assumed; rating to be selected with the pump."
-               if motor else "not given.")))
-        rows = [["Case", "Flow", "TDH", "Pump eff.", "NPSHa", "NPSHr", "Margin", "Shaft power",
-                 "Electrical"]]
+        out.append(
+            self.p(
+                "<b>Pump:</b> not selected; "
+                + (
+                    f"efficiency {fmt(pump['value'], 3)} assumed for power."
+                    if pump
+                    else "no efficiency given, so shaft power is not computed."
+                )
+                + " <b>Motor:</b> "
+                + (
+                    f"efficiency {fmt(motor['value'], 3)} assumed; rating to be selected "
+                    "with the pump."
+                    if motor
+                    else "not given."
+                )
+            )
+        )
+        rows = [
+            [
+                "Case",
+                "Flow",
+                "TDH",
+                "Pump eff.",
+                "NPSHa",
+                "NPSHr",
+                "Margin",
+                "Shaft power",
+                "Electrical",
+            ]
+        ]
         for case in self.t["cases"]:
             res = self.r["cases"][case["id"]]
-            rows.append([
-                f"<b>{text(case['id'])}</b> {text(case['title'])}",
-                self.q(res["flow"], "flow"), self.q(res["total_dynamic_head"], "length"),
-                fmt(pump["value"], 3) if pump else "—",
-                self.q(res["npsh_available"], "length"), "—", "—",
-                self.q(res.get("shaft_power"), "power"),
-                self.q(res.get("electrical_power"), "power"),
-            ])
+            rows.append(
+                [
+                    f"<b>{text(case['id'])}</b> {text(case['title'])}",
+                    self.q(res["flow"], "flow"),
+                    self.q(res["total_dynamic_head"], "length"),
+                    fmt(pump["value"], 3) if pump else "—",
+                    self.q(res["npsh_available"], "length"),
+                    "—",
+                    "—",
+                    self.q(res.get("shaft_power"), "power"),
+                    self.q(res.get("electrical_power"), "power"),
+                ]
+            )
         w = self.width
         out.append(self.table(rows, [w * 0.25] + [w * 0.75 / 8] * 8))
         out.append(Spacer(1, 4 * mm))
@@ -324,11 +424,17 @@ class _Report:
             out.append(self.p("Every design check passes."))
         out.append(self.heading("Open items", 2))
         reason = self.t["status"]["reason"]
-        items = [text(reason[:1].upper() + reason[1:]) + "."] if \
-            self.t["status"]["value"] == "preliminary" else []
+        items = (
+            [text(reason[:1].upper() + reason[1:]) + "."]
+            if self.t["status"]["value"] == "preliminary"
+            else []
+        )
         items += [text(n) for n in self.t["notes"]]
-        items += [f"{text(c['title'])} ({text(c['case'])}): {text(c['message'])}"
-                  for c in open_checks if c["status"] == "review" and c["message"]]
+        items += [
+            f"{text(c['title'])} ({text(c['case'])}): {text(c['message'])}"
+            for c in open_checks
+            if c["status"] == "review" and c["message"]
+        ]
         for n, item in enumerate(items or ["None."], start=1):
             out.append(self.p(f"{n}. {item}"))
         out.append(self.heading("Conclusion", 2))
@@ -340,13 +446,17 @@ class _Report:
         tdh = self.q(self.r["total_dynamic_head"], "length")
         flow = self.q(self.r["flow"], "flow")
         if fails:
-            return (f"The design does <b>not</b> meet {len(fails)} criteri"
-                    f"{'on' if len(fails) == 1 else 'a'} (see "Design checks"): it must be revised "
-                    "before a pump is selected.")
+            return (
+                f"The design does <b>not</b> meet {len(fails)} criteri"
+                f"{'on' if len(fails) == 1 else 'a'} (see Design checks): it must be revised "
+                "before a pump is selected."
+            )
         if self.t["status"]["value"] == "preliminary":
-            return (f"The pump must deliver {flow} against a total dynamic head of {tdh} with "
-                    f"NPSH available of {self.q(self.r['npsh_available'], 'length')}; select the "
-                    "pump on its certified curve and recheck this calculation against it.")
+            return (
+                f"The pump must deliver {flow} against a total dynamic head of {tdh} with "
+                f"NPSH available of {self.q(self.r['npsh_available'], 'length')}; select the "
+                "pump on its certified curve and recheck this calculation against it."
+            )
         return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
 
     def contents(self) -> list[Flowable]:
@@ -362,9 +472,16 @@ class _Report:
         rows = [["Pipe", "Side", "Length", "Inner diameter", "Roughness", "Fittings (K × count)"]]
         for ident, p in self.r["pipes"].items():
             fittings = self.fitting_list(ident)
-            rows.append([text(ident), p["side"], self.q(p["length"], "length"),
-                         self.q(p["inner_diameter"], "diameter"),
-                         self.q(p["roughness"], "roughness", 3), fittings])
+            rows.append(
+                [
+                    text(ident),
+                    p["side"],
+                    self.q(p["length"], "length"),
+                    self.q(p["inner_diameter"], "diameter"),
+                    self.q(p["roughness"], "roughness", 3),
+                    fittings,
+                ]
+            )
         w = self.width
         out.append(self.table(rows, [w * 0.08, w * 0.1, w * 0.12, w * 0.14, w * 0.12, w * 0.44]))
         return out
@@ -382,9 +499,11 @@ class _Report:
             rated = self.steps_by_id.get(f"pipe.{ident}.equipment[{n}]")
             if rated is None:
                 break
-            parts.append(f"{text(rated['title'].replace('Loss of ', ''))}: rated loss "
-                         f"{self.q_both(rated['arguments']['dp'], 'pressure')} at "
-                         f"{self.q(rated['arguments']['Q_rated'], 'flow')}")
+            parts.append(
+                f"{text(rated['title'].replace('Loss of ', ''))}: rated loss "
+                f"{self.q_both(rated['arguments']['dp'], 'pressure')} at "
+                f"{self.q(rated['arguments']['Q_rated'], 'flow')}"
+            )
         return "; ".join(parts) or "none"
 
     @property
@@ -399,11 +518,19 @@ class _Report:
     def basis(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Basis of the calculation")]
         out.append(self.heading("Conventions", 2))
-        box = [[self.p(f"C{n}. {line}", self.s.small)]
-               for n, line in enumerate(_lines("conventions.j2", us=self.system == "US"), 1)]
+        box = [
+            [self.p(f"C{n}. {line}", self.s.small)]
+            for n, line in enumerate(_lines("conventions.j2", us=self.system == "US"), 1)
+        ]
         conventions = Table(box, colWidths=[self.width])
-        conventions.setStyle(TableStyle([("BOX", (0, 0), (-1, -1), 0.8, style.INK),
-                                         ("BACKGROUND", (0, 0), (-1, -1), style.SHADE)]))
+        conventions.setStyle(
+            TableStyle(
+                [
+                    ("BOX", (0, 0), (-1, -1), 0.8, style.INK),
+                    ("BACKGROUND", (0, 0), (-1, -1), style.SHADE),
+                ]
+            )
+        )
         out.append(conventions)
         out.append(self.heading("Assumptions", 2))
         for a in self.t["assumptions"]:
@@ -417,11 +544,19 @@ class _Report:
             if key in seen or c["limit"] is None:
                 continue
             seen.add(key)
-            source = ("common practice, no published source" if c["reference"] ==
-                      "common_practice" else self.ref(c["reference"]))
-            rows.append([text(c["title"].split(" in ")[0]),
-                         f"{c['comparison']} {self.q(c['limit'])}",
-                         text(c["basis"]), source])
+            source = (
+                "common practice, no published source"
+                if c["reference"] == "common_practice"
+                else self.ref(c["reference"])
+            )
+            rows.append(
+                [
+                    text(c["title"].split(" in ")[0]),
+                    f"{c['comparison']} {self.q(c['limit'])}",
+                    text(c["basis"]),
+                    source,
+                ]
+            )
         w = self.width
         out.append(self.table(rows, [w * 0.2, w * 0.14, w * 0.46, w * 0.2]))
         out.append(self.heading("Inputs as entered and as used (SI)", 2))
@@ -437,15 +572,21 @@ class _Report:
 
     def step_block(self, st: dict[str, Any]) -> list[Flowable]:
         s = self.s
-        head = (f"{text(st['title'])} <font name='DejaVuMono' size='7.5'>[{text(st['id'])}]"
-                f"</font>  {self.ref(st['reference'])}")
+        head = (
+            f"{text(st['title'])} <font name='DejaVuMono' size='7.5'>[{text(st['id'])}]"
+            f"</font>  {self.ref(st['reference'])}"
+        )
         parts: list[Flowable] = [self.p(head, s.step_head), Equation(st["latex"], 10.5)]
         parts.append(self.p(text(st["substituted"]), s.substituted))
         result = {"value": st["value"], "unit": st["unit"]}
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
         inputs = ", ".join(text(i) for i in st["inputs"])
-        parts.append(self.p(f"<b>Result:</b> {result_text}    "
-                            f"<font size='7'>inputs: {inputs}</font>", s.substituted))
+        parts.append(
+            self.p(
+                f"<b>Result:</b> {result_text}    <font size='7'>inputs: {inputs}</font>",
+                s.substituted,
+            )
+        )
         return [KeepTogether(parts)]
 
     def calculation(self) -> list[Flowable]:
@@ -464,25 +605,55 @@ class _Report:
 
     def pipe_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
         out: list[Flowable] = []
-        sym = {"length": pretty_unit(display_unit("length", self.system)),
-               "diameter": pretty_unit(display_unit("diameter", self.system)),
-               "velocity": pretty_unit(display_unit("velocity", self.system))}
-        rows = [["Pipe", f"D [{sym['diameter']}]", f"L [{sym['length']}]",
-                 f"v [{sym['velocity']}]", "Re", "ε/D", "f", "ΣK", f"h_f [{sym['length']}]",
-                 f"h_m [{sym['length']}]"]]
+        sym = {
+            "length": pretty_unit(display_unit("length", self.system)),
+            "diameter": pretty_unit(display_unit("diameter", self.system)),
+            "velocity": pretty_unit(display_unit("velocity", self.system)),
+        }
+        rows = [
+            [
+                "Pipe",
+                f"D [{sym['diameter']}]",
+                f"L [{sym['length']}]",
+                f"v [{sym['velocity']}]",
+                "Re",
+                "ε/D",
+                "f",
+                "ΣK",
+                f"h_f [{sym['length']}]",
+                f"h_m [{sym['length']}]",
+            ]
+        ]
         for ident, p in self.r["pipes"].items():
+
             def num(qty: dict[str, Any], kind: str) -> str:
-                return fmt(to_display(qty["value"], qty["unit"],
-                                      display_unit(kind, self.system)), 4)
-            rows.append([text(ident), num(p["inner_diameter"], "diameter"),
-                         num(p["length"], "length"), num(p["velocity"], "velocity"),
-                         f"{p['reynolds']['value']:,.0f}", fmt(p["relative_roughness"]["value"], 3),
-                         fmt(p["friction_factor"]["value"], 4), fmt(p["k_total"]["value"], 4),
-                         num(p["friction_loss"], "length"), num(p["minor_loss"], "length")])
+                return fmt(
+                    to_display(qty["value"], qty["unit"], display_unit(kind, self.system)), 4
+                )
+
+            rows.append(
+                [
+                    text(ident),
+                    num(p["inner_diameter"], "diameter"),
+                    num(p["length"], "length"),
+                    num(p["velocity"], "velocity"),
+                    f"{p['reynolds']['value']:,.0f}",
+                    fmt(p["relative_roughness"]["value"], 3),
+                    fmt(p["friction_factor"]["value"], 4),
+                    fmt(p["k_total"]["value"], 4),
+                    num(p["friction_loss"], "length"),
+                    num(p["minor_loss"], "length"),
+                ]
+            )
         w = self.width
         out.append(self.table(rows, [w * 0.1] * 10))
-        out.append(self.p("One worked example of each equation type follows; every step of "
-                          "every pipe is listed in Appendix A.", self.s.small))
+        out.append(
+            self.p(
+                "One worked example of each equation type follows; every step of "
+                "every pipe is listed in Appendix A.",
+                self.s.small,
+            )
+        )
         shown: set[str] = set()
         for st in steps:
             if st["function"] in shown:
@@ -500,29 +671,51 @@ class _Report:
             value = self.q(c["value"], kind) if c["value"] else "—"
             if c["value"] and not kind:
                 value = f"{c['value']['value']:.4g}"
-            limit = f"{c['comparison']} {self.q(c['limit'], kind)}" if c["limit"] else text(
-                c["comparison"])
-            source = ("common practice" if c["reference"] == "common_practice"
-                      else self.ref(c["reference"]))
+            limit = (
+                f"{c['comparison']} {self.q(c['limit'], kind)}"
+                if c["limit"]
+                else text(c["comparison"])
+            )
+            source = (
+                "common practice"
+                if c["reference"] == "common_practice"
+                else self.ref(c["reference"])
+            )
             message = f"<br/><i>{text(c['message'])}</i>" if c["message"] else ""
-            rows.append([c["status"].upper(), text(c["title"]) + message, text(c["case"]),
-                         value, limit, f"{text(c['basis'])} ({source})"])
-            extra += [("BACKGROUND", (0, n), (0, n), style.STATUS_FILL[c["status"]]),
-                      ("TEXTCOLOR", (0, n), (0, n), style.STATUS_INK[c["status"]])]
+            rows.append(
+                [
+                    c["status"].upper(),
+                    text(c["title"]) + message,
+                    text(c["case"]),
+                    value,
+                    limit,
+                    f"{text(c['basis'])} ({source})",
+                ]
+            )
+            extra += [
+                ("BACKGROUND", (0, n), (0, n), style.STATUS_FILL[c["status"]]),
+                ("TEXTCOLOR", (0, n), (0, n), style.STATUS_INK[c["status"]]),
+            ]
         w = self.width
         table = self.table(rows, [w * 0.09, w * 0.25, w * 0.06, w * 0.11, w * 0.12, w * 0.37])
         for n, c in enumerate(checks, start=1):
             table._cellvalues[n][0] = Paragraph(
                 f"<font color='{'white' if c['status'] == 'fail' else 'black'}'><b>"
-                f"{c['status'].upper()}</b></font>", self.s.cell)
+                f"{c['status'].upper()}</b></font>",
+                self.s.cell,
+            )
         table.setStyle(TableStyle(extra))
         return table
 
     def checks(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Design checks")]
-        out.append(self.p("Sorted fail, review, pass. A limit of common practice is a rule of "
-                          "thumb for review, not a code requirement; a limit the project sets in "
-                          "its input fails when exceeded."))
+        out.append(
+            self.p(
+                "Sorted fail, review, pass. A limit of common practice is a rule of "
+                "thumb for review, not a code requirement; a limit the project sets in "
+                "its input fails when exceeded."
+            )
+        )
         out.append(self.check_table(self.t["checks"]))
         return out
 
@@ -535,16 +728,21 @@ class _Report:
     def cautions(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Exclusions, cautions and code-deferral notes")]
         out.append(self.heading("Cautions from this calculation's results", 2))
-        specific = [f"{text(c['title'])} ({text(c['case'])}): {c['status']}"
-                    + (f" — {text(c['message'])}" if c["message"] else "")
-                    for c in self.t["checks"] if c["status"] != "pass"]
+        specific = [
+            f"{text(c['title'])} ({text(c['case'])}): {c['status']}"
+            + (f" — {text(c['message'])}" if c["message"] else "")
+            for c in self.t["checks"]
+            if c["status"] != "pass"
+        ]
         specific += [text(n) for n in self.t["notes"]]
         for a in self.t["assumptions"]:
             if "efficiency" in a["text"].lower():
                 specific.append(f"Assumption {a['id']}: {text(a['text'])}")
         if "pump.efficiency" in self.t["given"]:
-            specific.append("The pump efficiency is an assumed value until a pump is selected; "
-                            "shaft and electrical power scale inversely with it.")
+            specific.append(
+                "The pump efficiency is an assumed value until a pump is selected; "
+                "shaft and electrical power scale inversely with it."
+            )
         for n, item in enumerate(specific or ["None."], start=1):
             out.append(self.p(f"{n}. {item}"))
         out.append(self.heading("Standing cautions and code deferral", 2))
@@ -555,25 +753,38 @@ class _Report:
     def references(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("References")]
         for key, citation in self.t["references"].items():
-            out.append(self.p(f"[{self.refs[key]}] {text(citation)} "
-                              f"<font name='DejaVuMono' size='7'>({text(key)})</font>"))
+            out.append(
+                self.p(
+                    f"[{self.refs[key]}] {text(citation)} "
+                    f"<font name='DejaVuMono' size='7'>({text(key)})</font>"
+                )
+            )
         return out
 
     def appendix(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Appendix A — Full step listing", numbered=False)]
         for st in self.t["steps"]:
             out += self.step_block(st)
-        out += [PageBreak(), self.heading("Appendix B — Darcy friction factor chart", numbered=False)]
+        out += [
+            PageBreak(),
+            self.heading("Appendix B — Darcy friction factor chart", numbered=False),
+        ]
         out += self.figure("friction_factor")
-        out += [PageBreak(), self.heading("Appendix C — Files read and the input as entered", numbered=False)]
+        out += [
+            PageBreak(),
+            self.heading("Appendix C — Files read and the input as entered", numbered=False),
+        ]
         inp = self.t["input"]
         sw = self.t.get("software", {})
-        rows = [["File", "SHA-256"], [text(inp["path"]), self.p(text(inp["sha256"]),
-                                                               self.s.mono)]]
+        rows = [["File", "SHA-256"], [text(inp["path"]), self.p(text(inp["sha256"]), self.s.mono)]]
         out.append(self.table(rows, [self.width * 0.4, self.width * 0.6]))
-        out.append(self.p(f"Produced by {text(sw.get('name', 'calcreport'))} "
-                          f"{text(sw.get('version', ''))}; trace format {text(self.t['format'])}.",
-                          self.s.small))
+        out.append(
+            self.p(
+                f"Produced by {text(sw.get('name', 'calcreport'))} "
+                f"{text(sw.get('version', ''))}; trace format {text(self.t['format'])}.",
+                self.s.small,
+            )
+        )
         out.append(self.p(f"Input echoed verbatim (SHA-256 {text(inp['sha256'])}):", self.s.small))
         for line in self.input_text.splitlines() or [""]:
             out.append(Paragraph(text(line).replace(" ", "&nbsp;") or "&nbsp;", self.s.mono))
@@ -581,7 +792,7 @@ class _Report:
 
 
 class _Doc(BaseDocTemplate):
-    def afterFlowable(self, flowable: Flowable) -> None:  # noqa: N802 (reportlab API)
+    def afterFlowable(self, flowable: Flowable) -> None:
         toc = getattr(flowable, "_toc", None)
         if toc is not None:
             level, label = toc
@@ -600,7 +811,7 @@ def _canvas_maker(project: dict[str, Any], status: str) -> Callable[..., rl_canv
             super().__init__(*args, **kwargs)
             self._pages: list[dict[str, Any]] = []
 
-        def showPage(self) -> None:  # noqa: N802 (reportlab API)
+        def showPage(self) -> None:
             self._pages.append(dict(self.__dict__))
             self._startPage()
 
@@ -636,8 +847,9 @@ def _canvas_maker(project: dict[str, Any], status: str) -> Callable[..., rl_canv
             self.setFont("DejaVu", 7.2)
             self.drawString(left + 3, top - 11 * mm, (project["client"] or "")[:90])
             self.drawString(col1 + 3, top - 6 * mm, f"Calc. {project['calc_id'] or '—'}")
-            self.drawString(col1 + 3, top - 11 * mm,
-                            f"Rev. {project['revision'] or '—'}   {project['date']}")
+            self.drawString(
+                col1 + 3, top - 11 * mm, f"Rev. {project['revision'] or '—'}   {project['date']}"
+            )
             self.setFont("DejaVu-Bold", 8.5)
             self.drawString(col2 + 3, top - 6 * mm, f"Page {self._pageNumber} of {total}")
             self.setFont("DejaVu", 7.2)
@@ -645,8 +857,12 @@ def _canvas_maker(project: dict[str, Any], status: str) -> Callable[..., rl_canv
             self.drawString(col2 + 3, top - 11 * mm, f"{units} · {status}")
             self.setFont("DejaVu", 6.5)
             self.setFillColor(style.RULE)
-            self.drawString(left, 9 * mm, "Calculation prepared with calcreport from the input "
-                            "and trace named in Appendix C. Verify before use.")
+            self.drawString(
+                left,
+                9 * mm,
+                "Calculation prepared with calcreport from the input "
+                "and trace named in Appendix C. Verify before use.",
+            )
             self.restoreState()
 
     return TitleBlockCanvas

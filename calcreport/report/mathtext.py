@@ -43,8 +43,12 @@ def _outline(latex: str, size: float) -> tuple[float, float, float, tuple[Any, .
             continue
         segments.append(({_MOVETO: "m", _LINETO: "l", _CLOSE: "z"}[code], tuple(verts[i])))
         i += 1
-    return (float(extents.x1), float(max(extents.y1, 0.0)), float(max(-extents.y0, 0.0)),
-            tuple(segments))
+    return (
+        float(extents.x1),
+        float(max(extents.y1, 0.0)),
+        float(max(-extents.y0, 0.0)),
+        tuple(segments),
+    )
 
 
 class Equation(Flowable):
@@ -81,7 +85,13 @@ class Equation(Flowable):
                 path.curveTo(x1, y1, x2, y2, x3, y3)
             else:  # quadratic Bezier as the equivalent cubic
                 (x0, y0), (qx, qy), (x3, y3) = segment[1:]
-                path.curveTo(x0 + 2 / 3 * (qx - x0), y0 + 2 / 3 * (qy - y0),
-                             x3 + 2 / 3 * (qx - x3), y3 + 2 / 3 * (qy - y3), x3, y3)
+                path.curveTo(
+                    x0 + 2 / 3 * (qx - x0),
+                    y0 + 2 / 3 * (qy - y0),
+                    x3 + 2 / 3 * (qx - x3),
+                    y3 + 2 / 3 * (qy - y3),
+                    x3,
+                    y3,
+                )
         canvas.drawPath(path, stroke=0, fill=1, fillMode=1)
         canvas.restoreState()

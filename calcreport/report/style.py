@@ -32,8 +32,11 @@ RULE = colors.HexColor("#7a7a7a")
 SHADE = colors.HexColor("#ececec")
 SHADE_DARK = colors.HexColor("#c8c8c8")
 
-STATUS_FILL = {"fail": colors.HexColor("#3a3a3a"), "review": colors.HexColor("#bdbdbd"),
-               "pass": colors.white}
+STATUS_FILL = {
+    "fail": colors.HexColor("#3a3a3a"),
+    "review": colors.HexColor("#bdbdbd"),
+    "pass": colors.white,
+}
 STATUS_INK = {"fail": colors.white, "review": INK, "pass": INK}
 
 
@@ -68,32 +71,83 @@ class Styles:
 
     def __init__(self) -> None:
         register_fonts()
-        body = ParagraphStyle("body", fontName="DejaVu", fontSize=9, leading=12.2,
-                              textColor=INK, alignment=TA_LEFT, spaceAfter=4)
+        body = ParagraphStyle(
+            "body",
+            fontName="DejaVu",
+            fontSize=9,
+            leading=12.2,
+            textColor=INK,
+            alignment=TA_LEFT,
+            spaceAfter=4,
+        )
         self.body = body
-        self.small = ParagraphStyle("small", parent=body, fontSize=7.6, leading=9.6,
-                                    spaceAfter=2)
+        self.small = ParagraphStyle("small", parent=body, fontSize=7.6, leading=9.6, spaceAfter=2)
         self.cell = ParagraphStyle("cell", parent=body, fontSize=7.8, leading=9.6, spaceAfter=0)
         self.cell_bold = ParagraphStyle("cell_bold", parent=self.cell, fontName="DejaVu-Bold")
-        self.mono = ParagraphStyle("mono", parent=body, fontName="DejaVuMono", fontSize=7.2,
-                                   leading=9.0, spaceAfter=0)
-        self.substituted = ParagraphStyle("substituted", parent=body, fontSize=8.4,
-                                          leading=11, leftIndent=18, spaceAfter=1)
-        self.h1 = ParagraphStyle("h1", parent=body, fontName="DejaVu-Bold", fontSize=13.5,
-                                 leading=17, spaceBefore=6, spaceAfter=8, keepWithNext=1)
-        self.h2 = ParagraphStyle("h2", parent=body, fontName="DejaVu-Bold", fontSize=10.5,
-                                 leading=14, spaceBefore=8, spaceAfter=4, keepWithNext=1)
-        self.step_head = ParagraphStyle("step_head", parent=body, fontName="DejaVu-Bold",
-                                        fontSize=8.8, leading=11.5, spaceBefore=5, spaceAfter=1,
-                                        keepWithNext=1)
-        self.caption = ParagraphStyle("caption", parent=body, fontSize=8.2, leading=10.5,
-                                      alignment=TA_CENTER, spaceBefore=3, spaceAfter=10)
-        self.cover_title = ParagraphStyle("cover_title", parent=body, fontName="DejaVu-Bold",
-                                          fontSize=20, leading=25, spaceAfter=6)
-        self.cover_sub = ParagraphStyle("cover_sub", parent=body, fontSize=11.5, leading=15,
-                                        spaceAfter=4)
-        self.status = ParagraphStyle("status", parent=body, fontName="DejaVu-Bold",
-                                     fontSize=11, leading=14, alignment=TA_CENTER)
+        self.mono = ParagraphStyle(
+            "mono", parent=body, fontName="DejaVuMono", fontSize=7.2, leading=9.0, spaceAfter=0
+        )
+        self.substituted = ParagraphStyle(
+            "substituted", parent=body, fontSize=8.4, leading=11, leftIndent=18, spaceAfter=1
+        )
+        self.h1 = ParagraphStyle(
+            "h1",
+            parent=body,
+            fontName="DejaVu-Bold",
+            fontSize=13.5,
+            leading=17,
+            spaceBefore=6,
+            spaceAfter=8,
+            keepWithNext=1,
+        )
+        self.h2 = ParagraphStyle(
+            "h2",
+            parent=body,
+            fontName="DejaVu-Bold",
+            fontSize=10.5,
+            leading=14,
+            spaceBefore=8,
+            spaceAfter=4,
+            keepWithNext=1,
+        )
+        self.step_head = ParagraphStyle(
+            "step_head",
+            parent=body,
+            fontName="DejaVu-Bold",
+            fontSize=8.8,
+            leading=11.5,
+            spaceBefore=5,
+            spaceAfter=1,
+            keepWithNext=1,
+        )
+        self.caption = ParagraphStyle(
+            "caption",
+            parent=body,
+            fontSize=8.2,
+            leading=10.5,
+            alignment=TA_CENTER,
+            spaceBefore=3,
+            spaceAfter=10,
+        )
+        self.cover_title = ParagraphStyle(
+            "cover_title",
+            parent=body,
+            fontName="DejaVu-Bold",
+            fontSize=20,
+            leading=25,
+            spaceAfter=6,
+        )
+        self.cover_sub = ParagraphStyle(
+            "cover_sub", parent=body, fontSize=11.5, leading=15, spaceAfter=4
+        )
+        self.status = ParagraphStyle(
+            "status",
+            parent=body,
+            fontName="DejaVu-Bold",
+            fontSize=11,
+            leading=14,
+            alignment=TA_CENTER,
+        )
         self.toc = [
             ParagraphStyle("toc1", parent=body, fontSize=9.5, leading=14, leftIndent=0),
             ParagraphStyle("toc2", parent=body, fontSize=8.6, leading=12, leftIndent=14),

@@ -54,8 +54,9 @@ def _renderer_class() -> Any:
 
         def _trace(self, path: Any, mpl_path: Any, transform: Any) -> None:
             last = (0.0, 0.0)
-            for vertices, code in mpl_path.iter_segments(transform, remove_nans=True,
-                                                         simplify=False):
+            for vertices, code in mpl_path.iter_segments(
+                transform, remove_nans=True, simplify=False
+            ):
                 if code == MplPath.MOVETO:
                     path.moveTo(*vertices)
                 elif code == MplPath.LINETO:
@@ -63,8 +64,14 @@ def _renderer_class() -> Any:
                 elif code == MplPath.CURVE3:  # quadratic Bezier as the equivalent cubic
                     qx, qy, x3, y3 = vertices
                     x0, y0 = last
-                    path.curveTo(x0 + 2 / 3 * (qx - x0), y0 + 2 / 3 * (qy - y0),
-                                 x3 + 2 / 3 * (qx - x3), y3 + 2 / 3 * (qy - y3), x3, y3)
+                    path.curveTo(
+                        x0 + 2 / 3 * (qx - x0),
+                        y0 + 2 / 3 * (qy - y0),
+                        x3 + 2 / 3 * (qx - x3),
+                        y3 + 2 / 3 * (qy - y3),
+                        x3,
+                        y3,
+                    )
                 elif code == MplPath.CURVE4:
                     path.curveTo(*vertices)
                 elif code == MplPath.CLOSEPOLY:
@@ -72,7 +79,7 @@ def _renderer_class() -> Any:
                     continue
                 last = (vertices[-2], vertices[-1])
 
-        def draw_path(self, gc: Any, path: Any, transform: Any, rgbFace: Any = None) -> None:  # noqa: N803
+        def draw_path(self, gc: Any, path: Any, transform: Any, rgbFace: Any = None) -> None:
             canvas = self.canvas
             canvas.saveState()
             self._clip(gc)
@@ -96,8 +103,9 @@ def _renderer_class() -> Any:
                     alpha = gc.get_alpha()
                 canvas.setFillColorRGB(rgbFace[0], rgbFace[1], rgbFace[2], alpha=alpha)
             if stroke or fill:
-                canvas.drawPath(rl_path, stroke=1 if stroke else 0, fill=1 if fill else 0,
-                                fillMode=1)
+                canvas.drawPath(
+                    rl_path, stroke=1 if stroke else 0, fill=1 if fill else 0, fillMode=1
+                )
             canvas.restoreState()
 
         def draw_image(self, gc: Any, x: float, y: float, im: Any) -> None:
