@@ -3,11 +3,14 @@
 Loading reads the whole file and reports every problem at once in one
 :class:`~calcreport.errors.InputError`: each problem names its key path
 (``pipe[2].length``: the second ``[[pipe]]`` table) and, where it can be
-found, its line in the file. Keys are checked against the format, with a
-suggestion for a misspelt one; quantities against the kind their key
-expects; values against what is physically meaningful. A last pass checks
-what needs physics: the liquid must not boil at the pressure on an open
-surface, and a vacuum cannot go below absolute zero pressure.
+found, its line in the file, with a message that is a full sentence. Keys
+are checked against the format, with a suggestion for a misspelt one;
+quantities against the kind their key expects; values against what is
+physically meaningful. A last pass checks what needs physics: the liquid
+must not boil at the pressure on an open surface, and a vacuum cannot go
+below absolute zero pressure. That pass runs whenever the fluid, the site
+and a vessel's pressure were read without a problem, so its findings are
+listed with every other problem of the file.
 """
 
 from __future__ import annotations
@@ -36,7 +39,7 @@ from calcreport.model.schema import (
     Site,
     Vessel,
 )
-from calcreport.units import KINDS, UnitProblem, expected, parse
+from calcreport.units import KINDS, UnitProblem, as_written, expected, parse
 
 __all__ = ["load", "loads"]
 
@@ -67,6 +70,7 @@ _PIPE_KEYS = {
     "elevation_start", "elevation_end", "nominal_size", "schedule", "material",
 }
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow"}
+_PLANNED_PUMP_KEYS = ("curve", "speed")
 
 
 class _Lines:
@@ -74,6 +78,9 @@ class _Lines:
 
     _HEADER = re.compile(r"^\s*(\[\[?)\s*([A-Za-z0-9_.\-]+)\s*\]\]?")
     _KEY = re.compile(r"^\s*([A-Za-z0-9_\-]+)\s*=")
+    # Basic and literal strings on one line: blanked before looking for
+    # brackets, braces and comments, which may stand inside a string.
+    _STRING = re.compile(r'"(?:[^"\\]|\\.)*"|\'[^\']*\'')
 
     def __init__(self, text: str) -> None:
         self.at: dict[str, int] = {}
@@ -82,9 +89,12 @@ class _Lines:
         open_array: str | None = None
         element = 0
         for number, line in enumerate(text.splitlines(), start=1):
-            code = line.split("#", 1)[0]
+            code = self._STRING.sub('""', line).split("#", 1)[0]
             header = self._HEADER.match(code)
+            if header and open_array is not None and not header.group(2)[:1].isalpha():
+                header = None  # an array inside the open array, not a table header
             if header:
+                open_array = None
                 name = header.group(2)
                 if header.group(1) == "[[":
                     counts[name] = counts.get(name, 0) + 1
@@ -93,26 +103,24 @@ class _Lines:
                     parent, _, leaf = name.rpartition(".")
                     table = f"{self._resolve(parent, counts)}.{leaf}" if parent else name
                 self.at.setdefault(table, number)
-                open_array = None
                 continue
             key = self._KEY.match(code)
             if key and open_array is None:
                 path = f"{table}.{key.group(1)}" if table else key.group(1)
                 self.at.setdefault(path, number)
                 rest = code[key.end():]
+                element = 0
+                for _ in range(rest.count("{")):
+                    element += 1
+                    self.at.setdefault(f"{path}[{element}]", number)
                 if rest.count("[") > rest.count("]"):
-                    open_array, element = path, 0
-                elif "{" in rest:
-                    for _ in range(rest.count("{")):
-                        element += 1
-                        self.at.setdefault(f"{path}[{element}]", number)
-                    element = 0
+                    open_array = path
                 continue
             if open_array is not None:
                 for _ in range(code.count("{")):
                     element += 1
                     self.at.setdefault(f"{open_array}[{element}]", number)
-                if "]" in code and code.count("]") > code.count("["):
+                if code.count("]") > code.count("["):
                     open_array = None
 
     @staticmethod
@@ -123,6 +131,8 @@ class _Lines:
         while path:
             if path in self.at:
                 return self.at[path]
+            if f"{path}[1]" in self.at:  # an array of tables where a table belongs
+                return self.at[f"{path}[1]"]
             cut = max(path.rfind("."), path.rfind("["))
             path = path[:cut] if cut > 0 else ""
         return None
@@ -138,15 +148,23 @@ class _Reader:
     def problem(self, key: str, message: str) -> None:
         self.problems.append(Problem(key, message, self.lines.line(key)))
 
-    def table(self, data: dict[str, Any], key: str, path: str, required: bool) -> dict[str, Any]:
+    def count(self, prefix: str) -> int:
+        """How many problems so far concern ``prefix`` or a key under it."""
+        return sum(1 for p in self.problems
+                   if p.key == prefix or p.key.startswith((f"{prefix}.", f"{prefix}[")))
+
+    def table(self, data: dict[str, Any], key: str, path: str,
+              required: bool) -> dict[str, Any] | None:
+        """The table at ``key``; None (reported when required) if absent or not a table."""
         value = data.get(key)
         if value is None:
             if required:
-                self.problem(path, f"the table [{path}] is required but missing")
-            return {}
+                self.problem(path, f"The table [{path}] is required but missing.")
+            return None
         if not isinstance(value, dict):
-            self.problem(path, f"expected a table [{path}], got {_type(value)}")
-            return {}
+            self.problem(path, f"Expected a table [{path}], got {_type(value)} "
+                         f"{as_written(value)}.")
+            return None
         return value
 
     def known_keys(self, data: dict[str, Any], path: str, allowed: set[str]) -> None:
@@ -154,9 +172,19 @@ class _Reader:
             if key in allowed:
                 continue
             where = f"{path}.{key}" if path else key
-            close = difflib.get_close_matches(key, sorted(allowed), n=1, cutoff=0.6)
-            hint = f'; did you mean "{close[0]}"?' if close else ""
-            self.problem(where, f'unknown key "{key}"{hint} (known: {", ".join(sorted(allowed))})')
+            close = [k for k in sorted(allowed) if k.lower() == key.lower()] or [
+                k for k in sorted(allowed)
+                if k.lower() in difflib.get_close_matches(key.lower(), [a.lower() for a in allowed],
+                                                          n=1, cutoff=0.6)]
+            if not path and isinstance(data[key], dict | list):
+                what = f"table [{key}]"
+                hint = f"; did you mean [{close[0]}]?" if close else "."
+                known = ", ".join(f"[{k}]" for k in sorted(allowed) if k != "format")
+                self.problem(where, f"Unknown {what}{hint} The known tables are {known}.")
+                continue
+            hint = f'; did you mean "{close[0]}"?' if close else "."
+            known = ", ".join(sorted(allowed))
+            self.problem(where, f'Unknown key "{key}"{hint} The known keys here are {known}.')
 
     def quantity(
         self,
@@ -172,18 +200,20 @@ class _Reader:
         where = f"{path}.{key}"
         if key not in data:
             if required:
-                self.problem(where, f"required key is missing; give {expected(kind)}")
+                self.problem(where, f"The required key {key} is missing; give {expected(kind)}.")
             return None
         try:
             value = parse(data[key], kind)
         except UnitProblem as exc:
             self.problem(where, f"{exc}")
             return None
+        shown = as_written(data[key])
         if positive and value <= 0.0:
-            self.problem(where, f"must be greater than zero, got {data[key]!r}")
+            self.problem(where, f"The value must be greater than zero; got {shown}.")
             return None
         if fraction and not 0.0 < value <= 1.0:
-            self.problem(where, f"must be a fraction in (0, 1], got {data[key]!r}")
+            self.problem(where, f"The value must be a fraction greater than 0 and at most 1 "
+                         f'(such as 0.72 or "72 %"); got {shown}.')
             return None
         return Given(value, KINDS[kind].si, where)
 
@@ -197,15 +227,17 @@ class _Reader:
     ) -> str:
         where = f"{path}.{key}"
         value = data.get(key, default)
-        if isinstance(value, dt.date):
+        if isinstance(value, dt.date | dt.time):
             value = value.isoformat()
         if not isinstance(value, str):
-            self.problem(where, f"expected text, got {_type(value)} {value!r}")
+            self.problem(where, f"Expected text in double quotes, got {_type(value)} "
+                         f"{as_written(value)}.")
             return default
         if choices is not None and value not in choices:
             close = difflib.get_close_matches(value, choices, n=1, cutoff=0.5)
-            hint = f'; did you mean "{close[0]}"?' if close else ""
-            self.problem(where, f'"{value}" is not one of {", ".join(choices)}{hint}')
+            hint = f'; did you mean "{close[0]}"?' if close else "."
+            self.problem(where, f"The value {as_written(value)} is not one of "
+                         f"{_one_of(choices)}{hint}")
             return default
         return value
 
@@ -216,7 +248,8 @@ def load(path: str | Path) -> Model:
     try:
         raw = file.read_bytes()
     except OSError as exc:
-        raise InputError([Problem("<file>", f"cannot read the input file: {exc.strerror}")],
+        reason = (exc.strerror or type(exc).__name__).lower()
+        raise InputError([Problem("<file>", f"The input file cannot be read: {reason}.")],
                          str(path)) from exc
     return loads(raw, str(path))
 
@@ -226,41 +259,48 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
+        line = raw[:exc.start].count(b"\n") + 1
         raise InputError(
-            [Problem("<file>", f"the file is not UTF-8 text (byte {exc.start})")], path
+            [Problem("<file>", f"The file is not UTF-8 text: byte {exc.start} (0x"
+                     f"{raw[exc.start]:02x}) cannot be decoded; save the file as UTF-8.",
+                     line)], path
         ) from exc
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         found = re.search(r"line (\d+)", str(exc))
         line = int(found.group(1)) if found else None
-        raise InputError([Problem("<toml>", f"not valid TOML: {exc}", line)], path) from exc
+        reason = str(exc)
+        reason = reason[:1].lower() + reason[1:]
+        raise InputError([Problem("<toml>", f"The file is not valid TOML: {reason}.", line)],
+                         path) from exc
     reader = _Reader(_Lines(text))
     model = _build(reader, data, text, hashlib.sha256(raw).hexdigest(), path)
     if reader.problems:
         raise InputError(reader.problems, path)
     assert model is not None
-    _physical_checks(reader, model)
-    if reader.problems:
-        raise InputError(reader.problems, path)
     return model
 
 
 def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> Model | None:
     r.known_keys(data, "", _TOP_KEYS)
     fmt = data.get("format", FORMAT)
-    if fmt != FORMAT:
-        r.problem("format", f"this version reads input format {FORMAT}, got {fmt!r}")
+    if fmt != FORMAT or isinstance(fmt, bool):
+        r.problem("format", f"This version reads input format {FORMAT}; got "
+                  f"{as_written(fmt)}.")
 
-    project = _project(r, r.table(data, "project", "project", required=False))
+    project = _project(r, r.table(data, "project", "project", required=False) or {})
     fluid = _fluid(r, r.table(data, "fluid", "fluid", required=True))
 
     duty = r.table(data, "duty", "duty", required=True)
-    r.known_keys(duty, "duty", {"flow", "flow_range"})
-    flow = r.quantity(duty, "flow", "duty", "flow", required=True, positive=True)
-    flow_range = _flow_range(r, duty, flow)
+    flow = None
+    flow_range = None
+    if duty is not None:
+        r.known_keys(duty, "duty", {"flow", "flow_range"})
+        flow = r.quantity(duty, "flow", "duty", "flow", required=True, positive=True)
+        flow_range = _flow_range(r, duty, flow)
 
-    site_data = r.table(data, "site", "site", required=False)
+    site_data = r.table(data, "site", "site", required=False) or {}
     r.known_keys(site_data, "site", {"elevation", "station_pressure"})
     site = Site(
         elevation=r.quantity(site_data, "elevation", "site", "length"),
@@ -269,30 +309,43 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     )
     if site.elevation and site.station_pressure:
         r.problem("site.station_pressure",
-                  "give either site.elevation or site.station_pressure, not both")
+                  "Give either site.elevation or site.station_pressure, not both.")
 
     source = _vessel(r, r.table(data, "source", "source", required=True), "source")
     destination = _vessel(r, r.table(data, "destination", "destination", required=True),
                           "destination")
 
     pump_data = r.table(data, "pump", "pump", required=True)
-    r.known_keys(pump_data, "pump", {"elevation", "efficiency"})
-    pump_elevation = r.quantity(pump_data, "elevation", "pump", "length", required=True)
-    pump = Pump(
-        elevation=pump_elevation,  # type: ignore[arg-type]
-        efficiency=r.quantity(pump_data, "efficiency", "pump", "dimensionless", fraction=True),
-    )
-    motor = r.table(data, "motor", "motor", required=False)
+    pump_elevation = None
+    pump_efficiency = None
+    if pump_data is not None:
+        r.known_keys(pump_data, "pump", {"elevation", "efficiency", *_PLANNED_PUMP_KEYS})
+        for key in _PLANNED_PUMP_KEYS:
+            if key in pump_data:
+                r.problem(f"pump.{key}", f"The key pump.{key} (a pump curve and its speed) is "
+                          "not available in this version; give pump.efficiency until the "
+                          "pump is selected.")
+        pump_elevation = r.quantity(pump_data, "elevation", "pump", "length", required=True)
+        pump_efficiency = r.quantity(pump_data, "efficiency", "pump", "dimensionless",
+                                     fraction=True)
+    motor = r.table(data, "motor", "motor", required=False) or {}
     r.known_keys(motor, "motor", {"efficiency"})
-    drive = r.table(data, "drive", "drive", required=False)
+    drive = r.table(data, "drive", "drive", required=False) or {}
     r.known_keys(drive, "drive", {"efficiency"})
 
-    operation = _operation(r, r.table(data, "operation", "operation", required=False))
+    operation = _operation(r, r.table(data, "operation", "operation", required=False) or {})
     pipes = _pipes(r, data.get("pipe"))
-    criteria = _criteria(r, r.table(data, "criteria", "criteria", required=False))
+    criteria = _criteria(r, r.table(data, "criteria", "criteria", required=False) or {})
 
     motor_efficiency = r.quantity(motor, "efficiency", "motor", "dimensionless", fraction=True)
     drive_efficiency = r.quantity(drive, "efficiency", "drive", "dimensionless", fraction=True)
+
+    # The physical checks need a fluid and a site read without a problem; each vessel
+    # is checked when its surface pressure was read without one.
+    vessels = [v for v in (source, destination) if v and r.count(f"{v.role}.pressure") == 0]
+    if fluid and vessels and r.count("fluid") == 0 and r.count("site") == 0:
+        _physical_checks(r, fluid, site, vessels)
+
     if r.problems or None in (fluid, flow, source, destination, pump_elevation):
         return None
     return Model(
@@ -306,7 +359,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         site=site,
         source=source,  # type: ignore[arg-type]
         destination=destination,  # type: ignore[arg-type]
-        pump=pump,
+        pump=Pump(elevation=pump_elevation, efficiency=pump_efficiency),  # type: ignore[arg-type]
         motor_efficiency=motor_efficiency,
         drive_efficiency=drive_efficiency,
         operation=operation,
@@ -324,20 +377,21 @@ def _project(r: _Reader, data: dict[str, Any]) -> Project:
     return Project(units=units, **values)
 
 
-def _fluid(r: _Reader, data: dict[str, Any]) -> Fluid | None:
-    if not data:
+def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
+    if data is None:
         return None
     r.known_keys(data, "fluid", _FLUID_KEYS)
     kind = data.get("kind", "water")
     if kind in PLANNED_FLUIDS:
-        r.problem("fluid.kind", f'"{kind}" is not available in this version; use "water", '
-                  'or "custom" with density, viscosity and vapor_pressure')
+        r.problem("fluid.kind", f'The fluid "{kind}" is not available in this version; use '
+                  '"water", or "custom" with density, viscosity and vapor_pressure.')
         return None
     kind = r.text(data, "kind", "fluid", "water", FLUID_KINDS)
     temperature = r.quantity(data, "temperature", "fluid", "temperature", required=True)
     if temperature and kind == "water" and not WATER_T_MIN <= temperature.value <= WATER_T_MAX:
         r.problem("fluid.temperature",
-                  f"liquid water is computed from 0.01 degC to 350 degC; got {data['temperature']!r}")
+                  "Liquid water is computed from 0.01 degC to 350 degC; got "
+                  f"{as_written(data['temperature'])}.")
     custom = {
         key: r.quantity(data, key, "fluid", kind_, required=(kind == "custom"), positive=True)
         for key, kind_ in (("density", "density"), ("viscosity", "viscosity"),
@@ -346,11 +400,11 @@ def _fluid(r: _Reader, data: dict[str, Any]) -> Fluid | None:
     if kind == "water":
         for key in custom:
             if key in data:
-                r.problem(f"fluid.{key}", 'water properties come from IAPWS; give fluid.'
-                          f'{key} only with kind = "custom"')
+                r.problem(f"fluid.{key}", "Water properties come from IAPWS; give fluid."
+                          f'{key} only with kind = "custom".')
     if "mass_fraction" in data:
-        r.problem("fluid.mass_fraction", "mass_fraction applies to glycol solutions, "
-                  "which are not available in this version")
+        r.problem("fluid.mass_fraction", "The key mass_fraction applies to glycol solutions, "
+                  "which are not available in this version.")
     if temperature is None:
         return None
     return Fluid(kind=kind, temperature=temperature, name=r.text(data, "name", "fluid", ""),
@@ -362,7 +416,8 @@ def _flow_range(r: _Reader, duty: dict[str, Any], flow: Given | None) -> tuple[G
         return None
     raw = duty["flow_range"]
     if not isinstance(raw, list) or len(raw) != 2:
-        r.problem("duty.flow_range", 'expected two flows, such as ["0 L/s", "35 L/s"]')
+        r.problem("duty.flow_range", 'Expected an array of two flows, such as '
+                  f'["0 L/s", "35 L/s"]; got {as_written(raw)}.')
         return None
     ends = []
     for i, value in enumerate(raw):
@@ -374,16 +429,17 @@ def _flow_range(r: _Reader, duty: dict[str, Any], flow: Given | None) -> tuple[G
         return None
     low, high = ends
     if low.value < 0.0 or high.value <= low.value:
-        r.problem("duty.flow_range", "expected 0 <= first flow < second flow")
+        r.problem("duty.flow_range", "The first flow must be zero or more and the second "
+                  "greater than the first.")
         return None
     if flow and not low.value <= flow.value <= high.value:
-        r.problem("duty.flow_range", "the range must contain duty.flow")
+        r.problem("duty.flow_range", "The range must contain duty.flow.")
         return None
     return low, high
 
 
-def _vessel(r: _Reader, data: dict[str, Any], role: str) -> Vessel | None:
-    if not data:
+def _vessel(r: _Reader, data: dict[str, Any] | None, role: str) -> Vessel | None:
+    if data is None:
         return None
     allowed = _DESTINATION_KEYS if role == "destination" else _VESSEL_KEYS
     r.known_keys(data, role, allowed)
@@ -391,9 +447,9 @@ def _vessel(r: _Reader, data: dict[str, Any], role: str) -> Vessel | None:
     low = r.quantity(data, "level_low", role, "length")
     high = r.quantity(data, "level_high", role, "length")
     if level and low and low.value > level.value:
-        r.problem(f"{role}.level_low", f"must not be above {role}.level")
+        r.problem(f"{role}.level_low", f"The lowest level must not be above {role}.level.")
     if level and high and high.value < level.value:
-        r.problem(f"{role}.level_high", f"must not be below {role}.level")
+        r.problem(f"{role}.level_high", f"The highest level must not be below {role}.level.")
     saturation = data.get("pressure") == "saturation"
     pressure = None
     if not saturation:
@@ -401,11 +457,13 @@ def _vessel(r: _Reader, data: dict[str, Any], role: str) -> Vessel | None:
             0.0, "Pa", f"{role}.pressure")
     inlet = r.text(data, "inlet", role, "submerged", INLETS) if role == "destination" else ""
     outlet = r.quantity(data, "outlet_elevation", role, "length") if role == "destination" else None
-    if inlet == "free" and outlet is None:
+    if inlet == "free" and outlet is None and "outlet_elevation" not in data:
         r.problem(f"{role}.outlet_elevation",
-                  'a free discharge (inlet = "free") needs the outlet centreline elevation')
+                  'A free discharge (inlet = "free") needs the outlet centreline elevation; '
+                  'give outlet_elevation, such as "24 m".')
     if inlet == "submerged" and outlet is not None:
-        r.problem(f"{role}.outlet_elevation", 'applies only to inlet = "free"')
+        r.problem(f"{role}.outlet_elevation", 'The key outlet_elevation applies only to '
+                  'inlet = "free".')
     if level is None:
         return None
     return Vessel(role=role, level=level, level_low=low, level_high=high, pressure=pressure,
@@ -416,22 +474,25 @@ def _operation(r: _Reader, data: dict[str, Any]) -> Operation:
     r.known_keys(data, "operation", {"hours_per_year", "energy_price", "currency"})
     hours = r.quantity(data, "hours_per_year", "operation", "dimensionless", positive=True)
     if hours and hours.value > 8784.0:
-        r.problem("operation.hours_per_year", "a year has at most 8784 hours")
+        r.problem("operation.hours_per_year", "A year has at most 8784 hours.")
     price = r.quantity(data, "energy_price", "operation", "dimensionless")
     if price and price.value < 0.0:
-        r.problem("operation.energy_price", "must not be negative")
+        r.problem("operation.energy_price", "The energy price must not be negative.")
     currency = r.text(data, "currency", "operation", "")
     if price and not currency:
-        r.problem("operation.currency", "give the currency of energy_price, such as \"USD\"")
+        r.problem("operation.currency", 'Give the currency of energy_price, such as "USD".')
     return Operation(hours_per_year=hours, energy_price=price, currency=currency)
 
 
 def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
     if raw is None:
-        r.problem("pipe", "at least one [[pipe]] table is required")
+        r.problem("pipe", "At least one [[pipe]] table is required.")
         return ()
     if not isinstance(raw, list) or not all(isinstance(p, dict) for p in raw):
-        r.problem("pipe", "expected [[pipe]] tables")
+        r.problem("pipe", "Expected [[pipe]] tables, one for each pipe in flow order.")
+        return ()
+    if not raw:
+        r.problem("pipe", "At least one [[pipe]] table is required.")
         return ()
     pipes = []
     seen: dict[str, str] = {}
@@ -439,77 +500,96 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
         path = f"pipe[{index}]"
         r.known_keys(data, path, _PIPE_KEYS)
         ident = r.text(data, "id", path, f"P{index}")
-        if ident in seen:
-            r.problem(f"{path}.id", f'duplicate pipe id "{ident}" (also {seen[ident]})')
-        seen[ident] = path
+        if not ident.strip():
+            r.problem(f"{path}.id", "The pipe id must not be empty.")
+        elif ident in seen:
+            r.problem(f"{path}.id", f'The pipe id "{ident}" is already used by {seen[ident]}; '
+                      "give each pipe its own id.")
+        else:
+            seen[ident] = path
         side = r.text(data, "side", path, "discharge", SIDES)
         if "side" not in data:
-            r.problem(f"{path}.side", 'required key is missing; give "suction" or "discharge"')
+            r.problem(f"{path}.side", 'The required key side is missing; give "suction" or '
+                      '"discharge".')
         for key in ("nominal_size", "schedule", "material"):
             if key in data:
-                r.problem(f"{path}.{key}", "catalog pipe sizes and materials are not available "
-                          "in this version; give inner_diameter and roughness")
+                r.problem(f"{path}.{key}", "Catalog pipe sizes and materials are not available "
+                          "in this version; give inner_diameter and roughness.")
         length = r.quantity(data, "length", path, "length", required=True, positive=True)
         diameter = r.quantity(data, "inner_diameter", path, "diameter",
                               required="nominal_size" not in data, positive=True)
         roughness = r.quantity(data, "roughness", path, "roughness",
                                required="material" not in data)
         if roughness and roughness.value < 0.0:
-            r.problem(f"{path}.roughness", "must not be negative")
+            r.problem(f"{path}.roughness", "The roughness must not be negative; got "
+                      f"{as_written(data['roughness'])}.")
+            roughness = None
         elif roughness and diameter and roughness.value >= diameter.value:
-            r.problem(f"{path}.roughness", "must be smaller than the inner diameter")
+            r.problem(f"{path}.roughness", "The roughness must be smaller than the inner "
+                      f"diameter ({as_written(data['inner_diameter'])}); got "
+                      f"{as_written(data['roughness'])}.")
         fittings = _fittings(r, data.get("fittings", []), path)
         start = r.quantity(data, "elevation_start", path, "length")
         end = r.quantity(data, "elevation_end", path, "length")
-        if (start is None) != (end is None):
-            r.problem(f"{path}.elevation_end" if start else f"{path}.elevation_start",
-                      "give both elevation_start and elevation_end, or neither")
-        if length and diameter and roughness:
+        if ("elevation_start" in data) != ("elevation_end" in data):
+            r.problem(f"{path}.elevation_end" if "elevation_start" in data
+                      else f"{path}.elevation_start",
+                      "Give both elevation_start and elevation_end, or neither.")
+        if length and diameter and roughness and "side" in data:
             pipes.append(Pipe(key=path, id=ident, side=side, length=length,
                               inner_diameter=diameter, roughness=roughness,
                               fittings=fittings, elevation_start=start, elevation_end=end))
     sides = [p.side for p in pipes]
-    if "suction" in sides and "discharge" in sides:
-        last_suction = max(i for i, s in enumerate(sides) if s == "suction")
+    if "discharge" in sides:
         first_discharge = sides.index("discharge")
-        if last_suction > first_discharge:
-            r.problem(pipes[last_suction].key + ".side",
-                      "pipes are listed in flow order: every suction pipe before the "
-                      "first discharge pipe")
+        for pipe in pipes[first_discharge + 1:]:
+            if pipe.side == "suction":
+                r.problem(pipe.key + ".side",
+                          f'The suction pipe "{pipe.id}" is listed after the discharge pipe '
+                          f'"{pipes[first_discharge].id}"; list the pipes in flow order, '
+                          "every suction pipe before the first discharge pipe.")
     return tuple(pipes)
 
 
 def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
     path = f"{pipe_path}.fittings"
     if not isinstance(raw, list):
-        r.problem(path, "expected an array of inline tables, such as [{ K = 0.5, count = 1 }]")
+        r.problem(path, "Expected an array of inline tables, such as "
+                  f"[{{ K = 0.5, count = 1 }}]; got {_type(raw)} {as_written(raw)}.")
         return ()
     items = []
     for index, data in enumerate(raw, start=1):
         where = f"{path}[{index}]"
         if not isinstance(data, dict):
-            r.problem(where, f"expected an inline table {{ K = ..., count = ... }}, got {_type(data)}")
+            r.problem(where, "Expected an inline table such as { K = 0.5, count = 1 }; got "
+                      f"{_type(data)} {as_written(data)}.")
             continue
         r.known_keys(data, where, _FITTING_KEYS)
         count = r.quantity(data, "count", where, "dimensionless", positive=True)
         if count and count.value != math.floor(count.value):
-            r.problem(f"{where}.count", "must be a whole number")
+            r.problem(f"{where}.count", "The count must be a whole number; got "
+                      f"{as_written(data['count'])}.")
         K = r.quantity(data, "K", where, "dimensionless")
         if K and K.value < 0.0:
-            r.problem(f"{where}.K", "must not be negative")
+            r.problem(f"{where}.K", f"The K value must not be negative; got "
+                      f"{as_written(data['K'])}.")
         dp = r.quantity(data, "dp", where, "pressure", positive=True)
         at_flow = r.quantity(data, "at_flow", where, "flow", positive=True)
         kind = r.text(data, "kind", where, "")
         given = [name for name in ("K", "dp", "kind") if name in data]
         if len(given) != 1:
-            r.problem(where, "give exactly one of K, kind, or dp with at_flow")
+            found = f"got {' and '.join(given)}" if given else "got none of them"
+            r.problem(where, "Give exactly one of K, kind, or dp with at_flow; "
+                      f"{found}.")
         elif kind:
-            r.problem(f"{where}.kind", f'named fittings ("{kind}") come from the fittings '
-                      "catalog, not available in this version; give K")
+            r.problem(f"{where}.kind", f'Named fittings ("{kind}") come from the fittings '
+                      "catalog, which is not available in this version; give K.")
         if ("dp" in data) != ("at_flow" in data):
-            r.problem(where, "a rated loss needs both dp and at_flow")
-        items.append(Fitting(key=where, count=count or Given(1.0, "", f"{where}.count"), K=K, dp=dp,
-                             at_flow=at_flow, kind=kind, note=r.text(data, "note", where, "")))
+            r.problem(where, "A rated loss needs both dp and at_flow (the flow at which the "
+                      "loss dp was rated).")
+        items.append(Fitting(key=where, count=count or Given(1.0, "", f"{where}.count"), K=K,
+                             dp=dp, at_flow=at_flow, kind=kind,
+                             note=r.text(data, "note", where, "")))
     return tuple(items)
 
 
@@ -525,40 +605,57 @@ def _criteria(r: _Reader, data: dict[str, Any]) -> Criteria:
     return Criteria(given)
 
 
-def _physical_checks(r: _Reader, model: Model) -> None:
+def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]) -> None:
     """Checks that need the barometric pressure and the liquid's vapour pressure."""
     from calcreport.physics import atmosphere, water
 
-    if model.site.station_pressure:
-        p_baro = model.site.station_pressure.value
+    if site.station_pressure:
+        p_baro = site.station_pressure.value
     else:
-        elevation = model.site.elevation.value if model.site.elevation else 0.0
+        elevation = site.elevation.value if site.elevation else 0.0
         try:
             p_baro = atmosphere.pressure(elevation)
         except ValueError as exc:
             r.problem("site.elevation", str(exc))
             return
-    if model.fluid.kind == "water":
-        p_v = water.saturation_pressure(model.fluid.temperature.value)
+    if fluid.kind == "water":
+        p_v = water.saturation_pressure(fluid.temperature.value)
     else:
-        assert model.fluid.vapor_pressure is not None
-        p_v = model.fluid.vapor_pressure.value
-    for vessel in (model.source, model.destination):
+        assert fluid.vapor_pressure is not None
+        p_v = fluid.vapor_pressure.value
+    for vessel in vessels:
         if vessel.saturation or vessel.pressure is None:
             continue
         absolute = p_baro + vessel.pressure.value
         if absolute <= 0.0:
             r.problem(vessel.pressure.key,
-                      f"a vacuum of {-vessel.pressure.value / 1e3:.4g} kPa is below absolute "
-                      f"zero at this site (barometric pressure {p_baro / 1e3:.4g} kPa)")
+                      f"A vacuum of {-vessel.pressure.value / 1e3:.4g} kPa is below absolute "
+                      f"zero at this site, where the barometric pressure is "
+                      f"{p_baro / 1e3:.4g} kPa (absolute).")
         elif p_v > absolute:
             r.problem("fluid.temperature",
-                      f"the liquid boils at the {vessel.role} surface: vapour pressure "
+                      f"The liquid boils at the {vessel.role} surface: its vapour pressure "
                       f"{p_v / 1e3:.4g} kPa exceeds the absolute surface pressure "
                       f"{absolute / 1e3:.4g} kPa; lower the temperature, raise "
-                      f'{vessel.pressure.key}, or give pressure = "saturation"')
+                      f'{vessel.pressure.key}, or give pressure = "saturation".')
+
+
+def _one_of(choices: tuple[str, ...]) -> str:
+    quoted = [f'"{c}"' for c in choices]
+    return quoted[0] if len(quoted) == 1 else ", ".join(quoted[:-1]) + " or " + quoted[-1]
 
 
 def _type(value: Any) -> str:
-    return {dict: "a table", list: "an array", str: "text", bool: "a boolean",
-            int: "a number", float: "a number"}.get(type(value), type(value).__name__)
+    if isinstance(value, bool):
+        return "a boolean"
+    if isinstance(value, dict):
+        return "a table"
+    if isinstance(value, list):
+        return "an array"
+    if isinstance(value, str):
+        return "text"
+    if isinstance(value, int | float):
+        return "a number"
+    if isinstance(value, dt.date | dt.time):
+        return "a date or time"
+    return "a value"
