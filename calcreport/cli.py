@@ -7,6 +7,7 @@ module prints and exits; everything below it raises.
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from collections.abc import Sequence
 from pathlib import Path
@@ -85,6 +86,19 @@ def main(argv: Sequence[str] | None = None) -> int:
     except CalcreportError as exc:
         sys.stderr.write(f"calcreport: {exc}\n")
         return EXIT_INPUT
+    except OSError as exc:
+        where = f" {exc.filename}" if exc.filename else ""
+        sys.stderr.write(f"calcreport: cannot write or read{where}: {exc.strerror or exc}.\n")
+        return EXIT_INPUT
+    except Exception as exc:  # a defect of ours, not the user's: say so in one line
+        if os.environ.get("CALCREPORT_DEBUG"):
+            raise
+        sys.stderr.write(
+            f"calcreport: internal error ({type(exc).__name__}: {exc}). Nothing was written. "
+            "This is a defect in calcreport; set CALCREPORT_DEBUG=1 for the details and "
+            "report it with the input file.\n"
+        )
+        return EXIT_INTERNAL
 
 
 def _new(args: argparse.Namespace) -> int:

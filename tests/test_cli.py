@@ -239,11 +239,6 @@ def test_new_refuses_to_overwrite(workdir: Path, capsys: pytest.CaptureFixture[s
     assert target.read_bytes() == STARTER.read_bytes()
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="cli.py _new: writing into a missing folder raises "
-    "FileNotFoundError (traceback, exit 1) instead of a message and exit 2",
-)
 def test_new_into_a_missing_folder(workdir: Path, capsys: pytest.CaptureFixture[str]):
     assert main(["new", str(workdir / "no-such-folder" / "x.toml")]) == 2
     assert "no-such-folder" in capsys.readouterr().err
