@@ -15,15 +15,15 @@ through the recorded duty point.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 import numpy as np
 
 from calcreport import __version__, catalog, checks
 from calcreport.model.schema import Given, Model, Pipe, Vessel
-from calcreport.physics import atmosphere, friction, head, losses, power, water
-from calcreport.trace import Trace, TraceBuilder, quantity
+from calcreport.physics import atmosphere, friction, head, losses, motor, power, pump, water
+from calcreport.trace import Check, Trace, TraceBuilder, quantity
 
 __all__ = ["solve"]
 
@@ -85,15 +85,6 @@ def solve(model: Model) -> Trace:
     b.assume("Flow is steady, incompressible and isothermal; pipes run full.")
     p_baro = _barometric(b, model)
     liquid = _liquid(b, model, p_baro)
-
-    design = Case(
-        id="C1",
-        title="Design: normal levels, new pipe, design flow",
-        flow=model.flow,
-        source_level=model.source.level,
-        npsh_level=model.source.level_low or model.source.level,
-        destination_level=_destination_elevation(model, model.destination.level),
-    )
     if model.source.level_low:
         b.assume("NPSH available is taken at the lowest source level, source.level_low.")
     exit_head = _exit_head(b, model)
@@ -104,40 +95,27 @@ def solve(model: Model) -> Trace:
         if model.drive_efficiency
         else b.assume("No variable-speed drive: drive efficiency 1.", 1.0, "")
     )
-
+    curve = _pump_curve(b, model)
     notes: list[str] = []
     surfaces = (p_baro, p_source, p_dest, exit_head)
-    hydraulics = _hydraulics(b, model, design, liquid, surfaces)
-    results = _results(hydraulics, liquid, p_baro, model)
-    results["profile"] = _profile(model, design, liquid, hydraulics, p_source, p_dest)
-    results.update(_power(b, model, design, liquid, hydraulics, eta_drive, notes))
-
-    low, high = _flow_span(model)
-    flows = np.linspace(low, high, CURVE_POINTS)
-    sweep = _hydraulics(
-        _Sweep(),
-        model,
-        design,
-        liquid,
-        surfaces,
-        flow=Given(flows, "m^3/s", "flow_range"),  # type: ignore[arg-type]
-    )
-    curve = {
-        "flow": quantity(flows.tolist(), "m^3/s"),
-        "head": quantity(np.asarray(sweep["tdh"].value).tolist(), "m"),
-        "npsh_available": quantity(np.asarray(sweep["npsh_available"].value).tolist(), "m"),
-    }
-    results["system_curve"] = curve
-    results["cases"] = {design.id: {k: v for k, v in results.items() if k != "cases"}}
-
-    found = checks.evaluate(model, results, design.id)
-    status = {
-        "value": "preliminary",
-        "reason": "pump not selected: no pump curve is given, so the operating point, "
-        "NPSH required and motor rating are not determined",
-    }
+    cases = _cases(model)
+    by_case: dict[str, dict[str, Any]] = {}
+    found: list[Check] = []
+    for case in cases:
+        result = _solve_case(b, model, case, liquid, surfaces, curve, eta_drive, notes)
+        by_case[case.id] = result
+        found += checks.evaluate(model, result, case.id)
+    results = dict(by_case["C1"])
+    if curve is not None:
+        motor = _motor(b, model, liquid, curve, by_case)
+        if motor:
+            results["motor"] = motor
+    results["cases"] = by_case
+    found = checks.governing(found) + checks.once(model, results)
+    status = _status(model, results, found)
     if "shaft_power" not in results:
-        notes.append("Shaft power is not computed: pump.efficiency is not given.")
+        notes.append("Shaft power is not computed: no pump efficiency is given (pump.efficiency "
+                     "or the curve's efficiency).")
     if "electrical_power" not in results and "shaft_power" in results:
         notes.append("Electrical power is not computed: motor.efficiency is not given.")
     used = {s.reference for s in b.steps} | {c.reference for c in found} | {"input"}
@@ -160,11 +138,214 @@ def solve(model: Model) -> Trace:
         checks=found,
         references=dict(sorted(references.items())),
         assumptions=b.assumptions,
-        notes=notes,
+        notes=list(dict.fromkeys(notes)),
         given=b.given,
-        cases=[{"id": design.id, "title": design.title}],
+        solutions=b.solutions,
+        cases=[{"id": c.id, "title": c.title} for c in cases],
         software={"name": "calcreport", "version": __version__},
     )
+
+
+def _status(model: Model, results: dict[str, Any], found: list[Check]) -> dict[str, str]:
+    if model.pump.curve is None:
+        return {"value": "preliminary",
+                "reason": "pump not selected: no pump curve is given, so the operating point, "
+                "NPSH required and motor rating are not determined"}
+    if "operating_point" not in results:
+        return {"value": "not feasible",
+                "reason": "the pump curve does not meet the system curve in the design case"}
+    if any(c.status == "fail" for c in found):
+        return {"value": "does not comply", "reason": "one or more design checks fail"}
+    return {"value": "for checking", "reason": "pump curve given; every check is a pass or "
+            "marked for review"}
+
+
+def _cases(model: Model) -> list[Case]:
+    """The design case, and the static-head extremes when level ranges are given."""
+    src, dst = model.source, model.destination
+    npsh_level = src.level_low or src.level
+
+    def case(ident: str, title: str, source: Given, destination: Given) -> Case:
+        return Case(id=ident, title=title, flow=model.flow, source_level=source,
+                    npsh_level=npsh_level,
+                    destination_level=_destination_elevation(model, destination))
+
+    cases = [case("C1", "Design: normal levels, new pipe", src.level, dst.level)]
+    if src.level_low or dst.level_high:
+        cases.append(case("C2", "Highest static head: source low, destination high",
+                          src.level_low or src.level, dst.level_high or dst.level))
+    if src.level_high or dst.level_low:
+        cases.append(case("C3", "Lowest static head: source high, destination low",
+                          src.level_high or src.level, dst.level_low or dst.level))
+    return cases
+
+
+@dataclass(frozen=True)
+class CurvePoints:
+    """Pump curve points at the operating speed, as trace values."""
+
+    flow: list[Given]
+    head: list[Given]
+    efficiency: list[Given]
+    npsh_required: list[Given]
+
+    def values(self, name: str) -> list[float]:
+        return [float(g.value) for g in getattr(self, name)]
+
+
+def _pump_curve(b: TraceBuilder, model: Model) -> CurvePoints | None:
+    curve = model.pump.curve
+    if curve is None:
+        return None
+    flow, head, npsh = list(curve.flow), list(curve.head), list(curve.npsh_required)
+    n = model.pump.speed
+    if n is not None and curve.speed is not None and n.value != curve.speed.value:
+        b.assume("The pump curve is moved to the operating speed by the affinity laws "
+                 "(Q ∝ n, H ∝ n²); efficiency is taken unchanged at corresponding points; "
+                 "NPSH required ∝ n² is an approximation.")
+        n0 = curve.speed
+        flow = [b.step(f"pump.curve.flow[{i}]", f"Curve flow {i} at the operating speed",
+                       pump.affinity_flow, Q0=q, n=n, n0=n0) for i, q in enumerate(flow, 1)]
+        head = [b.step(f"pump.curve.head[{i}]", f"Curve head {i} at the operating speed",
+                       pump.affinity_head, H0=h, n=n, n0=n0) for i, h in enumerate(head, 1)]
+        npsh = [b.step(f"pump.curve.npsh_required[{i}]", f"Curve NPSHr {i} at the operating "
+                       "speed", pump.affinity_head, H0=h, n=n, n0=n0)
+                for i, h in enumerate(npsh, 1)]
+    return CurvePoints(flow, head, list(curve.efficiency), npsh)
+
+
+def _solve_case(
+    b: TraceBuilder,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    curve: CurvePoints | None,
+    eta_drive: Given,
+    notes: list[str],
+) -> dict[str, Any]:
+    """Hydraulics, operating point, NPSH and power of one case."""
+    operating = None
+    if curve is not None:
+        operating = _operating_flow(b, model, case, liquid, surfaces, curve, notes)
+        if operating is not None:
+            case = replace(case, flow=operating)
+    h = _hydraulics(b, model, case, liquid, surfaces)
+    results = _results(h, liquid, surfaces[0], model, case.flow)
+    results["profile"] = _profile(model, case, liquid, h, surfaces[1], surfaces[2])
+    eta_pump = model.pump.efficiency
+    if operating is not None and curve is not None:
+        point, eta_curve = _operating_point(b, case, curve, h)
+        results["operating_point"] = point
+        eta_pump = eta_curve or eta_pump
+    results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive, notes))
+    results["system_curve"] = _system_curve(model, case, liquid, surfaces, curve)
+    if curve is not None:
+        results["pump_curve"] = {
+            "flow": quantity(curve.values("flow"), "m^3/s"),
+            "head": quantity(curve.values("head"), "m"),
+            **({"efficiency": quantity(curve.values("efficiency"), "")}
+               if curve.efficiency else {}),
+            **({"npsh_required": quantity(curve.values("npsh_required"), "m")}
+               if curve.npsh_required else {}),
+        }
+    return results
+
+
+def _system_curve(model: Model, case: Case, liquid: Liquid,
+                  surfaces: tuple[Given, Given, Given, Given | None],
+                  curve: CurvePoints | None) -> dict[str, Any]:
+    low, high = _flow_span(model)
+    if curve is not None:
+        high = max(high, curve.values("flow")[-1])
+    flows = np.linspace(low, high, CURVE_POINTS)
+    sweep = _hydraulics(_Sweep(), model, case, liquid, surfaces,
+                        flow=Given(flows, "m^3/s", "flow_range"))  # type: ignore[arg-type]
+    return {
+        "flow": quantity(flows.tolist(), "m^3/s"),
+        "head": quantity(np.asarray(sweep["tdh"].value).tolist(), "m"),
+        "npsh_available": quantity(np.asarray(sweep["npsh_available"].value).tolist(), "m"),
+    }
+
+
+def _operating_flow(b: TraceBuilder, model: Model, case: Case, liquid: Liquid,
+                    surfaces: tuple[Given, Given, Given, Given | None], curve: CurvePoints,
+                    notes: list[str]) -> Given | None:
+    flows, heads = curve.values("flow"), curve.values("head")
+
+    def difference(q: np.ndarray) -> np.ndarray:
+        system = _hydraulics(_Sweep(), model, case, liquid, surfaces,
+                             flow=Given(q, "m^3/s", "solver"))  # type: ignore[arg-type]
+        return np.asarray(pump.monotone_cubic(flows, heads, q)) - np.asarray(system["tdh"].value)
+
+    Q = pump.operating_point(difference, flows[0], flows[-1])
+    if Q is None:
+        ends = difference(np.array([flows[0], flows[-1]]))
+        why = ("the pump cannot reach the system head anywhere on its curve (shutoff head "
+               "below the system head)" if ends[0] < 0 else
+               "the system curve stays below the pump curve up to the end of the curve: the "
+               "pump would run out beyond its last curve point")
+        notes.append(f"Case {case.id}: no operating point: {why}.")
+        return None
+    found = b.solution(case.sid("solver.operating_flow"), Q, "m^3/s",
+                       "bracketed root of H_pump(Q) − H_system(Q), Illinois method")
+    return b.step(case.sid("pump.operating_flow"), "Operating flow (pump and system curves meet)",
+                  pump.solved_flow, case.id, Q=found)
+
+
+def _operating_point(b: TraceBuilder, case: Case, curve: CurvePoints,
+                     h: dict[str, Any]) -> tuple[dict[str, Any], Given | None]:
+    sid = case.sid
+    Q = case.flow
+    H = b.step(sid("pump.head"), "Pump head at the operating flow", pump.head_at, case.id,
+               Q=Q, flow=curve.flow, head=curve.head)
+    b.step(sid("pump.head_balance"), "Head balance at the operating point (zero)",
+           pump.head_balance, case.id, H_pump=H, H_system=h["tdh"])
+    point: dict[str, Any] = {"flow": _q(Q), "head": _q(H)}
+    eta = None
+    if curve.efficiency:
+        eta = b.step(sid("pump.efficiency"), "Pump efficiency at the operating flow",
+                     pump.efficiency_at, case.id, Q=Q, flow=curve.flow,
+                     efficiency=curve.efficiency)
+        point["efficiency"] = _q(eta)
+        q_bep, eta_bep = pump.best_efficiency_point(curve.values("flow"),
+                                                    curve.values("efficiency"))
+        point["bep_flow"] = quantity(q_bep, "m^3/s")
+        point["bep_efficiency"] = quantity(eta_bep, "")
+        point["flow_ratio_bep"] = quantity(Q.value / q_bep, "")
+    if curve.npsh_required:
+        npshr = b.step(sid("pump.npsh_required"), "NPSH required at the operating flow",
+                       pump.npsh_required_at, case.id, Q=Q, flow=curve.flow,
+                       npsh=curve.npsh_required)
+        ratio = b.step(sid("npsh.margin_ratio"), "NPSH margin ratio", pump.npsh_margin_ratio,
+                       case.id, npsha=h["npsh_available"], npshr=npshr)
+        margin = b.step(sid("npsh.margin"), "NPSH margin", pump.npsh_margin, case.id,
+                        npsha=h["npsh_available"], npshr=npshr)
+        point["npsh_required"] = _q(npshr)
+        point["npsh_margin_ratio"] = _q(ratio)
+        point["npsh_margin"] = _q(margin)
+    return point, eta
+
+
+def _motor(b: TraceBuilder, model: Model, liquid: Liquid, curve: CurvePoints,
+           by_case: dict[str, dict[str, Any]]) -> dict[str, Any] | None:
+    if not curve.efficiency:
+        return None
+    peak = b.step("motor.peak_shaft_power", "Peak shaft power over the pump curve",
+                  power.peak_shaft_power, rho=liquid.density, flow=curve.flow, head=curve.head,
+                  efficiency=curve.efficiency)
+    series, unit = ("NEMA", "hp") if model.project.units == "US" else ("IEC", "kW")
+    ratings = [b.datum(f"catalog.motor_ratings.{series}[{i}]", value, "W")
+               for i, value in enumerate(catalog.motor_ratings(series), start=1)]
+    try:
+        rated = b.step("motor.rated_power", f"Motor rating ({series} series, {unit})",
+                       motor.standard_rating, P=peak, ratings=ratings)
+    except ValueError:
+        return {"peak_shaft_power": _q(peak)}
+    loading = {cid: quantity(r["shaft_power"]["value"] / rated.value, "")
+               for cid, r in by_case.items() if "shaft_power" in r}
+    return {"peak_shaft_power": _q(peak), "rated_power": _q(rated), "series": series,
+            "loading": loading}
 
 
 def _record_inputs(b: TraceBuilder, model: Model) -> None:
@@ -477,6 +658,7 @@ def _power(
     case: Case,
     liquid: Liquid,
     hydraulics: dict[str, Any],
+    eta_pump: Given | None,
     eta_drive: Given,
     notes: list[str],
 ) -> dict[str, Any]:
@@ -492,7 +674,7 @@ def _power(
         H=hydraulics["tdh"],
     )
     out["hydraulic_power"] = _q(P_h)
-    if model.pump.efficiency is None:
+    if eta_pump is None:
         return out
     P_s = b.step(
         sid("power.shaft"),
@@ -500,7 +682,7 @@ def _power(
         power.shaft_power,
         case.id,
         P_h=P_h,
-        eta_p=model.pump.efficiency,
+        eta_p=eta_pump,
     )
     out["shaft_power"] = _q(P_s)
     if model.motor_efficiency is None:
@@ -516,6 +698,8 @@ def _power(
     )
     out["electrical_power"] = _q(P_e)
     op = model.operation
+    if case.id != "C1":  # the annual energy is that of the design case
+        return out
     if op.hours_per_year is None:
         notes.append("Annual energy is not computed: operation.hours_per_year is not given.")
         return out
@@ -544,7 +728,8 @@ def _power(
     return out
 
 
-def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model) -> dict[str, Any]:
+def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model,
+             flow: Given) -> dict[str, Any]:
     pipes = {}
     for pipe in model.pipes:
         values = h["pipes"][pipe.id]
@@ -561,7 +746,7 @@ def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model) -> 
             entry["elevation_end"] = _q(pipe.elevation_end)
         pipes[pipe.id] = entry
     return {
-        "flow": _q(model.flow),
+        "flow": _q(flow),
         "static_head": _q(h["static_head"]),
         "pressure_head": _q(h["pressure_head"]),
         "friction_loss": _q(h["friction_loss"]),

@@ -16,22 +16,99 @@ from calcreport import catalog
 from calcreport.model.schema import Model
 from calcreport.trace import Check
 
-__all__ = ["evaluate"]
+__all__ = ["evaluate", "governing", "once"]
+
+_SEVERITY = {"fail": 0, "review": 1, "pass": 2}
 
 _EXIT = re.compile(r"\bexit\b|\boutlet\b|discharge into", re.IGNORECASE)
 
 
 def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
-    """All design checks of one case's results."""
+    """The design checks of one operating case's results."""
     found: list[Check] = []
     for pipe in model.pipes:
         found += _velocity(model, results["pipes"][pipe.id], pipe.id, pipe.side, case)
         found.append(_regime(results["pipes"][pipe.id], pipe.id, case))
-    found += _npsh(results, case)
-    exit_check = _exit_item(model, case)
+    found.append(_npsh_positive(results, case))
+    if model.pump.curve is None:
+        found.append(_npsh_open_item(results, case))
+        return found
+    point = results.get("operating_point")
+    if point is None:
+        found.append(Check(
+            id="operating_point", title="Pump and system curves intersect",
+            status="fail", value=None, unit="", limit=None, comparison="exists",
+            basis="The pump runs where its curve meets the system curve; without an "
+            "intersection within the curve data the pump cannot serve this case",
+            reference="karassik_2008", case=case,
+            message="no intersection within the curve data; see the notes"))
+        return found
+    found.append(_duty(model, point, case))
+    if "npsh_required" in point:
+        found.append(_npsh_margin(model, results, point, case))
+    else:
+        found.append(_npsh_open_item(results, case))
+    if "flow_ratio_bep" in point:
+        found += _operating_region(model, point, case)
+    if model.pump.min_continuous_flow is not None:
+        minimum = model.pump.min_continuous_flow.value
+        q = point["flow"]["value"]
+        found.append(Check(
+            id="min_continuous_flow", title="Operating flow above the minimum continuous flow",
+            status="pass" if q >= minimum else "fail", value=q, unit="m^3/s", limit=minimum,
+            comparison=">=", basis="Pump data: minimum continuous stable flow (pump.min_"
+            "continuous_flow)", reference="input", case=case,
+            message="" if q >= minimum else "the pump would run below its minimum flow"))
+    return found
+
+
+def once(model: Model, results: dict[str, Any]) -> list[Check]:
+    """Checks that concern the whole system rather than one case."""
+    found = []
+    exit_check = _exit_item(model, "C1")
     if exit_check:
         found.append(exit_check)
+    motor = results.get("motor", {})
+    if "rated_power" in motor:
+        rated = motor["rated_power"]["value"]
+        peak = motor["peak_shaft_power"]["value"]
+        found.append(Check(
+            id="motor_non_overloading", title="Motor rating covers the whole pump curve",
+            status="pass" if rated >= peak else "fail", value=peak, unit="W", limit=rated,
+            comparison="<=", basis="Non-overloading selection: the motor rating at service "
+            "factor 1.0 is not below the largest shaft power anywhere on the pump curve",
+            reference="karassik_2008", case="all"))
+    elif "peak_shaft_power" in motor:
+        found.append(Check(
+            id="motor_non_overloading", title="Motor rating covers the whole pump curve",
+            status="fail", value=motor["peak_shaft_power"]["value"], unit="W", limit=None,
+            comparison="<=", basis="The peak shaft power exceeds the largest standard rating "
+            "in the catalogue", reference="iec_60072", case="all"))
     return found
+
+
+def governing(checks: list[Check]) -> list[Check]:
+    """One check per id: the one of the case that governs (worst status, then worst value)."""
+    best: dict[str, Check] = {}
+    for check in checks:
+        held = best.get(check.id)
+        if held is None or _worse(check, held):
+            best[check.id] = check
+    return list(best.values())
+
+
+def _worse(a: Check, b: Check) -> bool:
+    if _SEVERITY[a.status] != _SEVERITY[b.status]:
+        return _SEVERITY[a.status] < _SEVERITY[b.status]
+    if a.value is None or b.value is None:
+        return False
+    if a.comparison == "<=":
+        return a.value > b.value
+    if a.comparison in (">=", ">"):
+        if a.limit is not None and b.limit is not None:
+            return a.value - a.limit < b.value - b.limit
+        return a.value < b.value
+    return False
 
 
 def _limit(model: Model, name: str) -> tuple[float, str, str, bool]:
@@ -112,9 +189,9 @@ def _regime(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
     )
 
 
-def _npsh(results: dict[str, Any], case: str) -> list[Check]:
+def _npsh_positive(results: dict[str, Any], case: str) -> Check:
     npsha = results["npsh_available"]["value"]
-    positive = Check(
+    return Check(
         id="npsh_available",
         title="NPSH available is positive",
         status="pass" if npsha > 0.0 else "fail",
@@ -128,7 +205,11 @@ def _npsh(results: dict[str, Any], case: str) -> list[Check]:
         case=case,
         message="" if npsha > 0.0 else f"NPSHa = {npsha:.3g} m: reduce suction lift or losses",
     )
-    margin = Check(
+
+
+def _npsh_open_item(results: dict[str, Any], case: str) -> Check:
+    npsha = results["npsh_available"]["value"]
+    return Check(
         id="npsh_margin",
         title="NPSH margin over NPSH required",
         status="review",
@@ -140,9 +221,66 @@ def _npsh(results: dict[str, Any], case: str) -> list[Check]:
         "selected pump's NPSH3 and the margin its application needs",
         reference="hi_npsh",
         case=case,
-        message="open item: pump not selected",
+        message="open item: NPSH required not known",
     )
-    return [positive, margin]
+
+
+def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any],
+                 case: str) -> Check:
+    npsha = results["npsh_available"]["value"]
+    npshr = point["npsh_required"]["value"]
+    ratio, basis_r, ref, project_r = _limit(model, "npsh_margin_ratio")
+    minimum, _, _, project_m = _limit(model, "npsh_margin_min")
+    needed = max(ratio * npshr, npshr + minimum)
+    ok = npsha >= needed
+    status = "pass" if ok else ("fail" if npsha <= npshr or project_r or project_m else "review")
+    return Check(
+        id="npsh_margin", title="NPSH margin over NPSH required",
+        status=status, value=npsha, unit="m", limit=needed, comparison=">=",
+        basis=f"NPSHa at least the greater of {ratio:g} × NPSHr and NPSHr + {minimum:g} m. "
+        f"{basis_r}", reference=ref, case=case,
+        message="" if ok else (f"NPSHa {npsha:.3g} m against NPSHr {npshr:.3g} m"
+                               + (": the pump cavitates" if npsha <= npshr else "")))
+
+
+def _duty(model: Model, point: dict[str, Any], case: str) -> Check:
+    q, required = point["flow"]["value"], model.flow.value
+    ok = q >= required * (1 - 1e-9)
+    return Check(
+        id="duty_flow", title="Operating flow meets the required flow",
+        status="pass" if ok else "fail", value=q, unit="m^3/s", limit=required,
+        comparison=">=", basis="The operating flow of the selected pump is not below "
+        "duty.flow; the vendor's test tolerance (ISO 9906 acceptance grade) is not included",
+        reference="input", case=case,
+        message="" if ok else f"delivers {q * 1e3:.4g} L/s of the {required * 1e3:.4g} L/s "
+        "required")
+
+
+def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Check]:
+    ratio = point["flow_ratio_bep"]["value"]
+    if model.pump.preferred_range:
+        low, high = (g.value for g in model.pump.preferred_range)
+        basis = "Preferred operating region from the pump data (pump.preferred_range)"
+        ref = "input"
+    else:
+        low, basis, ref, _ = _limit(model, "preferred_flow_low")
+        high, _, _, _ = _limit(model, "preferred_flow_high")
+    inside = low <= ratio <= high
+    found = [Check(
+        id="preferred_operating_region", title="Operating flow within the preferred region",
+        status="pass" if inside else "review", value=ratio, unit="", limit=None,
+        comparison=f"{low:g}–{high:g} × Q_BEP", basis=basis, reference=ref, case=case,
+        message=f"Q/Q_BEP = {ratio:.3f}")]
+    if model.pump.allowable_range:
+        low, high = (g.value for g in model.pump.allowable_range)
+        inside = low <= ratio <= high
+        found.append(Check(
+            id="allowable_operating_region", title="Operating flow within the allowable region",
+            status="pass" if inside else "fail", value=ratio, unit="", limit=None,
+            comparison=f"{low:g}–{high:g} × Q_BEP", basis="Allowable operating region from "
+            "the pump data (pump.allowable_range)", reference="input", case=case,
+            message=f"Q/Q_BEP = {ratio:.3f}"))
+    return found
 
 
 def _exit_item(model: Model, case: str) -> Check | None:

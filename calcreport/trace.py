@@ -156,6 +156,7 @@ class Trace:
     given: dict[str, dict[str, Any]] = field(default_factory=dict)
     cases: list[dict[str, str]] = field(default_factory=list)
     software: dict[str, str] = field(default_factory=dict)
+    solutions: dict[str, dict[str, Any]] = field(default_factory=dict)
 
     def step(self, step_id: str) -> Step:
         for step in self.steps:
@@ -174,6 +175,7 @@ class Trace:
             "cases": self.cases,
             "assumptions": self.assumptions,
             "given": self.given,
+            "solutions": self.solutions,
             "steps": [s.to_json() for s in self.steps],
             "results": self.results,
             "checks": [c.to_json() for c in sorted(self.checks, key=lambda c: order[c.status])],
@@ -194,12 +196,23 @@ class TraceBuilder:
         self._ids: set[str] = set()
         self.assumptions: list[dict[str, str]] = []
         self.given: dict[str, dict[str, Any]] = {}
+        self.solutions: dict[str, dict[str, Any]] = {}
         self._by_func = {eq.func: eq for eq in registered().values()}
 
     def input(self, given: Given) -> Given:
         """Record an input value so the trace holds what each argument came from."""
         self.given[given.key] = quantity(given.value, given.unit)
         return given
+
+    def datum(self, key: str, value: float, unit: str) -> Given:
+        """Record a value taken from the catalogue (``catalog.<table>...``) as a given."""
+        self.given[key] = quantity(value, unit)
+        return Given(value, unit, key)
+
+    def solution(self, key: str, value: float, unit: str, method: str) -> Given:
+        """Record a value found by an iterative solver; steps that follow confirm it."""
+        self.solutions[key] = {**quantity(value, unit), "method": method}
+        return Given(value, unit, key)
 
     def assume(self, text: str, value: float | None = None, unit: str = "") -> Given:
         """Number an assumption (A1, A2, …) and return its value as a source."""

@@ -160,6 +160,8 @@ def test_high_site_lowers_npsh_available():
 
 def _all_traces():
     yield solve(loads(CASE.encode()))
+    yield solve(loads((CASE.replace("efficiency = 0.78\n", 'speed = "2800 rpm"\n')
+                       + _analytic_curve(speed='speed = "3000 rpm"\n')).encode()))
     for path in sorted(EXAMPLES.glob("*.toml")):
         yield solve(loads(path.read_bytes(), str(path)))
 
@@ -181,6 +183,8 @@ def test_every_step_recomputes_from_its_arguments():
                         assert value == values[source], (step.id, source)
                     elif source in trace.given:
                         assert value == trace.given[source]["value"], (step.id, source)
+                    elif source in trace.solutions:
+                        assert value == trace.solutions[source]["value"], (step.id, source)
                     else:
                         assert source in assumed, (step.id, source)
 
@@ -300,3 +304,87 @@ def test_missing_exit_item_asks_for_review():
     no_exit = CASE.replace(', { K = 1.0, note = "exit" }', "")
     t = solve(loads(no_exit.encode()))
     assert next(c for c in t.checks if c.id == "exit_loss_item").status == "review"
+
+
+def _analytic_curve(step_ls=0.5, top=40.0, speed=""):
+    """CHECK-VALUES.md section 11 pump: H = 42 + 0.2q - 0.02q^2, eta = 0.78[1 - ((q-22)/22)^2]."""
+    n = round(top / step_ls)
+    qs = [i * step_ls for i in range(n + 1)]
+    heads = [42 + 0.2 * q - 0.02 * q * q for q in qs]
+    effs = [max(0.0, 0.78 * (1 - ((q - 22) / 22) ** 2)) for q in qs]
+    return (
+        f"\n[pump.curve]\n{speed}"
+        f'flow = {{ unit = "L/s", values = {qs} }}\n'
+        f'head = {{ unit = "m", values = {heads} }}\n'
+        f"efficiency = {effs}\n"
+    )
+
+
+def test_operating_point_against_check_values():
+    # CHECK-VALUES.md section 11 [V]: operating point q 23.3282 L/s, H 35.7815 m,
+    # eta 0.7772, brake power 10 514.1 W; 1e-4 relative with K fixed. The curve is
+    # given as points every 0.5 L/s; the monotone cubic reproduces it to ~1e-5.
+    text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
+    t = solve(loads(text.encode()))
+    op = t.results["operating_point"]
+    assert op["flow"]["value"] == pytest.approx(0.0233282, rel=1e-4)
+    assert op["head"]["value"] == pytest.approx(35.7815, rel=1e-4)
+    assert op["efficiency"]["value"] == pytest.approx(0.7772, rel=2e-4)
+    assert t.results["shaft_power"]["value"] == pytest.approx(10514.1, rel=2e-4)
+    # Pump head equals system head at the operating point.
+    assert t.results["total_dynamic_head"]["value"] == pytest.approx(op["head"]["value"],
+                                                                     abs=1e-8)
+    assert abs(t.step("pump.head_balance").value) < 1e-8
+
+
+def test_affinity_moves_the_curve_and_finds_a_new_intersection():
+    # CHECK-VALUES.md section 11 [V]: at 90 % speed q 18.0178 L/s, H 30.7704 m.
+    speeds = 'speed = "3000 rpm"\n'
+    text = (CASE.replace("efficiency = 0.78\n", 'speed = "2700 rpm"\n')
+            + _analytic_curve(speed=speeds))
+    t = solve(loads(text.encode()))
+    op = t.results["operating_point"]
+    assert op["flow"]["value"] == pytest.approx(0.0180178, rel=1e-4)
+    assert op["head"]["value"] == pytest.approx(30.7704, rel=1e-4)
+    assert t.step("pump.curve.head[1]").function == "pump.affinity_head"
+
+
+def test_no_intersection_is_reported_not_crashed():
+    weak = CASE.replace("efficiency = 0.78\n", "") + (
+        '\n[pump.curve]\nflow = ["0 L/s", "10 L/s", "20 L/s"]\n'
+        'head = ["20 m", "18 m", "12 m"]\nefficiency = [0.0, 0.6, 0.7]\n')
+    t = solve(loads(weak.encode()))
+    assert "operating_point" not in t.results
+    check = next(c for c in t.checks if c.id == "operating_point")
+    assert check.status == "fail"
+    assert any("shutoff head" in n for n in t.notes)
+    assert t.status["value"] == "not feasible"
+
+
+def test_motor_is_next_standard_rating_above_the_peak_power():
+    text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
+    t = solve(loads(text.encode()))
+    motor = t.results["motor"]
+    peak = motor["peak_shaft_power"]["value"]
+    # IEC 60072-1 output series (from memory, CHECK-VALUES.md section 8 [M]).
+    iec_kw = [0.75, 1.1, 1.5, 2.2, 3, 4, 5.5, 7.5, 11, 15, 18.5, 22, 30, 37, 45, 55, 75, 90]
+    expected = min(k for k in iec_kw if k * 1e3 >= peak) * 1e3
+    assert motor["rated_power"]["value"] == pytest.approx(expected)
+    assert peak >= t.results["shaft_power"]["value"]
+
+
+def test_level_ranges_make_cases_and_checks_name_the_governing_case():
+    ranged = CASE.replace('level = "2.0 m"', 'level = "2.0 m"\nlevel_low = "0.5 m"\n'
+                          'level_high = "3.0 m"').replace(
+        'level = "25.0 m"', 'level = "25.0 m"\nlevel_high = "26.0 m"\nlevel_low = "24.0 m"')
+    text = ranged.replace("efficiency = 0.78\n", "") + _analytic_curve()
+    t = solve(loads(text.encode()))
+    cases = t.results["cases"]
+    assert set(cases) == {"C1", "C2", "C3"}
+    tdh = {c: cases[c]["total_dynamic_head"]["value"] for c in cases}
+    flows = {c: cases[c]["operating_point"]["flow"]["value"] for c in cases}
+    assert tdh["C2"] > tdh["C1"] > tdh["C3"]
+    assert flows["C2"] < flows["C1"] < flows["C3"]
+    duty = next(c for c in t.checks if c.id == "duty_flow")
+    assert duty.case == "C2"  # the highest static head governs the duty check
+    assert [c.id for c in t.checks].count("duty_flow") == 1

@@ -2,16 +2,18 @@
 
 ``references.toml``  citations by key, cited by steps and checks
 ``criteria.toml``    default design criteria with their basis
+``motor_ratings.csv`` standard motor ratings, IEC kW and NEMA hp series
 """
 
 from __future__ import annotations
 
+import csv
 import tomllib
 from functools import cache
 from pathlib import Path
 from typing import Any
 
-__all__ = ["criteria", "references"]
+__all__ = ["criteria", "motor_ratings", "references"]
 
 _HERE = Path(__file__).parent
 
@@ -30,3 +32,15 @@ def references() -> dict[str, str]:
 def criteria() -> dict[str, dict[str, str]]:
     """Default design criteria: kind, value (with unit), basis and reference key."""
     return _table("criteria.toml")
+
+
+@cache
+def motor_ratings(series: str) -> tuple[float, ...]:
+    """Standard motor ratings of ``series`` ("IEC" or "NEMA") in watts, ascending."""
+    from calcreport.units import parse
+
+    with (_HERE / "motor_ratings.csv").open(encoding="utf-8") as handle:
+        rows = csv.DictReader(line for line in handle if not line.startswith("#"))
+        values = [parse(f"{row['rating']} {row['unit']}", "power") for row in rows
+                  if row["series"] == series]
+    return tuple(sorted(values))

@@ -36,6 +36,7 @@ from calcreport.model.schema import (
     Pipe,
     Project,
     Pump,
+    PumpCurve,
     Site,
     Vessel,
 )
@@ -70,7 +71,13 @@ _PIPE_KEYS = {
     "elevation_start", "elevation_end", "nominal_size", "schedule", "material",
 }
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow"}
-_PLANNED_PUMP_KEYS = ("curve", "speed")
+_PLANNED_PUMP_KEYS = ("count", "arrangement", "standby", "speed_range", "efficiency_basis")
+_PROVENANCE_KEYS = ("manufacturer", "model", "impeller_diameter", "curve_reference", "curve_date",
+                    "npsh_basis")
+_PUMP_KEYS = {"elevation", "efficiency", "speed", "curve", "preferred_range", "allowable_range",
+              "min_continuous_flow", *_PROVENANCE_KEYS, *_PLANNED_PUMP_KEYS}
+_CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required"}
+MIN_CURVE_POINTS = 3
 
 
 class _Lines:
@@ -316,18 +323,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
                           "destination")
 
     pump_data = r.table(data, "pump", "pump", required=True)
-    pump_elevation = None
-    pump_efficiency = None
-    if pump_data is not None:
-        r.known_keys(pump_data, "pump", {"elevation", "efficiency", *_PLANNED_PUMP_KEYS})
-        for key in _PLANNED_PUMP_KEYS:
-            if key in pump_data:
-                r.problem(f"pump.{key}", f"The key pump.{key} (a pump curve and its speed) is "
-                          "not available in this version; give pump.efficiency until the "
-                          "pump is selected.")
-        pump_elevation = r.quantity(pump_data, "elevation", "pump", "length", required=True)
-        pump_efficiency = r.quantity(pump_data, "efficiency", "pump", "dimensionless",
-                                     fraction=True)
+    pump = _pump(r, pump_data) if pump_data is not None else None
     motor = r.table(data, "motor", "motor", required=False) or {}
     r.known_keys(motor, "motor", {"efficiency"})
     drive = r.table(data, "drive", "drive", required=False) or {}
@@ -346,7 +342,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     if fluid and vessels and r.count("fluid") == 0 and r.count("site") == 0:
         _physical_checks(r, fluid, site, vessels)
 
-    if r.problems or None in (fluid, flow, source, destination, pump_elevation):
+    if r.problems or None in (fluid, flow, source, destination, pump):
         return None
     return Model(
         path=path,
@@ -359,13 +355,131 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         site=site,
         source=source,  # type: ignore[arg-type]
         destination=destination,  # type: ignore[arg-type]
-        pump=Pump(elevation=pump_elevation, efficiency=pump_efficiency),  # type: ignore[arg-type]
+        pump=pump,  # type: ignore[arg-type]
         motor_efficiency=motor_efficiency,
         drive_efficiency=drive_efficiency,
         operation=operation,
         pipes=pipes,
         criteria=criteria,
     )
+
+
+def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
+    r.known_keys(data, "pump", _PUMP_KEYS)
+    for key in _PLANNED_PUMP_KEYS:
+        if key in data:
+            r.problem(f"pump.{key}", f"The key pump.{key} (several pumps, speed ranges and "
+                      "wire-to-water efficiency) is not available in this version.")
+    elevation = r.quantity(data, "elevation", "pump", "length", required=True)
+    efficiency = r.quantity(data, "efficiency", "pump", "dimensionless", fraction=True)
+    speed = r.quantity(data, "speed", "pump", "speed", positive=True)
+    curve = None
+    if "curve" in data:
+        curve_data = r.table(data, "curve", "pump.curve", required=True)
+        curve = _curve(r, curve_data) if curve_data is not None else None
+    if speed and curve and curve.speed is None:
+        r.problem("pump.curve.speed", "With pump.speed given, give the speed of the curve "
+                  "data too, so the curve can be moved by the affinity laws.")
+    if speed and not curve:
+        r.problem("pump.speed", "pump.speed moves a pump curve; give [pump.curve] as well.")
+    ranges = {}
+    for key in ("preferred_range", "allowable_range"):
+        if key in data:
+            ranges[key] = _fraction_pair(r, data[key], f"pump.{key}")
+    provenance = {key: r.text(data, key, "pump", "") for key in _PROVENANCE_KEYS if key in data}
+    minimum = r.quantity(data, "min_continuous_flow", "pump", "flow", positive=True)
+    if elevation is None:
+        return None
+    return Pump(elevation=elevation, efficiency=efficiency, speed=speed, curve=curve,
+                preferred_range=ranges.get("preferred_range"),
+                allowable_range=ranges.get("allowable_range"),
+                min_continuous_flow=minimum, provenance=provenance)
+
+
+def _fraction_pair(r: _Reader, raw: Any, path: str) -> tuple[Given, Given] | None:
+    if not (isinstance(raw, list) and len(raw) == 2):
+        r.problem(path, f"Expected two fractions of the BEP flow, such as [0.7, 1.2]; got "
+                  f"{as_written(raw)}.")
+        return None
+    values = []
+    for i, item in enumerate(raw, start=1):
+        try:
+            values.append(Given(parse(item, "dimensionless"), "", f"{path}[{i}]"))
+        except UnitProblem as exc:
+            r.problem(f"{path}[{i}]", str(exc))
+    if len(values) != 2:
+        return None
+    if not 0.0 < values[0].value < 1.0 < values[1].value:
+        r.problem(path, "Expected a range around the BEP flow: a lower fraction below 1 and "
+                  "an upper fraction above 1, such as [0.7, 1.2].")
+        return None
+    return values[0], values[1]
+
+
+def _quantity_list(r: _Reader, data: dict[str, Any], key: str, path: str, kind: str) -> tuple[
+        Given, ...] | None:
+    """An array of quantities: strings with units, or { unit = "...", values = [...] }."""
+    where = f"{path}.{key}"
+    raw = data.get(key)
+    if raw is None:
+        return None
+    unit = None
+    if isinstance(raw, dict):
+        r.known_keys(raw, where, {"unit", "values"})
+        unit, raw = raw.get("unit"), raw.get("values")
+        if not isinstance(unit, str) and kind != "dimensionless":
+            r.problem(where, 'Give the unit of the values, such as { unit = "L/s", '
+                      "values = [0, 8, 16] }.")
+            return None
+    if not isinstance(raw, list) or not raw:
+        r.problem(where, f"Expected an array of values; got {as_written(raw)}.")
+        return None
+    values = []
+    for i, item in enumerate(raw, start=1):
+        text = f"{item} {unit}" if unit and isinstance(item, int | float) and not isinstance(
+            item, bool) else item
+        try:
+            values.append(Given(parse(text, kind), KINDS[kind].si, f"{where}[{i}]"))
+        except UnitProblem as exc:
+            r.problem(f"{where}[{i}]", str(exc))
+    return tuple(values) if len(values) == len(raw) else None
+
+
+def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
+    path = "pump.curve"
+    r.known_keys(data, path, _CURVE_KEYS)
+    speed = r.quantity(data, "speed", path, "speed", positive=True)
+    flow = _quantity_list(r, data, "flow", path, "flow")
+    head = _quantity_list(r, data, "head", path, "length")
+    efficiency = _quantity_list(r, data, "efficiency", path, "dimensionless")
+    npsh = _quantity_list(r, data, "npsh_required", path, "length")
+    for key, value in (("flow", flow), ("head", head)):
+        if value is None and key not in data:
+            r.problem(f"{path}.{key}", f"The pump curve needs {key} points.")
+    if flow is None or head is None:
+        return None
+    count = len(flow)
+    if count < MIN_CURVE_POINTS:
+        r.problem(f"{path}.flow", f"A pump curve needs at least {MIN_CURVE_POINTS} points; "
+                  f"got {count}.")
+    for key, series in (("head", head), ("efficiency", efficiency), ("npsh_required", npsh)):
+        if series is not None and len(series) != count:
+            r.problem(f"{path}.{key}", f"Expected {count} values, one for each flow point; "
+                      f"got {len(series)}.")
+    flows = [q.value for q in flow]
+    if flows[0] < 0.0 or any(b <= a for a, b in zip(flows, flows[1:], strict=False)):
+        r.problem(f"{path}.flow", "The flow points must start at zero or more and increase "
+                  "strictly.")
+    if any(h.value <= 0.0 for h in head):
+        r.problem(f"{path}.head", "Every head point must be greater than zero.")
+    if efficiency is not None and any(not 0.0 <= e.value <= 1.0 for e in efficiency):
+        r.problem(f"{path}.efficiency", "Every efficiency must lie between 0 and 1.")
+    if efficiency is not None and max(e.value for e in efficiency) <= 0.0:
+        r.problem(f"{path}.efficiency", "The efficiency curve has no positive value.")
+    if npsh is not None and any(n.value <= 0.0 for n in npsh):
+        r.problem(f"{path}.npsh_required", "Every NPSH required must be greater than zero.")
+    return PumpCurve(speed=speed, flow=flow, head=head, efficiency=efficiency or (),
+                     npsh_required=npsh or ())
 
 
 def _project(r: _Reader, data: dict[str, Any]) -> Project:

@@ -19,6 +19,7 @@ __all__ = [
     "Pipe",
     "Project",
     "Pump",
+    "PumpCurve",
     "Site",
     "Vessel",
 ]
@@ -106,9 +107,26 @@ class Pipe:
 
 
 @dataclass(frozen=True)
+class PumpCurve:
+    """Vendor curve points at the curve's own speed (None: the operating speed)."""
+
+    speed: Given | None
+    flow: tuple[Given, ...]
+    head: tuple[Given, ...]
+    efficiency: tuple[Given, ...] = ()
+    npsh_required: tuple[Given, ...] = ()
+
+
+@dataclass(frozen=True)
 class Pump:
     elevation: Given
     efficiency: Given | None = None
+    speed: Given | None = None
+    curve: PumpCurve | None = None
+    preferred_range: tuple[Given, Given] | None = None
+    allowable_range: tuple[Given, Given] | None = None
+    min_continuous_flow: Given | None = None
+    provenance: dict[str, str] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)

@@ -157,4 +157,13 @@ def registered() -> dict[str, Equation]:
 def _import_all() -> None:
     # The registry fills as modules import; recheck needs every module.
     from calcreport import physics  # noqa: F401
-    from calcreport.physics import atmosphere, friction, head, losses, power, water  # noqa: F401
+    from calcreport.physics import (  # noqa: F401
+        atmosphere,
+        friction,
+        head,
+        losses,
+        motor,
+        power,
+        pump,
+        water,
+    )

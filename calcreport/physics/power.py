@@ -1,7 +1,7 @@
 """Power and energy of a pump: hydraulic, shaft and electrical; energy and cost.
 
 Power
-    hydraulic_power, shaft_power, electrical_power
+    hydraulic_power, shaft_power, electrical_power, peak_shaft_power
 Energy
     hours_to_seconds, annual_energy, annual_cost
 """
@@ -9,6 +9,8 @@ Energy
 from __future__ import annotations
 
 from typing import Any
+
+import numpy as np
 
 from calcreport.physics.equation import equation
 from calcreport.physics.losses import G
@@ -19,6 +21,7 @@ __all__ = [
     "electrical_power",
     "hours_to_seconds",
     "hydraulic_power",
+    "peak_shaft_power",
     "shaft_power",
 ]
 
@@ -244,3 +247,67 @@ def annual_cost(E: Any, price: Any) -> Any:
        A Guide to Successful Applications, 2004.
     """
     return E / JOULES_PER_KWH * price
+
+
+PEAK_POINTS = 401
+
+
+def _peak_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    return (f"max over {PEAK_POINTS} flows from {fmt(values['flow'][0])} to "
+            f"{fmt(values['flow'][-1])} m³/s of {fmt(values['rho'])} kg/m³ × 9.80665 m/s² × "
+            f"Q × H_pump(Q) / η_p(Q), curves by monotone cubic")
+
+
+@equation(
+    symbol="P_s,max",
+    text="P_s,max = max over the curve of ρ·g·Q·H(Q)/η(Q)",
+    latex=r"P_{s,max} = \max_{Q}\ \frac{\rho\, g\, Q\, H(Q)}{\eta(Q)}",
+    substitute=_peak_text,
+    reference="karassik_2008",
+)
+def peak_shaft_power(rho: Any, flow: Any, head: Any, efficiency: Any) -> Any:
+    r"""Largest shaft power the pump takes anywhere on its curve (non-overloading basis).
+
+    .. math:: P_{s,max} = \max_{Q}\ \frac{\rho g Q H(Q)}{\eta(Q)}
+
+    Parameters
+    ----------
+    rho : float
+        Density of the liquid (the densest case) [kg/m^3]
+    flow : list of float
+        Flows of the curve points at the operating speed [m^3/s]
+    head : list of float
+        Heads of the curve points [m]
+    efficiency : list of float
+        Efficiencies of the curve points [-]
+
+    Returns
+    -------
+    P_max : float
+        Peak shaft power between the curve's first and last point [W]
+
+    Notes
+    -----
+    Evaluated on 401 evenly spaced flows where the interpolated efficiency
+    is at least a tenth of its largest value (at shutoff the efficiency is
+    zero and the power is not defined by this ratio; radial pumps take
+    their least power there).
+
+    Examples
+    --------
+    >>> round(peak_shaft_power(1000.0, [0.0, 0.01, 0.02], [40.0, 38.0, 30.0],
+    ...                        [0.0, 0.7, 0.65]) / 1e3, 2)
+    9.05
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (brake horsepower over the curve; non-overloading selection).
+    """
+    from calcreport.physics.pump import monotone_cubic
+
+    q = np.linspace(flow[0], flow[-1], PEAK_POINTS)
+    eta = monotone_cubic(flow, efficiency, q)
+    usable = eta >= 0.1 * np.max(eta)
+    power = rho * G * q[usable] * monotone_cubic(flow, head, q[usable]) / eta[usable]
+    return float(np.max(power))

@@ -1,0 +1,67 @@
+"""Motor sizing: the next standard rating at or above the power the pump can demand.
+
+Rating
+    standard_rating
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from calcreport.physics.equation import equation
+
+__all__ = ["standard_rating"]
+
+
+def _ratings_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    below = [r for r in values["ratings"] if r < result]
+    shown = f"{fmt(below[-1])} W < " if below else ""
+    return (f"smallest standard rating ≥ {fmt(values['P'])} W in the series: "
+            f"{shown}{fmt(values['P'])} W ≤ {fmt(result)} W")
+
+
+@equation(
+    symbol="P_motor",
+    text="P_motor = min{P_r ∈ series : P_r ≥ P_required}",
+    latex=r"P_{motor} = \min\{P_r \in \mathrm{series} : P_r \geq P_{req}\}",
+    substitute=_ratings_text,
+    reference="iec_60072",
+)
+def standard_rating(P: Any, ratings: Any) -> Any:
+    r"""The smallest standard motor rating not below a required output.
+
+    .. math:: P_{motor} = \min\{P_r \in \mathrm{series} : P_r \geq P_{req}\}
+
+    Parameters
+    ----------
+    P : float
+        Required motor output (shaft power with any margin) [W]
+    ratings : list of float
+        Standard ratings of the series, ascending [W]
+
+    Returns
+    -------
+    P_motor : float
+        Selected rating [W]
+
+    Notes
+    -----
+    Raises ValueError when the requirement exceeds the largest rating of
+    the series: such a drive is outside this catalogue.
+
+    Examples
+    --------
+    >>> standard_rating(10.6e3, [7.5e3, 11e3, 15e3])
+    11000.0
+
+    References
+    ----------
+    1. IEC 60072-1 (kW series); NEMA MG 1 (hp series).
+    """
+    for rating in ratings:
+        if rating >= P:
+            return float(rating)
+    raise ValueError(
+        f"a motor of {P / 1e3:.4g} kW exceeds the largest standard rating listed "
+        f"({ratings[-1] / 1e3:.4g} kW)"
+    )

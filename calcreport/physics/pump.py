@@ -1,0 +1,625 @@
+"""Pump performance: curve interpolation, affinity laws, operating point, NPSH margin.
+
+Curves
+    head_at, efficiency_at, npsh_required_at, best_efficiency_point, monotone_cubic
+Speed
+    affinity_flow, affinity_head, specific_speed
+Operating point
+    operating_point, solved_flow, head_balance
+NPSH
+    npsh_margin, npsh_margin_ratio
+
+Curves are interpolated by the monotone piecewise-cubic Hermite method of
+Fritsch and Carlson (slopes by the weighted harmonic mean of Fritsch and
+Butland), which passes through every given point and never overshoots
+between them; a curve is never extrapolated past its first or last point.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from typing import Any
+
+import numpy as np
+
+from calcreport.errors import ConvergenceError
+from calcreport.physics.equation import equation
+
+__all__ = [
+    "affinity_flow",
+    "affinity_head",
+    "best_efficiency_point",
+    "efficiency_at",
+    "head_at",
+    "head_balance",
+    "monotone_cubic",
+    "npsh_margin",
+    "npsh_margin_ratio",
+    "npsh_required_at",
+    "operating_point",
+    "solved_flow",
+    "specific_speed",
+]
+
+_MAX_ITERATIONS = 100
+
+
+def _slopes(x: np.ndarray, y: np.ndarray) -> np.ndarray:
+    h = np.diff(x)
+    delta = np.diff(y) / h
+    n = len(x)
+    d = np.zeros(n)
+    if n == 2:
+        d[:] = delta[0]
+        return d
+    for k in range(1, n - 1):
+        if delta[k - 1] * delta[k] > 0.0:
+            w1 = 2.0 * h[k] + h[k - 1]
+            w2 = h[k] + 2.0 * h[k - 1]
+            d[k] = (w1 + w2) / (w1 / delta[k - 1] + w2 / delta[k])
+    for end, (h0, h1, d0, d1) in ((0, (h[0], h[1], delta[0], delta[1])),
+                                  (n - 1, (h[-1], h[-2], delta[-1], delta[-2]))):
+        slope = ((2.0 * h0 + h1) * d0 - h0 * d1) / (h0 + h1)
+        if np.sign(slope) != np.sign(d0):
+            slope = 0.0
+        elif np.sign(d0) != np.sign(d1) and abs(slope) > abs(3.0 * d0):
+            slope = 3.0 * d0
+        d[end] = slope
+    return d
+
+
+def monotone_cubic(x: Any, y: Any, xq: Any) -> Any:
+    r"""Monotone piecewise-cubic Hermite interpolation (PCHIP) of y(x) at xq.
+
+    .. math:: p(t) = h_{00}(t) y_k + h_{10}(t) \Delta x\, d_k + h_{01}(t) y_{k+1}
+        + h_{11}(t) \Delta x\, d_{k+1}
+
+    Parameters
+    ----------
+    x : list of float
+        Abscissae, strictly increasing [-]
+    y : list of float
+        Ordinates [-]
+    xq : float
+        Where to interpolate, within [x[0], x[-1]] (scalar or array) [-]
+
+    Returns
+    -------
+    yq : float
+        Interpolated value [-]
+
+    Notes
+    -----
+    Outside [x[0], x[-1]] a ValueError is raised: a pump curve ends where
+    its data end. Agrees with ``scipy.interpolate.PchipInterpolator``.
+
+    Examples
+    --------
+    >>> round(float(monotone_cubic([0.0, 1.0, 2.0], [0.0, 1.0, 4.0], 1.5)), 4)
+    2.1875
+
+    References
+    ----------
+    1. Fritsch, F. N., and Carlson, R. E., "Monotone piecewise cubic
+       interpolation", SIAM J. Numerical Analysis 17 (2), 238-246, 1980.
+    2. Fritsch, F. N., and Butland, J., "A method for constructing local
+       monotone piecewise cubic interpolants", SIAM J. Sci. Stat. Comput.
+       5 (2), 300-304, 1984.
+    """
+    xa = np.asarray(x, dtype=float)
+    ya = np.asarray(y, dtype=float)
+    q = np.asarray(xq, dtype=float)
+    span = xa[-1] - xa[0]
+    tolerance = 1e-12 * span
+    if np.any(q < xa[0] - tolerance) or np.any(q > xa[-1] + tolerance):
+        raise ValueError(
+            f"{float(np.min(q)):.6g}..{float(np.max(q)):.6g} lies outside the curve data "
+            f"{xa[0]:.6g}..{xa[-1]:.6g}; curves are not extrapolated"
+        )
+    q = np.clip(q, xa[0], xa[-1])
+    d = _slopes(xa, ya)
+    k = np.clip(np.searchsorted(xa, q, side="right") - 1, 0, len(xa) - 2)
+    h = xa[k + 1] - xa[k]
+    t = (q - xa[k]) / h
+    h00 = (1 + 2 * t) * (1 - t) ** 2
+    h10 = t * (1 - t) ** 2
+    h01 = t**2 * (3 - 2 * t)
+    h11 = t**2 * (t - 1)
+    out = h00 * ya[k] + h10 * h * d[k] + h01 * ya[k + 1] + h11 * h * d[k + 1]
+    return float(out) if out.ndim == 0 else out
+
+
+def _curve_sub(label: str, unit: str) -> Callable[..., str]:
+    def text(values: dict[str, Any], result: float, fmt: Any) -> str:
+        flows, points = values["flow"], values[label]
+        Q = values["Q"]
+        k = max(0, min(len(flows) - 2, int(np.searchsorted(flows, Q, side="right")) - 1))
+        return (
+            f"monotone cubic through the {len(flows)} curve points at Q = {fmt(Q)} m³/s, "
+            f"between ({fmt(flows[k])} m³/s, {fmt(points[k])}{unit}) and "
+            f"({fmt(flows[k + 1])} m³/s, {fmt(points[k + 1])}{unit})"
+        )
+
+    return text
+
+
+@equation(
+    symbol="H_pump",
+    text="H_pump = PCHIP(Q_i, H_i; Q)",
+    latex=r"H_{pump} = \mathrm{PCHIP}(Q_i, H_i;\, Q)",
+    substitute=_curve_sub("head", " m"),
+    reference="fritsch_carlson_1980",
+)
+def head_at(Q: Any, flow: Any, head: Any) -> Any:
+    r"""Pump head at a flow, from the curve points.
+
+    .. math:: H_{pump} = \mathrm{PCHIP}(Q_i, H_i;\, Q)
+
+    Parameters
+    ----------
+    Q : float
+        Flow [m^3/s]
+    flow : list of float
+        Flows of the curve points [m^3/s]
+    head : list of float
+        Heads of the curve points [m]
+
+    Returns
+    -------
+    H : float
+        Pump head at Q [m]
+
+    Examples
+    --------
+    >>> round(head_at(0.012, [0.0, 0.008, 0.016], [48.0, 47.4, 45.2]), 3)
+    46.557
+
+    References
+    ----------
+    1. Fritsch and Carlson, SIAM J. Numer. Anal. 17 (2), 1980.
+    """
+    return monotone_cubic(flow, head, Q)
+
+
+@equation(
+    symbol="η_p",
+    text="η_p = PCHIP(Q_i, η_i; Q)",
+    latex=r"\eta_p = \mathrm{PCHIP}(Q_i, \eta_i;\, Q)",
+    substitute=_curve_sub("efficiency", ""),
+    reference="fritsch_carlson_1980",
+)
+def efficiency_at(Q: Any, flow: Any, efficiency: Any) -> Any:
+    r"""Pump efficiency at a flow, from the curve points.
+
+    .. math:: \eta_p = \mathrm{PCHIP}(Q_i, \eta_i;\, Q)
+
+    Parameters
+    ----------
+    Q : float
+        Flow [m^3/s]
+    flow : list of float
+        Flows of the curve points [m^3/s]
+    efficiency : list of float
+        Efficiencies of the curve points [-]
+
+    Returns
+    -------
+    eta : float
+        Pump efficiency at Q [-]
+
+    Examples
+    --------
+    >>> round(efficiency_at(0.016, [0.0, 0.008, 0.016], [0.0, 0.48, 0.70]), 2)
+    0.7
+
+    References
+    ----------
+    1. Fritsch and Carlson, SIAM J. Numer. Anal. 17 (2), 1980.
+    """
+    return monotone_cubic(flow, efficiency, Q)
+
+
+@equation(
+    symbol="NPSHr",
+    text="NPSHr = PCHIP(Q_i, NPSHr_i; Q)",
+    latex=r"NPSH_r = \mathrm{PCHIP}(Q_i, NPSH_{r,i};\, Q)",
+    substitute=_curve_sub("npsh", " m"),
+    reference="fritsch_carlson_1980",
+)
+def npsh_required_at(Q: Any, flow: Any, npsh: Any) -> Any:
+    r"""NPSH required at a flow, from the curve points.
+
+    .. math:: NPSH_r = \mathrm{PCHIP}(Q_i, NPSH_{r,i};\, Q)
+
+    Parameters
+    ----------
+    Q : float
+        Flow [m^3/s]
+    flow : list of float
+        Flows of the curve points [m^3/s]
+    npsh : list of float
+        NPSH required at the curve points [m]
+
+    Returns
+    -------
+    NPSHr : float
+        NPSH required at Q [m]
+
+    Examples
+    --------
+    >>> round(npsh_required_at(0.008, [0.0, 0.008, 0.016], [1.0, 1.4, 2.2]), 2)
+    1.4
+
+    References
+    ----------
+    1. Fritsch and Carlson, SIAM J. Numer. Anal. 17 (2), 1980.
+    """
+    return monotone_cubic(flow, npsh, Q)
+
+
+def best_efficiency_point(flow: Any, efficiency: Any) -> tuple[float, float]:
+    """Flow and efficiency at the maximum of the interpolated efficiency curve.
+
+    Parameters
+    ----------
+    flow : list of float
+        Flows of the curve points [m^3/s]
+    efficiency : list of float
+        Efficiencies of the curve points [-]
+
+    Returns
+    -------
+    bep : tuple of float
+        (Q_BEP, eta_BEP) [m^3/s, -]
+
+    Notes
+    -----
+    The maximum of the monotone cubic lies at a data point or inside one
+    interval; it is found on a fine grid refined by golden-section search.
+    """
+    q = np.linspace(flow[0], flow[-1], 801)
+    k = int(np.argmax(monotone_cubic(flow, efficiency, q)))
+    lo, hi = q[max(k - 1, 0)], q[min(k + 1, len(q) - 1)]
+    ratio = (math.sqrt(5.0) - 1.0) / 2.0
+    for _ in range(60):
+        a = hi - ratio * (hi - lo)
+        b = lo + ratio * (hi - lo)
+        if monotone_cubic(flow, efficiency, a) < monotone_cubic(flow, efficiency, b):
+            lo = a
+        else:
+            hi = b
+    best = 0.5 * (lo + hi)
+    return float(best), float(monotone_cubic(flow, efficiency, best))
+
+
+@equation(
+    symbol="Q_n",
+    text="Q_n = Q_0·(n/n_0)",
+    latex=r"Q_n = Q_0\,\frac{n}{n_0}",
+    substitute="{Q0} × {n} / {n0}",
+    reference="karassik_2008",
+)
+def affinity_flow(Q0: Any, n: Any, n0: Any) -> Any:
+    r"""Flow of a curve point moved to another speed by the affinity law.
+
+    .. math:: Q_n = Q_0 \frac{n}{n_0}
+
+    Parameters
+    ----------
+    Q0 : float
+        Flow at the curve's speed [m^3/s]
+    n : float
+        Operating speed [1/s]
+    n0 : float
+        Speed of the curve data [1/s]
+
+    Returns
+    -------
+    Q : float
+        Flow at the operating speed [m^3/s]
+
+    Examples
+    --------
+    >>> round(affinity_flow(0.020, 45.0, 50.0), 12)
+    0.018
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008,
+       sec. 2.1 (affinity laws).
+    """
+    return Q0 * n / n0
+
+
+@equation(
+    symbol="H_n",
+    text="H_n = H_0·(n/n_0)²",
+    latex=r"H_n = H_0\left(\frac{n}{n_0}\right)^2",
+    substitute="{H0} × ({n} / {n0})²",
+    reference="karassik_2008",
+)
+def affinity_head(H0: Any, n: Any, n0: Any) -> Any:
+    r"""Head of a curve point moved to another speed by the affinity law.
+
+    .. math:: H_n = H_0 \left(\frac{n}{n_0}\right)^2
+
+    Parameters
+    ----------
+    H0 : float
+        Head (or NPSH required, approximately) at the curve's speed [m]
+    n : float
+        Operating speed [1/s]
+    n0 : float
+        Speed of the curve data [1/s]
+
+    Returns
+    -------
+    H : float
+        Head at the operating speed [m]
+
+    Examples
+    --------
+    >>> round(affinity_head(40.0, 45.0, 50.0), 6)
+    32.4
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008,
+       sec. 2.1 (affinity laws).
+    """
+    return H0 * (n / n0) ** 2
+
+
+@equation(
+    symbol="N_s",
+    text="N_s = n·√Q/H^0.75 (n in rpm, Q in m³/s, H in m)",
+    latex=r"N_s = \frac{n\,\sqrt{Q}}{H^{0.75}}",
+    substitute="(60 × {n}) × √{Q} / ({H})^0.75",
+    reference="karassik_2008",
+)
+def specific_speed(n: Any, Q: Any, H: Any) -> Any:
+    r"""Specific speed at the best-efficiency point, metric (rpm, m^3/s, m).
+
+    .. math:: N_s = \frac{n \sqrt{Q}}{H^{0.75}}
+
+    Parameters
+    ----------
+    n : float
+        Rotational speed [1/s]
+    Q : float
+        Flow at BEP, per impeller eye [m^3/s]
+    H : float
+        Head at BEP, per stage [m]
+
+    Returns
+    -------
+    Ns : float
+        Specific speed in rpm, m^3/s and m; multiply by 51.645 for the
+        US form (rpm, gpm, ft) [-]
+
+    Examples
+    --------
+    >>> round(float(specific_speed(2950.0 / 60.0, 0.024, 41.6)), 1)
+    27.9
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008,
+       sec. 2.1 (specific speed).
+    """
+    return 60.0 * n * np.sqrt(Q) / H**0.75
+
+
+@equation(
+    symbol="NPSHa/NPSHr",
+    text="R = NPSHa/NPSHr",
+    latex=r"R = \frac{NPSH_a}{NPSH_r}",
+    substitute="{npsha} / {npshr}",
+    reference="hi_npsh",
+)
+def npsh_margin_ratio(npsha: Any, npshr: Any) -> Any:
+    r"""NPSH margin ratio of NPSH available to NPSH required.
+
+    .. math:: R = \frac{NPSH_a}{NPSH_r}
+
+    Parameters
+    ----------
+    npsha : float
+        NPSH available [m]
+    npshr : float
+        NPSH required (NPSH3 of the pump data) [m]
+
+    Returns
+    -------
+    R : float
+        NPSH margin ratio [-]
+
+    Examples
+    --------
+    >>> npsh_margin_ratio(6.0, 4.0)
+    1.5
+
+    References
+    ----------
+    1. ANSI/HI 9.6.1, Rotodynamic Pumps - Guideline for NPSH Margin.
+    """
+    return npsha / npshr
+
+
+@equation(
+    symbol="ΔNPSH",
+    text="ΔNPSH = NPSHa − NPSHr",
+    latex=r"\Delta NPSH = NPSH_a - NPSH_r",
+    substitute="{npsha} − {npshr}",
+    reference="hi_npsh",
+)
+def npsh_margin(npsha: Any, npshr: Any) -> Any:
+    r"""NPSH margin in head: NPSH available less NPSH required.
+
+    .. math:: \Delta NPSH = NPSH_a - NPSH_r
+
+    Parameters
+    ----------
+    npsha : float
+        NPSH available [m]
+    npshr : float
+        NPSH required (NPSH3 of the pump data) [m]
+
+    Returns
+    -------
+    margin : float
+        NPSH margin [m]
+
+    Examples
+    --------
+    >>> npsh_margin(6.0, 4.0)
+    2.0
+
+    References
+    ----------
+    1. ANSI/HI 9.6.1, Rotodynamic Pumps - Guideline for NPSH Margin.
+    """
+    return npsha - npshr
+
+
+def operating_point(
+    difference: Callable[[np.ndarray], np.ndarray], q_min: float, q_max: float
+) -> float | None:
+    """Flow where pump head equals system head, or None where the curves do not meet.
+
+    Parameters
+    ----------
+    difference : callable
+        Pump head less system head as a function of flow, vectorised [m]
+    q_min : float
+        Lowest flow of the pump curve [m^3/s]
+    q_max : float
+        Highest flow of the pump curve (end of curve) [m^3/s]
+
+    Returns
+    -------
+    Q : float
+        Operating flow, the highest root in [q_min, q_max] [m^3/s]
+
+    Notes
+    -----
+    The difference is sampled on 201 points to bracket the highest sign
+    change (a drooping curve may cross a flat system curve twice; the
+    higher flow is the stable one), then refined by the Illinois variant
+    of regula falsi to 1e-12 relative in flow; a ConvergenceError is
+    raised past 100 iterations.
+    """
+    q = np.linspace(q_min, q_max, 201)
+    d = difference(q)
+    sign = np.sign(d)
+    crossings = np.nonzero(sign[:-1] * sign[1:] <= 0.0)[0]
+    if len(crossings) == 0:
+        return None
+    k = int(crossings[-1])
+    a, b = float(q[k]), float(q[k + 1])
+    fa, fb = float(d[k]), float(d[k + 1])
+    if fb == 0.0:
+        return b
+    if fa == 0.0:
+        return a
+    side = 0
+    for _ in range(_MAX_ITERATIONS):
+        c = (a * fb - b * fa) / (fb - fa)
+        fc = float(difference(np.array([c]))[0])
+        if abs(b - a) <= 1e-12 * max(abs(c), 1e-12) or abs(fc) <= 1e-11:
+            return c
+        if fc * fb > 0:
+            b, fb = c, fc
+            if side == -1:
+                fa /= 2.0
+            side = -1
+        else:
+            a, fa = c, fc
+            if side == 1:
+                fb /= 2.0
+            side = 1
+    raise ConvergenceError("operating point (pump and system curves)", _MAX_ITERATIONS,
+                           abs(b - a) / max(abs(b), 1e-12))
+
+
+def _solved_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    return (f"Q = {fmt(values['Q'])} m³/s, the highest flow on the curve where "
+            "H_pump(Q) − H_system(Q) = 0, bracketed on 201 flows and refined by the "
+            "Illinois method; confirmed by the head-balance step")
+
+
+@equation(
+    symbol="Q_op",
+    text="Q_op: H_pump(Q_op) = H_system(Q_op)",
+    latex=r"H_{pump}(Q_{op}) = H_{system}(Q_{op})",
+    substitute=_solved_text,
+    reference="karassik_2008",
+)
+def solved_flow(Q: Any) -> Any:
+    r"""The operating flow found by :func:`operating_point`, recorded as a step.
+
+    .. math:: H_{pump}(Q_{op}) = H_{system}(Q_{op})
+
+    Parameters
+    ----------
+    Q : float
+        Flow returned by the root finder [m^3/s]
+
+    Returns
+    -------
+    Q_op : float
+        Operating flow [m^3/s]
+
+    Notes
+    -----
+    The value is the solver's; what proves it is the head-balance step
+    (:func:`head_balance`), whose result is zero to solver precision.
+
+    Examples
+    --------
+    >>> solved_flow(0.0233)
+    0.0233
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (operating point at the intersection of pump and system curves).
+    """
+    return Q
+
+
+@equation(
+    symbol="ΔH",
+    text="ΔH = H_pump − H_system",
+    latex=r"\Delta H = H_{pump} - H_{system}",
+    substitute="{H_pump} − {H_system}",
+    reference="karassik_2008",
+)
+def head_balance(H_pump: Any, H_system: Any) -> Any:
+    r"""Pump head less system head at a flow: zero at the operating point.
+
+    .. math:: \Delta H = H_{pump} - H_{system}
+
+    Parameters
+    ----------
+    H_pump : float
+        Pump head from its curve [m]
+    H_system : float
+        Total dynamic head the system needs [m]
+
+    Returns
+    -------
+    dH : float
+        Head balance [m]
+
+    Examples
+    --------
+    >>> head_balance(35.5, 35.5)
+    0.0
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008.
+    """
+    return H_pump - H_system

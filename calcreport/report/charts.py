@@ -1,0 +1,1470 @@
+"""Charts of the calculation report, drawn from a solved trace.
+
+Every public function takes a trace (the ``calcreport-trace/1`` JSON as a
+dict) and returns a :class:`Figure`: one page of vector PDF of a fixed size
+and a one-line caption. The charts plot values of the trace and convert
+units for display; they compute no engineering numbers (the one exception is
+the background of the friction-factor chart, the laminar and Colebrook lines
+of constant relative roughness, drawn with :mod:`calcreport.physics.friction`).
+
+matplotlib is imported lazily, inside the functions, and only through its
+object API (no pyplot), so solving never loads it and no global state is
+left behind. The same trace gives the same PDF bytes.
+
+Charts
+------
+- :func:`system_curve` -- system head against flow with the duty point
+- :func:`npsh` -- NPSH available against flow
+- :func:`profile` -- energy and hydraulic grade lines along the route
+- :func:`loss_breakdown` -- the parts of the total dynamic head
+- :func:`friction_factor` -- Darcy friction factor against Reynolds number
+- :func:`sketch` -- a single-line schematic of the system with its elevations
+
+Helpers
+-------
+- :class:`Figure` -- the PDF bytes, page size and caption of one chart
+- :data:`FIGURES` -- the names of the chart functions, in report order
+"""
+
+from __future__ import annotations
+
+import io
+import math
+from collections.abc import Callable, Iterable, Sequence
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from calcreport.trace import fmt, pretty_unit
+from calcreport.units import display_unit, to_display
+
+__all__ = [
+    "FIGURES",
+    "Figure",
+    "friction_factor",
+    "loss_breakdown",
+    "npsh",
+    "profile",
+    "sketch",
+    "system_curve",
+]
+
+
+@dataclass(frozen=True)
+class Figure:
+    """One chart: a one-page vector PDF, its page size and its caption.
+
+    ``title`` is the caption text without the "Figure N —" prefix, which
+    the document adds. ``figure`` is the drawn matplotlib Figure itself, for
+    a document that draws the chart on its own canvas rather than embedding
+    ``pdf``; it takes no part in comparisons.
+    """
+
+    pdf: bytes
+    width_pt: float
+    height_pt: float
+    title: str
+    figure: Any = field(default=None, compare=False, repr=False)
+
+    def __post_init__(self) -> None:
+        if not self.pdf.startswith(b"%PDF"):
+            raise ValueError("Figure.pdf must hold a PDF document.")
+        if not (self.width_pt > 0 and self.height_pt > 0):
+            raise ValueError("Figure width and height must be positive.")
+        if not self.title:
+            raise ValueError("Figure.title must not be empty.")
+
+
+# --------------------------------------------------------------------------
+# Appearance: one place for sizes, palette and matplotlib settings.
+
+WIDTH_IN = 6.3  # fits the text width of A4 and Letter
+FONT_PT = 8.0  # annotations and ticks
+LABEL_PT = 8.5  # axis labels
+
+INK = "#222222"
+BLUE = "#1f4e79"  # primary line
+RUST = "#b0502a"  # second line, duty point
+GREEN = "#4d7a36"  # third series
+GREY = "#808080"
+LIGHT = "#d0d0d0"
+LIQUID = "#dce6ef"
+
+_RC: dict[str, Any] = {
+    "font.family": "DejaVu Sans",
+    "font.size": FONT_PT,
+    "axes.labelsize": LABEL_PT,
+    "axes.titlesize": LABEL_PT,
+    "xtick.labelsize": FONT_PT,
+    "ytick.labelsize": FONT_PT,
+    "legend.fontsize": FONT_PT,
+    "mathtext.fontset": "dejavusans",
+    "text.color": INK,
+    "axes.labelcolor": INK,
+    "axes.edgecolor": "#555555",
+    "axes.linewidth": 0.6,
+    "axes.spines.top": False,
+    "axes.spines.right": False,
+    "axes.axisbelow": True,
+    "axes.grid": False,
+    "axes.formatter.useoffset": False,
+    "axes.formatter.use_mathtext": False,
+    "axes.unicode_minus": True,
+    "xtick.color": "#555555",
+    "ytick.color": "#555555",
+    "xtick.labelcolor": INK,
+    "ytick.labelcolor": INK,
+    "xtick.major.width": 0.6,
+    "ytick.major.width": 0.6,
+    "xtick.minor.width": 0.4,
+    "ytick.minor.width": 0.4,
+    "xtick.major.size": 3.0,
+    "ytick.major.size": 3.0,
+    "xtick.minor.size": 1.8,
+    "ytick.minor.size": 1.8,
+    "grid.color": "#e4e4e4",
+    "grid.linewidth": 0.5,
+    "lines.linewidth": 1.3,
+    "lines.solid_capstyle": "butt",
+    "hatch.linewidth": 0.5,
+    "legend.frameon": False,
+    "legend.handlelength": 2.3,
+    "legend.borderaxespad": 0.0,
+    "legend.columnspacing": 1.3,
+    "figure.dpi": 72,
+    "savefig.dpi": 72,
+    "pdf.fonttype": 42,  # embed TrueType, text stays text
+    "pdf.compression": 6,
+    "svg.hashsalt": "calcreport",
+    "path.simplify": False,
+}
+
+_PDF_METADATA = {"Creator": None, "Producer": None, "CreationDate": None}
+
+
+# --------------------------------------------------------------------------
+# Public charts
+
+
+def system_curve(trace: dict[str, Any]) -> Figure:
+    """System head against flow with the duty point and the static head."""
+    return _render(_draw_system_curve, trace)
+
+
+def npsh(trace: dict[str, Any]) -> Figure:
+    """NPSH available against flow with the duty flow marked."""
+    return _render(_draw_npsh, trace)
+
+
+def profile(trace: dict[str, Any]) -> Figure:
+    """Energy and hydraulic grade lines along the route, source to destination."""
+    return _render(_draw_profile, trace)
+
+
+def loss_breakdown(trace: dict[str, Any]) -> Figure:
+    """The parts of the total dynamic head as horizontal bars."""
+    return _render(_draw_loss_breakdown, trace)
+
+
+def friction_factor(trace: dict[str, Any]) -> Figure:
+    """Darcy friction factor against Reynolds number with this system's pipes."""
+    return _render(_draw_friction_factor, trace)
+
+
+def sketch(trace: dict[str, Any]) -> Figure:
+    """A single-line schematic of the system with its elevations to scale."""
+    return _render(_draw_sketch, trace)
+
+
+FIGURES = ("sketch", "system_curve", "npsh", "profile", "loss_breakdown", "friction_factor")
+
+
+# --------------------------------------------------------------------------
+# Rendering
+
+
+def _render(draw: Callable[[dict[str, Any]], tuple[Any, str]], trace: dict[str, Any]) -> Figure:
+    """Draw a chart under the package's settings and save it as PDF bytes."""
+    import matplotlib
+
+    with matplotlib.rc_context(_RC):
+        fig, title = draw(trace)
+        buffer = io.BytesIO()
+        fig.savefig(buffer, format="pdf", metadata=_PDF_METADATA)
+    width, height = fig.get_size_inches()
+    return Figure(
+        pdf=buffer.getvalue(),
+        width_pt=float(width) * 72.0,
+        height_pt=float(height) * 72.0,
+        title=title,
+        figure=fig,
+    )
+
+
+def _new_figure(height_in: float) -> Any:
+    from matplotlib.figure import Figure as MplFigure
+
+    fig = MplFigure(figsize=(WIDTH_IN, height_in), dpi=72, layout="constrained")
+    fig.get_layout_engine().set(w_pad=4 / 72, h_pad=4 / 72, wspace=0.0, hspace=0.0)
+    return fig
+
+
+def _freeze_layout(fig: Any) -> None:
+    """Run the constrained layout once and keep it: later draws reuse its positions."""
+    fig.draw_without_rendering()
+    fig.set_layout_engine("none")
+
+
+def _style_axes(ax: Any, grid: str = "both") -> None:
+    ax.grid(True, which="major", axis=grid)
+    ax.tick_params(which="both", direction="out")
+
+
+def _legend_above(
+    ax: Any, handles: Sequence[Any] | None = None, ncols: int | None = None, reserve: float = 0.0
+) -> None:
+    """A frameless legend in one row above the axes, in more rows when it is too wide."""
+    if handles is None:
+        handles, _ = ax.get_legend_handles_labels()
+    if not handles:
+        return
+    room = ax.get_figure(root=True).bbox.width - 60.0 - reserve
+    columns = min(ncols or len(handles), len(handles))
+    while True:
+        legend = ax.legend(
+            handles=list(handles),
+            loc="lower left",
+            bbox_to_anchor=(0.0, 1.02),
+            ncols=columns,
+            handletextpad=0.6,
+        )
+        if columns == 1 or legend.get_window_extent().width <= room:
+            return
+        columns -= 1
+
+
+# --------------------------------------------------------------------------
+# Trace access and display units
+
+
+class _Display:
+    """Unit conversion for display in the report's unit system."""
+
+    def __init__(self, trace: dict[str, Any]) -> None:
+        units = str(trace.get("project", {}).get("units", "SI")).upper()
+        self.system = "US" if units == "US" else "SI"
+        self._linear: dict[tuple[str, str], tuple[float, float]] = {}
+
+    def unit(self, kind: str) -> str:
+        return display_unit(kind, self.system)
+
+    def label(self, kind: str) -> str:
+        return pretty_unit(self.unit(kind))
+
+    def __call__(self, q: dict[str, Any], kind: str) -> Any:
+        """The quantity ``q`` ({"value", "unit"}, scalar or list) in display units."""
+        unit = self.unit(kind)
+        value = q["value"]
+        if isinstance(value, list | tuple | np.ndarray):
+            offset, scale = self._line(q.get("unit", ""), unit)
+            return np.asarray(value, dtype=float) * scale + offset
+        return to_display(float(value), q.get("unit", ""), unit)
+
+    def series(self, q: dict[str, Any], kind: str, n: int) -> Any:
+        """A curve's values as an array of ``n`` (a constant may be stored as one number)."""
+        values = np.asarray(self(q, kind), dtype=float)
+        return np.broadcast_to(values, (n,)) if values.ndim == 0 else values
+
+    def raw(self, value: float, si_unit: str, kind: str) -> float:
+        return to_display(float(value), si_unit, self.unit(kind))
+
+    def _line(self, si_unit: str, unit: str) -> tuple[float, float]:
+        key = (si_unit, unit)
+        if key not in self._linear:
+            offset = to_display(0.0, si_unit, unit)
+            self._linear[key] = (offset, to_display(1.0, si_unit, unit) - offset)
+        return self._linear[key]
+
+
+def _results(trace: dict[str, Any], *keys: str) -> dict[str, Any]:
+    results = trace.get("results")
+    if not isinstance(results, dict):
+        raise ValueError("The trace has no results table; solve the input first.")
+    missing = [k for k in keys if k not in results]
+    if missing:
+        raise ValueError(f"The trace results lack {', '.join(missing)}, which this chart plots.")
+    return results
+
+
+def _num(x: float, sig: int = 3) -> str:
+    """A result for a chart label: ``sig`` significant figures."""
+    if x == 0 or not math.isfinite(x):
+        return "0" if x == 0 else str(x)
+    return fmt(x, sig)
+
+
+def _plain(x: float) -> str:
+    """An input value as entered: up to four significant figures, no trailing zeros."""
+    if x == 0:
+        return "0"
+    if abs(x) >= 1000:
+        return f"{x:.0f}"
+    return f"{x:.4g}"
+
+
+def _with_unit(text: str, unit: str) -> str:
+    return f"{text} {unit}" if unit else text
+
+
+def _given(trace: dict[str, Any], key: str) -> dict[str, Any] | None:
+    value = trace.get("given", {}).get(key)
+    return value if isinstance(value, dict) and "value" in value else None
+
+
+def _pipe_items(results: dict[str, Any]) -> list[tuple[str, dict[str, Any]]]:
+    pipes = results.get("pipes", {})
+    return [(str(k), v) for k, v in pipes.items() if isinstance(v, dict)]
+
+
+# --------------------------------------------------------------------------
+# Label placement: try candidate offsets, keep the first that overlaps no
+# line, marker or other label and stays inside the axes.
+
+
+class _Placer:
+    """Place annotations where they overlap nothing already drawn."""
+
+    def __init__(self, fig: Any, ax: Any, pad: float = 1.5) -> None:
+        _freeze_layout(fig)  # the labels are measured in this layout and saved in it
+        self.fig = fig
+        self.ax = ax
+        self.pad = pad
+        frame = ax.get_window_extent()
+        self.frame = (frame.x0, frame.y0, frame.x1, frame.y1)
+        self.segments = np.empty((0, 4))
+        self.boxes: list[tuple[float, float, float, float]] = []
+
+    # obstacles -----------------------------------------------------------
+    def add_lines(self, lines: Iterable[Any] | None = None) -> None:
+        for line in self.ax.lines if lines is None else lines:
+            xy = line.get_transform().transform(np.asarray(line.get_xydata(), dtype=float))
+            if line.get_linestyle() not in ("None", "none", "", " "):
+                self.add_polyline(xy, display=True)
+            if line.get_marker() not in (None, "None", "", " "):
+                size = float(line.get_markersize()) / 2 + 0.5
+                for x, y in xy:
+                    if np.isfinite(x) and np.isfinite(y):
+                        self.boxes.append((x - size, y - size, x + size, y + size))
+
+    def add_polyline(self, xy: Any, display: bool = False) -> None:
+        xy = np.asarray(xy, dtype=float)
+        if not display:
+            xy = self.ax.transData.transform(xy)
+        if len(xy) < 2:
+            return
+        seg = np.hstack([xy[:-1], xy[1:]])
+        seg = seg[np.all(np.isfinite(seg), axis=1)]
+        self.segments = np.vstack([self.segments, seg])
+
+    def add_data_box(self, x0: float, y0: float, x1: float, y1: float) -> None:
+        (a, b), (c, d) = self.ax.transData.transform([(x0, y0), (x1, y1)])
+        self.boxes.append((min(a, c), min(b, d), max(a, c), max(b, d)))
+
+    def add_artist_box(self, artist: Any) -> None:
+        bb = artist.get_window_extent()
+        self.boxes.append((bb.x0, bb.y0, bb.x1, bb.y1))
+
+    # placement -----------------------------------------------------------
+    def place(
+        self,
+        text: str,
+        xy: tuple[float, float],
+        offsets: Sequence[tuple[float, float]],
+        leader_from: float = 9.0,
+        inside: bool = True,
+        fontsize: float = FONT_PT,
+        rivals: Sequence[tuple[float, float]] = (),
+        **kw: Any,
+    ) -> Any:
+        """Annotate ``xy`` (data) with ``text`` at the best of ``offsets`` (points).
+
+        ``rivals`` are other labelled points (data): a place nearer to one of
+        them than to ``xy`` counts against a candidate, so labels stay unambiguous.
+        """
+        own = self.ax.transData.transform([xy])[0]
+        others = self.ax.transData.transform(rivals) if len(rivals) else np.empty((0, 2))
+        ann = self.ax.annotate(
+            text,
+            xy=xy,
+            xytext=offsets[0],
+            textcoords="offset points",
+            annotation_clip=False,
+            fontsize=fontsize,
+            **kw,
+        )
+        ann.set_in_layout(False)
+        best: tuple[float, int] | None = None
+        for i, (dx, dy) in enumerate(offsets):
+            self._set_offset(ann, dx, dy)
+            bb = ann.get_window_extent()
+            score = self._score(bb, inside)
+            if len(others):
+                mine = _box_distance(bb, own)
+                if any(_box_distance(bb, o) < mine + 2.0 for o in others):
+                    score += 2.0
+            if best is None or score < best[0]:
+                best = (score, i)
+            if score == 0:
+                break
+        assert best is not None
+        dx, dy = offsets[best[1]]
+        self._set_offset(ann, dx, dy)
+        if math.hypot(dx, dy) >= leader_from:
+            ha, va = ann.get_horizontalalignment(), ann.get_verticalalignment()
+            ann.remove()
+            ann = self.ax.annotate(
+                text,
+                xy=xy,
+                xytext=(dx, dy),
+                textcoords="offset points",
+                annotation_clip=False,
+                ha=ha,
+                va=va,
+                fontsize=fontsize,
+                arrowprops={
+                    "arrowstyle": "-",
+                    "lw": 0.5,
+                    "color": GREY,
+                    "shrinkA": 1.0,
+                    "shrinkB": 1.5,
+                },
+                **kw,
+            )
+            ann.set_in_layout(False)
+            target = self.ax.transData.transform([xy])[0]
+            bb = ann.get_window_extent()
+            self.add_polyline([target, _nearest_point(bb, target)], display=True)
+        bb = ann.get_window_extent()
+        self.boxes.append((bb.x0 - 0.5, bb.y0 - 0.5, bb.x1 + 0.5, bb.y1 + 0.5))
+        return ann
+
+    @staticmethod
+    def _set_offset(ann: Any, dx: float, dy: float) -> None:
+        ann.xyann = (dx, dy)
+        ann.set_horizontalalignment("left" if dx > 0.5 else "right" if dx < -0.5 else "center")
+        ann.set_verticalalignment("bottom" if dy > 0.5 else "top" if dy < -0.5 else "center")
+
+    def _score(self, bb: Any, inside: bool) -> float:
+        p = self.pad
+        box = (bb.x0 - p, bb.y0 - p, bb.x1 + p, bb.y1 + p)
+        score = float(np.count_nonzero(_segments_hit(self.segments, box)))
+        score += 3.0 * sum(_overlap(box, other) for other in self.boxes)
+        if inside:
+            fx0, fy0, fx1, fy1 = self.frame
+            if bb.x0 < fx0 or bb.y0 < fy0 or bb.x1 > fx1 or bb.y1 > fy1:
+                score += 20.0
+        return score
+
+
+def _box_distance(bb: Any, point: Sequence[float]) -> float:
+    nx, ny = _nearest_point(bb, point)
+    return math.hypot(nx - point[0], ny - point[1])
+
+
+def _nearest_point(bb: Any, point: Sequence[float]) -> tuple[float, float]:
+    return (min(max(point[0], bb.x0), bb.x1), min(max(point[1], bb.y0), bb.y1))
+
+
+def _overlap(a: Sequence[float], b: Sequence[float]) -> bool:
+    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+
+def _segments_hit(seg: Any, box: Sequence[float]) -> Any:
+    """Which segments (rows x0, y0, x1, y1) cross the box (Liang-Barsky clipping)."""
+    if len(seg) == 0:
+        return np.zeros(0, dtype=bool)
+    xmin, ymin, xmax, ymax = box
+    x0, y0, x1, y1 = seg.T
+    dx, dy = x1 - x0, y1 - y0
+    u0 = np.zeros(len(seg))
+    u1 = np.ones(len(seg))
+    ok = np.ones(len(seg), dtype=bool)
+    for p, q in ((-dx, x0 - xmin), (dx, xmax - x0), (-dy, y0 - ymin), (dy, ymax - y0)):
+        parallel = p == 0
+        ok &= ~(parallel & (q < 0))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            t = np.where(parallel, 0.0, q / np.where(parallel, 1.0, p))
+        u0 = np.where(~parallel & (p < 0), np.maximum(u0, t), u0)
+        u1 = np.where(~parallel & (p > 0), np.minimum(u1, t), u1)
+    return ok & (u0 <= u1)
+
+
+def _ring(radii: Sequence[float], first: Sequence[tuple[float, float]] = ()) -> list[tuple]:
+    """Candidate offsets: ``first``, then eight directions at each radius."""
+    out = list(first)
+    directions = ((1, 1), (-1, 1), (1, -1), (-1, -1), (0, 1), (0, -1), (1, 0), (-1, 0))
+    for r in radii:
+        for ux, uy in directions:
+            scale = r / math.hypot(ux, uy) if ux and uy else r
+            out.append((ux * scale, uy * scale))
+    return out
+
+
+# --------------------------------------------------------------------------
+# 1. System curve
+
+
+def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
+    r = _results(trace, "system_curve", "flow", "total_dynamic_head")
+    d = _Display(trace)
+    curve = r["system_curve"]
+    q = d(curve["flow"], "flow")
+    h = d.series(curve["head"], "length", len(q))
+    q_duty = d(r["flow"], "flow")
+    h_duty = d(r["total_dynamic_head"], "length")
+    qu, hu = d.label("flow"), d.label("length")
+
+    fig = _new_figure(3.4)
+    ax = fig.add_subplot()
+    _style_axes(ax)
+    handles = []
+    (line,) = ax.plot(q, h, color=BLUE, lw=1.6, label="system curve, design case")
+    handles.append(line)
+    ymax = float(np.max(h))
+    xmax = float(np.max(q))
+
+    # Other operating cases that carry their own curve.
+    styles = iter([(GREY, (0, (5, 2))), (GREY, (0, (1, 1.5))), (GREY, (0, (6, 2, 1, 2)))] * 4)
+    titles = {c.get("id"): c.get("title", c.get("id")) for c in trace.get("cases", []) or []}
+    for case_id, case in (r.get("cases") or {}).items():
+        other = case.get("system_curve") if isinstance(case, dict) else None
+        if not other or other == curve:
+            continue
+        color, dash = next(styles)
+        (line,) = ax.plot(
+            d(other["flow"], "flow"),
+            d(other["head"], "length"),
+            color=color,
+            lw=1.0,
+            ls=dash,
+            label=f"system curve, {titles.get(case_id, case_id)}",
+        )
+        handles.append(line)
+        ymax = max(ymax, float(np.max(line.get_ydata())))
+
+    # Pump curve and operating point, when the trace has them.
+    pump = r.get("pump_curve")
+    if isinstance(pump, dict) and "flow" in pump and "head" in pump:
+        (line,) = ax.plot(
+            d(pump["flow"], "flow"),
+            d(pump["head"], "length"),
+            color=INK,
+            lw=1.3,
+            ls=(0, (7, 2, 1.5, 2)),
+            label="pump curve",
+        )
+        handles.append(line)
+        ymax = max(ymax, float(np.max(line.get_ydata())))
+        xmax = max(xmax, float(np.max(line.get_xdata())))
+
+    # Static head: the elevation and surface-pressure parts of TDH.
+    static = r.get("static_head")
+    pressure = r.get("pressure_head")
+    static_line = None
+    if static is not None:
+        h_static = d(static, "length") + (d(pressure, "length") if pressure else 0.0)
+        has_pressure = bool(pressure) and pressure["value"] != 0
+        name = "static head"
+        (static_line,) = ax.plot(
+            [0, xmax], [h_static, h_static], color=GREY, lw=1.0, ls=(0, (4, 2)), label=name
+        )
+        handles.append(static_line)
+
+    (duty,) = ax.plot(
+        [q_duty], [h_duty], ls="none", marker="o", ms=6, mfc=RUST, mec=INK, mew=0.6, zorder=5
+    )
+    duty.set_label("duty point")
+    handles.append(duty)
+    ax.plot([q_duty, q_duty], [0, h_duty], color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
+    ax.plot([0, q_duty], [h_duty, h_duty], color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
+
+    op = r.get("operating_point")
+    op_xy = None
+    if isinstance(op, dict) and "flow" in op and "head" in op:
+        op_xy = (d(op["flow"], "flow"), d(op["head"], "length"))
+        (opm,) = ax.plot(
+            [op_xy[0]], [op_xy[1]], ls="none", marker="D", ms=5.5, mfc="white", mec=INK, zorder=6
+        )
+        opm.set_label("operating point")
+        handles.append(opm)
+
+    ax.set_xlim(0, xmax * 1.02)
+    ax.set_ylim(0, ymax * 1.12)
+    ax.set_xlabel(f"Flow [{qu}]")
+    ax.set_ylabel(f"Head [{hu}]")
+    _legend_above(ax, handles)
+
+    placer = _Placer(fig, ax)
+    placer.add_lines()
+    placer.place(
+        f"duty point\n{_num(q_duty)} {qu}, TDH {_num(h_duty)} {hu}",
+        (q_duty, h_duty),
+        [(-14, 16), (-24, 26), (14, -16), (16, -28), (-34, 6), (12, 20)],
+        leader_from=4,
+        multialignment="left",
+    )
+    if op_xy is not None:
+        placer.place(
+            f"operating point\n{_num(op_xy[0])} {qu}, {_num(op_xy[1])} {hu}",
+            op_xy,
+            [(14, -16), (16, -28), (-14, 16), (20, 6), (-24, -20)],
+            leader_from=4,
+        )
+    if static_line is not None:
+        text = f"static head {_num(h_static)} {hu}"
+        if has_pressure:
+            text += (
+                f" = elevation {_num(d(static, 'length'))} {hu}"
+                f" + pressure {_num(d(pressure, 'length'))} {hu}"
+            )
+        placer.place(text, (xmax * 0.01, h_static), [(2, -3), (2, 3)], leader_from=99)
+
+    title = (
+        f"System curve at the design case: head against flow, duty point "
+        f"{_num(q_duty)} {qu} at TDH {_num(h_duty)} {hu}"
+    )
+    if op_xy is not None:
+        title += ", with the pump curve and the operating point"
+    return fig, title
+
+
+# --------------------------------------------------------------------------
+# 2. NPSH
+
+
+def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
+    r = _results(trace, "system_curve", "flow", "npsh_available")
+    d = _Display(trace)
+    curve = r["system_curve"]
+    if "npsh_available" not in curve:
+        raise ValueError("The trace's system curve has no npsh_available, which this chart plots.")
+    q = d(curve["flow"], "flow")
+    a = d.series(curve["npsh_available"], "length", len(q))
+    q_duty = d(r["flow"], "flow")
+    a_duty = d(r["npsh_available"], "length")
+    qu, hu = d.label("flow"), d.label("length")
+
+    fig = _new_figure(3.2)
+    ax = fig.add_subplot()
+    _style_axes(ax)
+    handles = []
+    basis = " at the lowest source level" if _given(trace, "source.level_low") else ""
+    (line,) = ax.plot(q, a, color=BLUE, lw=1.6, label=f"NPSH available{basis}")
+    handles.append(line)
+    ymax = float(np.max(a))
+    xmax = float(np.max(q))
+
+    pump = r.get("pump_curve")
+    if isinstance(pump, dict) and "flow" in pump and "npsh_required" in pump:
+        (line,) = ax.plot(
+            d(pump["flow"], "flow"),
+            d(pump["npsh_required"], "length"),
+            color=RUST,
+            lw=1.3,
+            ls=(0, (5, 2)),
+            marker="s",
+            ms=3.5,
+            mfc="white",
+            label="NPSH required (pump data)",
+        )
+        handles.append(line)
+        ymax = max(ymax, float(np.max(line.get_ydata())))
+        xmax = max(xmax, float(np.max(line.get_xdata())))
+
+    (duty,) = ax.plot(
+        [q_duty], [a_duty], ls="none", marker="o", ms=6, mfc=RUST, mec=INK, mew=0.6, zorder=5
+    )
+    duty.set_label("duty flow")
+    handles.append(duty)
+    ax.axvline(q_duty, color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
+
+    op = r.get("operating_point")
+    if isinstance(op, dict) and "flow" in op and "npsh_required" in op:
+        (opm,) = ax.plot(
+            [d(op["flow"], "flow")],
+            [d(op["npsh_required"], "length")],
+            ls="none",
+            marker="D",
+            ms=5.5,
+            mfc="white",
+            mec=INK,
+            zorder=6,
+            label="NPSH required at the operating point",
+        )
+        handles.append(opm)
+
+    ax.set_xlim(0, xmax * 1.02)
+    ax.set_ylim(0, ymax * 1.3)
+    ax.set_xlabel(f"Flow [{qu}]")
+    ax.set_ylabel(f"NPSH [{hu}]")
+    _legend_above(ax, handles)
+
+    placer = _Placer(fig, ax)
+    placer.add_lines()
+    placer.place(
+        f"duty flow {_num(q_duty)} {qu}\nNPSHa {_num(a_duty)} {hu}",
+        (q_duty, a_duty),
+        [(7, 8), (-7, 8), (7, -8), (-7, -8), (14, 20), (-14, 20)],
+        leader_from=99,
+    )
+    title = (
+        f"NPSH available against flow at the design case; at the duty flow "
+        f"{_num(q_duty)} {qu}, NPSHa = {_num(a_duty)} {hu}"
+    )
+    return fig, title
+
+
+# --------------------------------------------------------------------------
+# 3. Route profile
+
+
+def _surface_marker() -> Any:
+    """The liquid-surface symbol: a downward triangle on the surface, two bars below."""
+    from matplotlib.path import Path
+
+    verts = [
+        (-0.55, 1.0), (0.55, 1.0), (0.0, 0.0), (-0.55, 1.0),
+        (-0.45, -0.3), (0.45, -0.3),
+        (-0.25, -0.6), (0.25, -0.6),
+    ]  # fmt: skip
+    codes = [Path.MOVETO, Path.LINETO, Path.LINETO, Path.CLOSEPOLY]
+    codes += [Path.MOVETO, Path.LINETO, Path.MOVETO, Path.LINETO]
+    return Path(verts, codes)
+
+
+def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
+    r = _results(trace, "profile")
+    d = _Display(trace)
+    prof = r["profile"]
+    nodes = prof.get("nodes", [])
+    if len(nodes) < 2:
+        raise ValueError("The trace's profile has fewer than two nodes.")
+    si = prof.get("unit", "m")
+
+    def conv(v: float) -> float:
+        return d.raw(v, si, "length")
+
+    hu = d.label("length")
+    x = np.array([conv(n["distance"]) for n in nodes])
+    egl = np.array([conv(n["egl"]) for n in nodes])
+    hgl = np.array([conv(n["hgl"]) for n in nodes])
+    names = [str(n.get("name", "")) for n in nodes]
+    last = len(nodes) - 1
+
+    fig = _new_figure(3.5)
+    ax = fig.add_subplot()
+    _style_axes(ax)
+    handles = []
+    (egl_line,) = ax.plot(x, egl, color=BLUE, lw=1.5, label="EGL")
+    (hgl_line,) = ax.plot(x, hgl, color=RUST, lw=1.1, ls=(0, (5, 2)), label="HGL")
+    handles += [egl_line, hgl_line]
+    ys = [egl, hgl]
+
+    # Pipe centreline where the input gives node elevations (not the two surfaces).
+    centre = np.array(
+        [
+            conv(n["elevation"]) if n.get("elevation") is not None and 0 < i < last else np.nan
+            for i, n in enumerate(nodes)
+        ]
+    )
+    if np.any(np.isfinite(centre)):
+        (pipe_line,) = ax.plot(
+            x, centre, color="#555555", lw=2.4, marker="o", ms=2.5, zorder=2,
+            label="pipe centreline (given)",
+        )  # fmt: skip
+        handles.append(pipe_line)
+        ys.append(centre[np.isfinite(centre)])
+
+    # The liquid surfaces; a pressurised surface's grade line stands above it.
+    surfaces = []
+    for i, grade in ((0, egl[0]), (last, hgl[last])):
+        level = nodes[i].get("elevation")
+        y = conv(level) if level is not None else grade
+        surfaces.append((x[i], y, grade))
+        if abs(grade - y) > 1e-9:
+            ax.plot([x[i], x[i]], [y, grade], color=GREY, lw=0.8, ls=(0, (1, 1.5)), zorder=1)
+    ys.append(np.array([s[1] for s in surfaces]))
+
+    # The pipes: their spans along the route, from the "<id> start/end" nodes.
+    spans: list[tuple[str, int, int]] = []
+    for pid, _ in _pipe_items(r):
+        if f"{pid} start" in names and f"{pid} end" in names:
+            spans.append((pid, names.index(f"{pid} start"), names.index(f"{pid} end")))
+    for _pid, _i0, i1 in spans[:-1]:
+        ax.axvline(x[i1], color=LIGHT, lw=0.5, ls=(0, (2, 2)), zorder=0)
+
+    # Where the EGL jumps: the pump, after the last suction pipe.
+    pump_after = prof.get("pump_after")
+    jump: int | None
+    if pump_after and f"{pump_after} end" in names:
+        jump = names.index(f"{pump_after} end")
+    else:
+        rise = np.diff(egl)
+        jump = int(np.argmax(rise)) if rise.size and np.max(rise) > 0 else None
+
+    lo = float(min(np.nanmin(y) for y in ys))
+    hi = float(max(np.nanmax(y) for y in ys))
+    span = max(hi - lo, 1.0)
+    length = max(float(x[-1] - x[0]), 1e-9)
+    ax.set_xlim(x[0] - 0.02 * length, x[-1] + 0.025 * length)
+    ax.set_ylim(lo - 0.16 * span, hi + 0.10 * span)
+    ax.set_xlabel(f"Distance along route [{hu}]")
+    ax.set_ylabel(f"Elevation [{hu}]")
+
+    (surf,) = ax.plot(
+        [s[0] for s in surfaces], [s[1] for s in surfaces], ls="none", marker=_surface_marker(),
+        ms=9, mfc="white", mec=INK, mew=0.8, zorder=6, label="liquid surface",
+    )  # fmt: skip
+    handles.append(surf)
+    _legend_above(ax, handles)
+
+    placer = _Placer(fig, ax)
+    placer.add_lines()
+    for (xs, y, grade), role, sign in zip(surfaces, ("source", "destination"), (1, -1), strict=True):
+        text = f"{role} surface {_plain(y)} {hu}"
+        if abs(grade - y) > 1e-9:
+            which = "EGL" if role == "source" else "HGL"
+            text += f"\n{which} {_plain(grade)} {hu} with the surface pressure"
+        near = [(sign * 8, -4), (sign * 8, 4), (sign * 8, 0), (0, -10), (0, 12), (-sign * 8, -4)]
+        placer.place(text, (xs, y), near + _ring((16, 26, 36)), leader_from=14)
+    tdh = r.get("total_dynamic_head")
+    if jump is not None and jump + 1 < len(nodes):
+        xj = x[jump + 1]
+        yj = 0.5 * (egl[jump] + egl[jump + 1])
+        text = "pump" + (f"\nadds TDH {_num(d(tdh, 'length'))} {hu}" if tdh else "")
+        placer.place(text, (xj, yj), [(8, 0), (-8, 0), (16, 10), (-16, 10)], leader_from=12)
+    for pid, i0, i1 in spans:
+        xm = 0.5 * (x[i0] + x[i1])
+        ym = 0.5 * (egl[i0] + egl[i1])
+        placer.place(pid, (xm, ym), [(0, 5), (0, -8)] + _ring((12, 20, 30)), leader_from=10)
+
+    pump_text = f" after {pump_after}" if pump_after else ""
+    title = (
+        "Route profile at the design flow: energy grade line (EGL) and hydraulic grade line "
+        "(HGL) from the source "
+        f"surface to the destination surface, the pump{pump_text} adding TDH; friction is lost "
+        "along each pipe and minor losses are drawn as steps at each pipe's downstream end"
+    )
+    return fig, title
+
+
+# --------------------------------------------------------------------------
+# 4. Head-loss breakdown
+
+
+def _draw_loss_breakdown(trace: dict[str, Any]) -> tuple[Any, str]:
+    r = _results(trace, "total_dynamic_head")
+    d = _Display(trace)
+    hu = d.label("length")
+    tdh = d(r["total_dynamic_head"], "length")
+
+    # Rows of (label, [(value, part)]) top to bottom.
+    rows: list[tuple[str, list[tuple[float, str]]]] = []
+    if r.get("static_head") is not None:
+        rows.append(("static head", [(d(r["static_head"], "length"), "static")]))
+    if r.get("pressure_head") is not None:
+        rows.append(("pressure head", [(d(r["pressure_head"], "length"), "pressure")]))
+    outlet = r.get("outlet_velocity_head")
+    if outlet is not None and outlet["value"] != 0:
+        rows.append(("outlet velocity head", [(d(outlet, "length"), "outlet")]))
+    for pid, p in _pipe_items(r):
+        parts: list[tuple[float, str]] = []
+        if p.get("friction_loss") is not None:
+            parts.append((d(p["friction_loss"], "length"), "friction"))
+        if p.get("fitting_loss") is not None:
+            parts.append((d(p["fitting_loss"], "length"), "fittings"))
+            if p.get("equipment_loss") is not None and p["equipment_loss"]["value"] != 0:
+                parts.append((d(p["equipment_loss"], "length"), "equipment"))
+        elif p.get("minor_loss") is not None:
+            parts.append((d(p["minor_loss"], "length"), "minor"))
+        side = p.get("side", "")
+        rows.append((f"{pid} ({side})" if side else pid, parts))
+
+    style = {
+        "static": {"color": "#9a9a9a", "hatch": None},
+        "pressure": {"color": "#c8c8c8", "hatch": None},
+        "outlet": {"color": "#c8c8c8", "hatch": "...."},
+        "friction": {"color": BLUE, "hatch": None},
+        "fittings": {"color": "#e7c3a8", "hatch": "////"},
+        "equipment": {"color": "#c8dbb8", "hatch": "xxxx"},
+        "minor": {"color": "#e7c3a8", "hatch": "////"},
+    }
+    n = len(rows)
+    fig = _new_figure(min(3.8, max(3.2, 1.2 + 0.24 * n)))
+    ax = fig.add_subplot()
+    ax.grid(True, axis="x")
+    ax.tick_params(axis="y", length=0)
+    ax.spines["left"].set_visible(False)
+
+    from matplotlib.patches import Patch
+
+    used: dict[str, Any] = {}
+    ends: list[tuple[int, float, str]] = []
+    for i, (_label, parts) in enumerate(rows):
+        left_pos = 0.0
+        left_neg = 0.0
+        for value, part in parts:
+            st = style[part]
+            start = left_pos if value >= 0 else left_neg
+            ax.barh(
+                i,
+                value,
+                left=start,
+                height=0.46,
+                color=st["color"],
+                hatch=st["hatch"],
+                edgecolor=INK if st["hatch"] else "none",
+                linewidth=0.4,
+                zorder=3,
+            )
+            if value >= 0:
+                left_pos += value
+            else:
+                left_neg += value
+            if part in ("friction", "fittings", "equipment", "minor") and part not in used:
+                used[part] = Patch(
+                    facecolor=st["color"],
+                    hatch=st["hatch"],
+                    edgecolor=INK if st["hatch"] else "none",
+                    linewidth=0.4,
+                    label={"minor": "minor losses"}.get(part, part),
+                )
+        if len(parts) == 1 or not parts:
+            text = f"{_num(parts[0][0])} {hu}" if parts else "not given"
+        else:
+            text = ",  ".join(f"{name} {_num(v)} {hu}" for v, name in parts)
+        end = left_pos if left_pos != 0 or left_neg == 0 else left_neg
+        ends.append((i, end, text))
+
+    heads = sum(1 for _, parts in rows if parts and parts[0][1] in ("static", "pressure", "outlet"))
+    if 0 < heads < n:
+        ax.axhline(heads - 0.5, color=LIGHT, lw=0.6, zorder=1)
+    ax.set_yticks(range(n), [label for label, _ in rows])
+    ax.set_ylim(n - 0.45, -0.55)
+    ax.axvline(0, color="#555555", lw=0.6, zorder=4)
+    ax.set_xlabel(f"Head [{hu}]")
+    handles = [used[k] for k in ("friction", "fittings", "equipment", "minor") if k in used]
+    _legend_above(ax, handles)
+    ax.text(
+        1.0,
+        1.02,
+        f"TDH = {_num(tdh)} {hu} (the sum of the bars)",
+        transform=ax.transAxes,
+        ha="right",
+        va="bottom",
+    )
+
+    # Room for the value labels at the bar ends.
+    lo = min(0.0, *(e for _, e, _ in ends))
+    hi = max(0.0, *(e for _, e, _ in ends))
+    hi = hi if hi > 0 else 1.0
+    ax.set_xlim(lo * 1.05 if lo < 0 else 0.0, hi * 1.05)
+    _freeze_layout(fig)
+    labels = []
+    for i, end, text in ends:
+        right = end >= 0
+        t = ax.annotate(
+            text,
+            xy=(end, i),
+            xytext=(4 if right else -4, 0),
+            textcoords="offset points",
+            ha="left" if right else "right",
+            va="center",
+            annotation_clip=False,
+        )
+        t.set_in_layout(False)
+        labels.append((t, right))
+    for _ in range(3):
+        frame = ax.get_window_extent()
+        x0, x1 = ax.get_xlim()
+        need_hi, need_lo = x1, x0
+        for t, right in labels:
+            bb = t.get_window_extent()
+            scale = (x1 - x0) / frame.width
+            if right and bb.x1 > frame.x1 - 2:
+                need_hi = max(need_hi, x1 + (bb.x1 - frame.x1 + 4) * scale)
+            if not right and bb.x0 < frame.x0 + 2:
+                need_lo = min(need_lo, x0 - (frame.x0 - bb.x0 + 4) * scale)
+        if (need_hi, need_lo) == (x1, x0):
+            break
+        ax.set_xlim(need_lo, need_hi)
+
+    title = (
+        f"Head-loss breakdown at the design flow: static head, pressure head and each pipe's "
+        f"friction, fitting and equipment losses; total TDH = {_num(tdh)} {hu}"
+    )
+    return fig, title
+
+
+# --------------------------------------------------------------------------
+# 5. Friction factor against Reynolds number
+
+ROUGHNESS_LINES = (0.0, 1e-5, 5e-5, 1e-4, 2e-4, 5e-4, 1e-3, 2e-3, 5e-3, 1e-2, 2e-2, 5e-2)
+RE_SPAN = (600.0, 1e8)
+F_SPAN = (0.008, 0.1)
+
+
+def _roughness_text(e: float) -> str:
+    if e == 0:
+        return "smooth"
+    if e >= 1e-4:
+        return f"{e:.6f}".rstrip("0")
+    exponent = math.floor(math.log10(e))
+    mantissa = e / 10**exponent
+    superscript = str(exponent).translate(_SUPERSCRIPT)
+    return f"{mantissa:.0f}×10{superscript}"
+
+
+_SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+
+
+def _power_of_ten(v: float) -> str:
+    """A decade tick as plain text, "10³", so the chart needs no mathtext font."""
+    if v <= 0:
+        return ""
+    exponent = round(math.log10(v))
+    return f"10{str(exponent).translate(_SUPERSCRIPT)}"
+
+
+def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
+    from matplotlib.ticker import FixedLocator, FuncFormatter, LogLocator, NullFormatter
+
+    from calcreport.physics import friction
+
+    r = _results(trace, "pipes")
+    fig = _new_figure(3.8)
+    ax = fig.add_subplot()
+    ax.set_xscale("log")
+    ax.set_yscale("log")
+    ax.set_xlim(*RE_SPAN)
+    ax.set_ylim(*F_SPAN)
+    ax.spines["top"].set_visible(True)
+    ax.spines["right"].set_visible(True)
+    ax.grid(True, which="major", color="#dedede", lw=0.5)
+    ax.grid(True, which="minor", color="#efefef", lw=0.4)
+
+    lam_limit = float(getattr(friction, "LAMINAR_LIMIT", 2000.0))
+    ax.axvspan(lam_limit, 4000.0, color="#f0f0f0", lw=0, zorder=0)
+    ax.text(
+        math.sqrt(lam_limit * 4000.0),
+        0.0095,
+        "transition",
+        rotation=90,
+        ha="center",
+        va="bottom",
+        color="#555555",
+        fontsize=FONT_PT - 0.5,
+    )
+    re_lam = np.geomspace(RE_SPAN[0], lam_limit, 40)
+    (lam,) = ax.plot(re_lam, friction.laminar(re_lam), color=INK, lw=1.4, label="laminar, 64/Re")
+
+    re = np.geomspace(lam_limit, RE_SPAN[1], 240)
+    right_labels: list[tuple[float, str]] = []
+    smooth = None
+    col = None
+    for e in ROUGHNESS_LINES:
+        f = friction.colebrook(re, np.full_like(re, e))
+        (col,) = ax.plot(re, f, color="#7a8ea3", lw=0.8, zorder=2)
+        if f[-1] >= F_SPAN[0]:
+            right_labels.append((float(f[-1]), _roughness_text(e)))
+        if e == 0:
+            smooth = (re, f)
+    assert col is not None
+    col.set_label("Colebrook, ε/D at right")
+    for f_end, text in right_labels:
+        ax.annotate(
+            text,
+            xy=(RE_SPAN[1], f_end),
+            xytext=(3, 0),
+            textcoords="offset points",
+            ha="left",
+            va="center",
+            fontsize=FONT_PT - 0.5,
+            annotation_clip=False,
+        )
+    ax.annotate(
+        "ε/D",
+        xy=(1.0, 1.0),
+        xycoords="axes fraction",
+        xytext=(3, 2),
+        textcoords="offset points",
+        ha="left",
+        va="bottom",
+        fontsize=FONT_PT - 0.5,
+    )
+
+    # The system's pipes.
+    handles: list[Any] = [lam, col]
+    points: list[tuple[str, float, float]] = []
+    for side, mk, face in (("suction", "o", "white"), ("discharge", "s", RUST)):
+        xs, fs = [], []
+        for pid, p in _pipe_items(r):
+            if p.get("side", "discharge") != side and not (
+                side == "discharge" and p.get("side") not in ("suction", "discharge")
+            ):
+                continue
+            if p.get("reynolds") is None or p.get("friction_factor") is None:
+                continue
+            xs.append(float(p["reynolds"]["value"]))
+            fs.append(float(p["friction_factor"]["value"]))
+            points.append((pid, xs[-1], fs[-1]))
+        if xs:
+            (pts,) = ax.plot(
+                xs, fs, ls="none", marker=mk, ms=5.5, mfc=face, mec=INK, mew=0.8, zorder=6,
+                label=f"{side} pipe",
+            )  # fmt: skip
+            handles.append(pts)
+
+    ax.xaxis.set_major_locator(LogLocator(base=10, numticks=12))
+    ax.xaxis.set_minor_locator(LogLocator(base=10, subs=(2, 3, 4, 5, 6, 7, 8, 9), numticks=12))
+    ax.xaxis.set_major_formatter(FuncFormatter(lambda v, _: _power_of_ten(v)))
+    ax.xaxis.set_minor_formatter(NullFormatter())
+    y_ticks = [0.008, 0.01, 0.015, 0.02, 0.025, 0.03, 0.04, 0.05, 0.06, 0.08, 0.1]
+    ax.yaxis.set_major_locator(FixedLocator(y_ticks))
+    ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
+    ax.yaxis.set_minor_locator(FixedLocator([0.009, 0.035, 0.045, 0.07, 0.09]))
+    ax.yaxis.set_minor_formatter(NullFormatter())
+    ax.set_xlabel("Reynolds number Re [–]")
+    ax.set_ylabel("Darcy friction factor f [–]")
+    _legend_above(ax, handles, reserve=40.0)
+
+    placer = _Placer(fig, ax)
+    placer.add_lines([lam, *handles[2:]])  # the points; labels may cross the background lines
+    if smooth is not None:
+        re_s, f_s = smooth
+        target = F_SPAN[0] * 1.28
+        k = int(np.argmin(np.abs(f_s - target)))
+        ax.annotate(
+            "smooth",
+            xy=(re_s[k], f_s[k]),
+            xytext=(-2, -3),
+            textcoords="offset points",
+            ha="right",
+            va="top",
+            fontsize=FONT_PT - 0.5,
+        ).set_in_layout(False)
+    order = sorted(points, key=lambda t: (t[1], t[2]))
+    for pid, x, f in order:
+        placer.place(
+            pid,
+            (x, f),
+            _ring((7, 12, 20, 28, 38)),
+            rivals=[(x2, f2) for p2, x2, f2 in order if p2 != pid],
+            leader_from=11,
+            bbox={"boxstyle": "square,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.85},
+        )
+
+    title = (
+        "Darcy friction factor against Reynolds number: laminar line (Re < 2000), "
+        "Colebrook lines of constant relative roughness ε/D, and this system's pipes"
+    )
+    return fig, title
+
+
+# --------------------------------------------------------------------------
+# 6. System sketch
+
+
+def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
+    from matplotlib.patches import Rectangle
+
+    r = _results(trace)
+    d = _Display(trace)
+    hu = d.label("length")
+    pipes = _pipe_items(r)
+    nodes = (r.get("profile") or {}).get("nodes") or []
+
+    def elev(key: str) -> float | None:
+        q = _given(trace, key)
+        return d(q, "length") if q else None
+
+    def node_elev(i: int) -> float | None:
+        if nodes and nodes[i].get("elevation") is not None:
+            unit = (r.get("profile") or {}).get("unit", "m")
+            return d.raw(nodes[i]["elevation"], unit, "length")
+        return None
+
+    level_s = elev("source.level")
+    level_s = level_s if level_s is not None else node_elev(0)
+    level_d = elev("destination.level")
+    level_d = level_d if level_d is not None else node_elev(-1)
+    if level_s is None or level_d is None:
+        raise ValueError("The trace gives neither source.level nor the profile surfaces.")
+    datum = elev("pump.elevation")
+    pump_y = datum if datum is not None else min(level_s, level_d)
+    free_outlet = elev("destination.outlet_elevation")
+
+    suction = [(pid, p) for pid, p in pipes if p.get("side") == "suction"]
+    discharge = [(pid, p) for pid, p in pipes if p.get("side") != "suction"]
+
+    def pipe_elev(p: dict[str, Any], key: str) -> float | None:
+        q = p.get(key)
+        return d(q, "length") if isinstance(q, dict) else None
+
+    known = [level_s, level_d, pump_y]
+    for _, p in pipes:
+        known += [v for v in (pipe_elev(p, "elevation_start"), pipe_elev(p, "elevation_end")) if v]
+    for key in ("source.level_low", "source.level_high", "destination.level_low",
+                "destination.level_high"):  # fmt: skip
+        v = elev(key)
+        if v is not None:
+            known.append(v)
+    if free_outlet is not None:
+        known.append(free_outlet)
+    lo, hi = min(known), max(known)
+    min_span = d.raw(4.0, "m", "length")
+    span = max(hi - lo, min_span)
+    tank_h = 0.28 * span
+
+    # Horizontal layout in axes units (0..1); the vertical axis is elevation.
+    src_x0, src_x1 = 0.05, 0.16
+    dst_x0, dst_x1 = 0.84, 0.95
+    n_s, n_d = len(suction), len(discharge)
+    width = (dst_x0 - src_x1) / max(n_s + n_d, 1)
+    pump_x = src_x1 + (n_s * width if n_s else 0.06)
+    if n_s == 0:
+        width = (dst_x0 - pump_x) / max(n_d, 1)
+        d_width = width
+    else:
+        d_width = (dst_x0 - pump_x) / max(n_d, 1)
+
+    # Source vessel.
+    lows = [v for v in (elev("source.level_low"),) if v is not None]
+    lift = pump_y >= level_s
+    src_bottom = level_s - 0.7 * tank_h
+    if not lift:
+        src_bottom = min(src_bottom, max(pump_y - 0.12 * tank_h, level_s - 1.6 * tank_h))
+    if lows:
+        src_bottom = min(src_bottom, min(lows) - 0.12 * tank_h)
+    src_top = level_s + 0.3 * tank_h
+    if elev("source.level_high") is not None:
+        src_top = max(src_top, elev("source.level_high") + 0.15 * tank_h)  # type: ignore[operator]
+
+    # Destination vessel.
+    first_end = pipe_elev(discharge[-1][1], "elevation_end") if discharge else None
+    dst_bottom = level_d - 0.7 * tank_h
+    dst_top = level_d + 0.3 * tank_h
+    if free_outlet is not None:
+        inlet_y = free_outlet
+        dst_top = max(dst_top, free_outlet + 0.18 * tank_h)
+        dst_bottom = min(dst_bottom, level_d - 0.7 * tank_h)
+    elif first_end is not None:
+        inlet_y = first_end
+        dst_bottom = min(dst_bottom, first_end - 0.12 * tank_h)
+    else:
+        inlet_y = dst_bottom + 0.18 * tank_h
+    if elev("destination.level_high") is not None:
+        dst_top = max(dst_top, elev("destination.level_high") + 0.15 * tank_h)  # type: ignore[operator]
+    if elev("destination.level_low") is not None:
+        dst_bottom = min(dst_bottom, elev("destination.level_low") - 0.12 * tank_h)  # type: ignore[operator]
+
+    # Route: joint elevations, interpolated between known points by pipe index.
+    def route(
+        items: list[tuple[str, dict[str, Any]]], y_start: float, y_end: float
+    ) -> list[tuple[float, float]]:
+        n = len(items)
+        joints = np.full(n + 1, np.nan)
+        joints[0], joints[-1] = y_start, y_end
+        for i, (_, p) in enumerate(items):
+            s, e = pipe_elev(p, "elevation_start"), pipe_elev(p, "elevation_end")
+            if s is not None and i > 0:
+                joints[i] = s
+            if e is not None and i < n - 1:
+                joints[i + 1] = e
+        idx = np.arange(n + 1)
+        ok = np.isfinite(joints)
+        joints = np.interp(idx, idx[ok], joints[ok])
+        ends = []
+        for i, (_, p) in enumerate(items):
+            s, e = pipe_elev(p, "elevation_start"), pipe_elev(p, "elevation_end")
+            ends.append((s if s is not None else joints[i], e if e is not None else joints[i + 1]))
+        return ends
+
+    src_out_y = pump_y if not lift else pump_y
+    if not lift:
+        src_out_y = max(pump_y, src_bottom + 0.12 * tank_h)
+    s_ends = route(suction, src_out_y, pump_y)
+    d_ends = route(discharge, pump_y, inlet_y)
+
+    # Vertical limits and figure.
+    all_y = [src_bottom, src_top, dst_bottom, dst_top, pump_y]
+    all_y += [v for e in s_ends + d_ends for v in e]
+    y_lo, y_hi = min(all_y), max(all_y)
+    y_span = max(y_hi - y_lo, min_span)
+    fig = _new_figure(3.6)
+    ax = fig.add_subplot()
+    ax.set_xlim(0, 1)
+    ax.set_ylim(y_lo - 0.15 * y_span, y_hi + 0.12 * y_span)
+    ax.spines["bottom"].set_visible(False)
+    ax.set_xticks([])
+    ax.set_ylabel(f"Elevation [{hu}]")
+    ax.grid(True, axis="y", color="#efefef")
+
+    pipe_kw = {"color": INK, "lw": 1.8, "solid_capstyle": "butt", "zorder": 3}
+    joint_kw = {"ls": "none", "marker": "o", "ms": 3.0, "mfc": "white", "mec": INK, "mew": 0.8}
+
+    def vessel(x0: float, x1: float, bottom: float, top: float, level: float, closed: bool) -> None:
+        ax.add_patch(
+            Rectangle((x0, bottom), x1 - x0, level - bottom, facecolor=LIQUID, lw=0, zorder=1)
+        )
+        xs = [x0, x0, x1, x1] + ([x0] if closed else [])
+        ys = [top, bottom, bottom, top] + ([top] if closed else [])
+        ax.plot(xs, ys, color=INK, lw=1.2, zorder=2, solid_joinstyle="miter")
+        ax.plot([x0, x1], [level, level], color=BLUE, lw=0.8, zorder=2)
+
+    p_src = _given(trace, "source.pressure")
+    p_dst = _given(trace, "destination.pressure")
+    vessel(src_x0, src_x1, src_bottom, src_top, level_s, bool(p_src and p_src["value"] != 0))
+    vessel(dst_x0, dst_x1, dst_bottom, dst_top, level_d, bool(p_dst and p_dst["value"] != 0))
+    for key, (x0, x1) in (
+        ("source.level_low", (src_x0, src_x1)),
+        ("source.level_high", (src_x0, src_x1)),
+        ("destination.level_low", (dst_x0, dst_x1)),
+        ("destination.level_high", (dst_x0, dst_x1)),
+    ):
+        v = elev(key)
+        if v is not None:
+            ax.plot([x0 + 0.01, x1 - 0.01], [v, v], color=BLUE, lw=0.6, ls=(0, (2, 1.5)), zorder=2)
+
+    # Pipes, suction then discharge.
+    segments: list[tuple[str, dict[str, Any], list[tuple[float, float]]]] = []
+    x = src_x1
+    for i, ((pid, p), (ys, ye)) in enumerate(zip(suction, s_ends, strict=True)):
+        pts = [(x, ys), (x + width, ye)]
+        if i == 0 and lift:
+            cx = 0.5 * (src_x0 + src_x1)
+            pts = [(cx, src_bottom + 0.2 * tank_h), (cx, ys), (x + width, ye)]
+        segments.append((pid, p, pts))
+        x += width
+    x = pump_x
+    prev_y = pump_y
+    for (pid, p), (ys, ye) in zip(discharge, d_ends, strict=True):
+        pts = [(x, ys), (x + d_width, ye)]
+        if abs(ys - prev_y) > 1e-9:
+            pts.insert(0, (x, prev_y))
+        prev_y = ye
+        segments.append((pid, p, pts))
+        x += d_width
+    if free_outlet is not None and segments:
+        pid, p, pts = segments[-1]
+        pts.append((dst_x0 + 0.3 * (dst_x1 - dst_x0), pts[-1][1]))
+    elif segments and discharge:
+        pid, p, pts = segments[-1]
+        if abs(pts[-1][1] - inlet_y) > 1e-9:
+            pts.append((dst_x0, inlet_y))
+    for _pid, _p, pts in segments:
+        xs, ys = zip(*pts, strict=True)
+        ax.plot(xs, ys, **pipe_kw)
+        (x0, y0), (x1, y1) = pts[-2], pts[-1]
+        t0, t1 = 0.74, 0.78
+        ax.annotate(
+            "",
+            xy=(x0 + t1 * (x1 - x0), y0 + t1 * (y1 - y0)),
+            xytext=(x0 + t0 * (x1 - x0), y0 + t0 * (y1 - y0)),
+            arrowprops={
+                "arrowstyle": "-|>,head_length=0.5,head_width=0.22",
+                "color": INK,
+                "lw": 0.8,
+                "shrinkA": 0,
+                "shrinkB": 0,
+            },
+            zorder=4,
+        ).set_in_layout(False)
+    joints = [seg[2][-1] for seg in segments[:-1]]
+    joints = [j for j in joints if abs(j[0] - pump_x) > 1e-9]
+    if joints:
+        ax.plot(*zip(*joints, strict=True), zorder=4, **joint_kw)
+    if free_outlet is not None and segments:
+        end = segments[-1][2][-1]
+        ax.plot([end[0], end[0]], [end[1], level_d], color=BLUE, lw=0.8, ls=(0, (1.5, 1.5)))
+
+    # Pump symbol: a circle with a triangle pointing downstream.
+    ax.plot([pump_x], [pump_y], marker="o", ms=15, mfc="white", mec=INK, mew=1.2, zorder=5)
+    ax.plot([pump_x], [pump_y], marker=">", ms=6, mfc=INK, mec=INK, zorder=6)
+
+    # Surface symbols and the reference lines to the elevation scale.
+    marker = _surface_marker()
+    cs, cd = 0.5 * (src_x0 + src_x1), 0.5 * (dst_x0 + dst_x1)
+    ax.plot([cs, cd], [level_s, level_d], ls="none", marker=marker, ms=8, mfc="white",
+            mec=INK, mew=0.8, zorder=6)  # fmt: skip
+    ref = {"color": GREY, "lw": 0.5, "ls": (0, (1, 2)), "zorder": 0}
+    ax.plot([0, src_x0], [level_s, level_s], **ref)
+    ax.plot([0, pump_x - 0.015], [pump_y, pump_y], **ref)
+    ax.plot([0, dst_x0], [level_d, level_d], **ref)
+
+    placer = _Placer(fig, ax)
+    placer.add_lines()
+    pump_box = ax.transData.transform([(pump_x, pump_y)])[0]
+    placer.boxes.append((pump_box[0] - 9, pump_box[1] - 9, pump_box[0] + 9, pump_box[1] + 9))
+
+    def pressure_text(q: dict[str, Any] | None) -> str:
+        if not q or q["value"] == 0:
+            return ""
+        unit = d.unit("pressure")
+        gauge = "psig" if unit == "psi" else f"{pretty_unit(unit)}(g)"
+        return f"\n{_num(d(q, 'pressure'))} {gauge}"
+
+    small = FONT_PT
+    for level, top, xc in ((level_s, src_top, cs), (level_d, dst_top, cd)):
+        placer.place(
+            f"level {_plain(level)} {hu}", (xc, top), [(0, 3), (0, 10)], leader_from=99
+        )
+    placer.place(
+        "source" + pressure_text(p_src),
+        (cs, src_bottom),
+        [(0, -4), (0, -12)],
+        leader_from=99,
+        fontsize=small,
+    )
+    placer.place(
+        "destination" + pressure_text(p_dst),
+        (cd, dst_bottom),
+        [(0, -4), (0, -12)],
+        leader_from=99,
+        fontsize=small,
+    )
+    datum_text = f"pump\ndatum {_plain(pump_y)} {hu}" if datum is not None else "pump"
+    placer.place(datum_text, (pump_x, pump_y), [(0, -11), (0, 11), (10, -10), (-10, -10),
+                 (10, 10), (-10, 10)], leader_from=99)  # fmt: skip
+
+    lu, du = d.label("length"), d.label("diameter")
+    for k, (pid, p, pts) in enumerate(segments):
+        parts = [pid]
+        if p.get("length") is not None:
+            parts.append(f"L {_plain(d(p['length'], 'length'))} {lu}")
+        text_top = "  ".join(parts)
+        text = text_top
+        if p.get("inner_diameter") is not None:
+            text += f"\nID {_plain(d(p['inner_diameter'], 'diameter'))} {du}"
+        (x0, y0), (x1, y1) = pts[-2], pts[-1]
+        if len(pts) == 3 and k == 0 and lift and suction:
+            (x0, y0), (x1, y1) = pts[1], pts[2]
+        xm, ym = 0.5 * (x0 + x1), 0.5 * (y0 + y1)
+        a, b = ax.transData.transform([(x0, y0), (x1, y1)])
+        dx, dy = b - a
+        length = math.hypot(dx, dy) or 1.0
+        nx, ny = -dy / length, dx / length  # normal, to the upper left of the flow
+        cands = []
+        for dist in (5, 10, 18, 28, 40):
+            cands.append((-nx * dist, -ny * dist))
+            cands.append((nx * dist, ny * dist))
+        placer.place(text, (xm, ym), cands, leader_from=16, multialignment="center")
+
+    title = (
+        "System sketch from the input: vessels, pipes in flow order with length L and inner "
+        f"diameter ID, pump; liquid levels (dashed: low and high levels where given) and the "
+        f"pump datum to the elevation scale at the left in {hu}; pipe runs not to horizontal "
+        "scale, vessel outlines schematic"
+    )
+    return fig, title
