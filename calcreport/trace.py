@@ -232,8 +232,8 @@ class TraceBuilder:
         **args: Given | list[Given],
     ) -> Given:
         """Evaluate ``func`` on the arguments, record the step and return its result."""
-        if step_id in self._ids:
-            raise ValueError(f"duplicate step id {step_id!r}")
+        if step_id in self._ids or step_id in self.given:
+            raise ValueError(f"step id {step_id!r} is already a step or an input key")
         eq: Equation = self._by_func[func] if not isinstance(func, str) else lookup(func)
         values: dict[str, Any] = {}
         arguments = []

@@ -346,7 +346,7 @@ def test_affinity_moves_the_curve_and_finds_a_new_intersection():
     op = t.results["operating_point"]
     assert op["flow"]["value"] == pytest.approx(0.0180178, rel=1e-4)
     assert op["head"]["value"] == pytest.approx(30.7704, rel=1e-4)
-    assert t.step("pump.curve.head[1]").function == "pump.affinity_head"
+    assert t.step("pump.at_speed.head[1]").function == "pump.affinity_head"
 
 
 def test_no_intersection_is_reported_not_crashed():
