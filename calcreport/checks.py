@@ -58,7 +58,8 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
             status="pass" if q >= minimum else "fail", value=q, unit="m^3/s", limit=minimum,
             comparison=">=", basis="Pump data: minimum continuous stable flow (pump.min_"
             "continuous_flow)", reference="input", case=case,
-            message="" if q >= minimum else "the pump would run below its minimum flow"))
+            message="" if q >= minimum else "the pump would run below its minimum flow",
+            margin=q - minimum))
     return found
 
 
@@ -100,15 +101,9 @@ def governing(checks: list[Check]) -> list[Check]:
 def _worse(a: Check, b: Check) -> bool:
     if _SEVERITY[a.status] != _SEVERITY[b.status]:
         return _SEVERITY[a.status] < _SEVERITY[b.status]
-    if a.value is None or b.value is None:
+    if a.margin is None or b.margin is None:
         return False
-    if a.comparison == "<=":
-        return a.value > b.value
-    if a.comparison in (">=", ">"):
-        if a.limit is not None and b.limit is not None:
-            return a.value - a.limit < b.value - b.limit
-        return a.value < b.value
-    return False
+    return a.margin < b.margin
 
 
 def _limit(model: Model, name: str) -> tuple[float, str, str, bool]:
@@ -148,6 +143,7 @@ def _velocity(
             reference=ref,
             case=case,
             message="" if v <= limit else f"{v:.3g} m/s exceeds the {side} limit {limit:.3g} m/s",
+            margin=limit - v,
         )
     ]
     low, basis, ref, project = _limit(model, "velocity_min")
@@ -164,6 +160,7 @@ def _velocity(
             reference=ref,
             case=case,
             message="" if v >= low else f"{v:.3g} m/s is below {low:.3g} m/s",
+            margin=v - low,
         )
     )
     return checks
@@ -204,6 +201,7 @@ def _npsh_positive(results: dict[str, Any], case: str) -> Check:
         reference="hi_npsh",
         case=case,
         message="" if npsha > 0.0 else f"NPSHa = {npsha:.3g} m: reduce suction lift or losses",
+        margin=npsha,
     )
 
 
@@ -222,6 +220,7 @@ def _npsh_open_item(results: dict[str, Any], case: str) -> Check:
         reference="hi_npsh",
         case=case,
         message="open item: NPSH required not known",
+        margin=npsha,
     )
 
 
@@ -240,7 +239,8 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any],
         basis=f"NPSHa at least the greater of {ratio:g} × NPSHr and NPSHr + {minimum:g} m. "
         f"{basis_r}", reference=ref, case=case,
         message="" if ok else (f"NPSHa {npsha:.3g} m against NPSHr {npshr:.3g} m"
-                               + (": the pump cavitates" if npsha <= npshr else "")))
+                               + (": the pump cavitates" if npsha <= npshr else "")),
+        margin=npsha - needed)
 
 
 def _duty(model: Model, point: dict[str, Any], case: str) -> Check:
@@ -253,7 +253,7 @@ def _duty(model: Model, point: dict[str, Any], case: str) -> Check:
         "duty.flow; the vendor's test tolerance (ISO 9906 acceptance grade) is not included",
         reference="input", case=case,
         message="" if ok else f"delivers {q * 1e3:.4g} L/s of the {required * 1e3:.4g} L/s "
-        "required")
+        "required", margin=q - required)
 
 
 def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Check]:
@@ -270,7 +270,7 @@ def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Ch
         id="preferred_operating_region", title="Operating flow within the preferred region",
         status="pass" if inside else "review", value=ratio, unit="", limit=None,
         comparison=f"{low:g}–{high:g} × Q_BEP", basis=basis, reference=ref, case=case,
-        message=f"Q/Q_BEP = {ratio:.3f}")]
+        message=f"Q/Q_BEP = {ratio:.3f}", margin=min(ratio - low, high - ratio))]
     if model.pump.allowable_range:
         low, high = (g.value for g in model.pump.allowable_range)
         inside = low <= ratio <= high
@@ -279,7 +279,7 @@ def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Ch
             status="pass" if inside else "fail", value=ratio, unit="", limit=None,
             comparison=f"{low:g}–{high:g} × Q_BEP", basis="Allowable operating region from "
             "the pump data (pump.allowable_range)", reference="input", case=case,
-            message=f"Q/Q_BEP = {ratio:.3f}"))
+            message=f"Q/Q_BEP = {ratio:.3f}", margin=min(ratio - low, high - ratio)))
     return found
 
 

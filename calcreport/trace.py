@@ -120,6 +120,7 @@ class Check:
     reference: str
     case: str
     message: str = ""
+    margin: float | None = None  # how far inside the limit (negative: outside), in unit
 
     def __post_init__(self) -> None:
         if self.status not in STATUSES:
@@ -137,6 +138,7 @@ class Check:
             "reference": self.reference,
             "case": self.case,
             "message": self.message,
+            "margin": self.margin,
         }
 
 

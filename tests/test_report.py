@@ -1,0 +1,162 @@
+"""The PDF report, opened as a reviewer would: pages, title block, steps, figures, hashes."""
+
+import hashlib
+import json
+import re
+import shutil
+import subprocess
+from pathlib import Path
+
+import pytest
+
+from calcreport.cli import main
+
+pypdf = pytest.importorskip("pypdf")
+
+EXAMPLES = Path(__file__).parent.parent / "input_examples"
+
+
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    """Every example built once: {stem: (pdf path, trace dict, page texts)}."""
+    out = tmp_path_factory.mktemp("reports")
+    result = {}
+    for path in sorted(EXAMPLES.glob("*.toml")):
+        assert main(["build", str(path), "-o", str(out)]) == 0
+        pdf = out / f"{path.stem}.pdf"
+        trace = json.loads((out / f"{path.stem}.trace.json").read_text(encoding="utf-8"))
+        pages = [page.extract_text() for page in pypdf.PdfReader(pdf).pages]
+        result[path.stem] = (pdf, trace, pages)
+    return result
+
+
+def test_title_block_on_every_page(built):
+    for pdf, trace, pages in built.values():
+        total = len(pages)
+        assert total >= 10
+        for n, page in enumerate(pages, start=1):
+            assert f"Page {n} of {total}" in page, (pdf.name, n)
+            if trace["project"]["calc_id"]:
+                assert f"Calc. {trace['project']['calc_id']}" in page
+                assert f"Rev. {trace['project']['revision']}" in page
+
+
+def test_every_step_id_is_printed(built):
+    for pdf, trace, pages in built.values():
+        text = "\n".join(pages).replace("\n", "")
+        for step in trace["steps"]:
+            assert f"[{step['id']}]" in text, (pdf.name, step["id"])
+
+
+def test_tdh_printed_as_in_trace(built):
+    for _, trace, pages in built.values():
+        tdh = trace["results"]["total_dynamic_head"]["value"]
+        text = "\n".join(pages)
+        # The substituted line prints 5 significant figures of the SI value.
+        assert re.search(rf"H = .* = {tdh:.5g}".replace(".", r"\.", 1), text) or (
+            f"{tdh:.5g} m" in text
+        )
+
+
+def test_figures_have_numbered_captions(built):
+    for pdf, _, pages in built.values():
+        text = "\n".join(pages)
+        numbers = [int(n) for n in re.findall(r"Figure (\d+) — ", text)]
+        assert len(set(numbers)) >= 3, pdf.name
+        assert sorted(set(numbers)) == list(range(1, max(numbers) + 1))
+
+
+def test_input_hash_and_echo_printed(built):
+    for stem, (_, trace, pages) in built.items():
+        raw = (EXAMPLES / f"{stem}.toml").read_bytes()
+        digest = hashlib.sha256(raw).hexdigest()
+        assert trace["input"]["sha256"] == digest
+        text = "\n".join(pages).replace("\n", "")
+        assert digest in text
+        first_key = next(line for line in raw.decode().splitlines() if line.startswith("format"))
+        assert first_key.replace(" ", "") in text.replace(" ", "").replace("\xa0", "")
+
+
+def test_sections_in_reviewers_order(built):
+    for _, _, pages in built.values():
+        text = "\n".join(pages)
+        order = ["Summary", "Contents", "The system at a glance", "Conventions", "Assumptions",
+                 "Design criteria", "Calculation", "Design checks", "Charts", "cautions",
+                 "References", "Appendix A", "Appendix B", "Appendix C"]
+        positions = [text.index(title, text.index("Contents") if i > 1 else 0)
+                     for i, title in enumerate(order)]
+        assert positions == sorted(positions)
+
+
+def test_rebuild_is_byte_identical(built, tmp_path):
+    for stem, (pdf, _, _) in built.items():
+        assert main(["build", str(EXAMPLES / f"{stem}.toml"), "-o", str(tmp_path)]) == 0
+        assert (tmp_path / f"{stem}.pdf").read_bytes() == pdf.read_bytes(), stem
+        trace_again = (tmp_path / f"{stem}.trace.json").read_bytes()
+        assert trace_again == (pdf.parent / f"{stem}.trace.json").read_bytes()
+
+
+def test_us_report_prints_us_units(built):
+    _, trace, pages = built["process_transfer_us"]
+    assert trace["project"]["units"] == "US"
+    text = "\n".join(pages)
+    for unit in ("gpm", " ft", " hp", "psi", "°F"):
+        assert unit in text, unit
+    summary = next(p for p in pages if "Summary" in p and "Open items" in p)
+    assert "L/s" not in summary
+
+
+def test_metadata_set(built):
+    for pdf, trace, _ in built.values():
+        meta = pypdf.PdfReader(pdf).metadata
+        assert trace["project"]["title"] in meta.title
+        assert meta.subject.startswith("Pump-system calculation")
+
+
+def test_cautions_and_code_deferral_present(built):
+    for _, _, pages in built.values():
+        text = " ".join(" ".join(pages).split())
+        assert "licensed" in text
+        assert "manufacturer's certified performance data" in text
+        assert "electrical code" in text
+        assert "not code requirements" in text
+
+
+def test_markup_in_input_text_prints_literally(tmp_path):
+    source = (EXAMPLES / "check_case.toml").read_text(encoding="utf-8")
+    hostile = source.replace('title = "Check case: two open tanks"',
+                             'title = "<b>bold</b> & <font size=40>big</font> \\u0007bell"')
+    path = tmp_path / "hostile.toml"
+    path.write_text(hostile, encoding="utf-8")
+    assert main(["build", str(path)]) == 0
+    text = pypdf.PdfReader(tmp_path / "hostile.pdf").pages[0].extract_text()
+    assert "<b>bold</b> & <font size=40>big</font>" in text
+
+
+def test_failed_build_leaves_previous_report(tmp_path, monkeypatch):
+    source = EXAMPLES / "check_case.toml"
+    assert main(["build", str(source), "-o", str(tmp_path)]) == 0
+    before = {p.name: p.read_bytes() for p in tmp_path.iterdir()}
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("renderer failure")
+
+    monkeypatch.setattr("calcreport.report.render", broken)
+    monkeypatch.delenv("CALCREPORT_DEBUG", raising=False)
+    assert main(["build", str(source), "-o", str(tmp_path)]) == 1
+    after = {p.name: p.read_bytes() for p in tmp_path.iterdir()}
+    assert after == before
+
+
+def test_bad_input_writes_nothing(tmp_path):
+    bad = tmp_path / "bad.toml"
+    bad.write_text("format = 1\n[duty]\nflow = \"-3 L/s\"\n", encoding="utf-8")
+    assert main(["build", str(bad)]) == 2
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["bad.toml"]
+
+
+@pytest.mark.skipif(shutil.which("pdftoppm") is None, reason="poppler-utils not installed")
+def test_pages_render_to_images(built, tmp_path):
+    pdf, _, pages = built["reservoir_fill_si"]
+    subprocess.run(["pdftoppm", "-r", "20", "-png", str(pdf), str(tmp_path / "p")], check=True)
+    assert len(list(tmp_path.glob("p-*.png"))) == len(pages)
