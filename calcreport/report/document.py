@@ -50,8 +50,10 @@ SECTIONS = (
     ("site", "Site and liquid properties", ("site.", "fluid.", "source.", "destination.")),
     ("pipes", "Pipe hydraulics", ("pipe.",)),
     ("system", "System head and total dynamic head", ("system.",)),
-    ("npsh", "NPSH available", ("npsh.",)),
+    ("pump", "Operating point on the pump curve", ("pump.",)),
+    ("npsh", "NPSH available and margin", ("npsh.",)),
     ("power", "Power and energy", ("power.", "energy.")),
+    ("motor", "Motor rating", ("motor.",)),
 )
 
 # Kind of quantity for display, by SI unit.
@@ -359,53 +361,26 @@ class _Report:
     def summary(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Summary")]
         out.append(self.p(f"This calculation covers {self.system_phrase()}."))
+        out.append(self.p(self.equipment_phrase()))
         pump = self.t["given"].get("pump.efficiency")
-        motor = self.t["given"].get("motor.efficiency")
-        out.append(
-            self.p(
-                "<b>Pump:</b> not selected; "
-                + (
-                    f"efficiency {fmt(pump['value'], 3)} assumed for power."
-                    if pump
-                    else "no efficiency given, so shaft power is not computed."
-                )
-                + " <b>Motor:</b> "
-                + (
-                    f"efficiency {fmt(motor['value'], 3)} assumed; rating to be selected "
-                    "with the pump."
-                    if motor
-                    else "not given."
-                )
-            )
-        )
-        rows = [
-            [
-                "Case",
-                "Flow",
-                "TDH",
-                "Pump eff.",
-                "NPSHa",
-                "NPSHr",
-                "Margin",
-                "Shaft power",
-                "Electrical",
-            ]
-        ]
+        rows = [["Case", "Flow", "TDH", "Pump eff.", "NPSHa", "NPSHr", "NPSHa / NPSHr",
+                 "Shaft power", "Electrical"]]
         for case in self.t["cases"]:
             res = self.r["cases"][case["id"]]
-            rows.append(
-                [
-                    f"<b>{text(case['id'])}</b> {text(case['title'])}",
-                    self.q(res["flow"], "flow"),
-                    self.q(res["total_dynamic_head"], "length"),
-                    fmt(pump["value"], 3) if pump else "—",
-                    self.q(res["npsh_available"], "length"),
-                    "—",
-                    "—",
-                    self.q(res.get("shaft_power"), "power"),
-                    self.q(res.get("electrical_power"), "power"),
-                ]
-            )
+            point = res.get("operating_point", {})
+            eff = point.get("efficiency") or pump
+            ratio = point.get("npsh_margin_ratio")
+            rows.append([
+                f"<b>{text(case['id'])}</b> {text(case['title'])}",
+                self.q(res["flow"], "flow"),
+                self.q(res["total_dynamic_head"], "length"),
+                fmt(eff["value"], 3) if eff else "—",
+                self.q(res["npsh_available"], "length"),
+                self.q(point.get("npsh_required"), "length"),
+                fmt(ratio["value"], 3) if ratio else "—",
+                self.q(res.get("shaft_power"), "power"),
+                self.q(res.get("electrical_power"), "power"),
+            ])
         w = self.width
         out.append(self.table(rows, [w * 0.25] + [w * 0.75 / 8] * 8))
         out.append(Spacer(1, 4 * mm))
@@ -441,6 +416,38 @@ class _Report:
         out.append(self.p(self.conclusion()))
         return out
 
+    def equipment_phrase(self) -> str:
+        given = self.t["given"]
+        motor = self.r.get("motor", {})
+        curve = "pump.curve.flow[1]" in given
+        pump_data = self.entered.get("pump", {})
+        names = ", ".join(text(pump_data[k]) for k in ("manufacturer", "model",
+                                                        "impeller_diameter") if k in pump_data)
+        if curve:
+            pump = f"<b>Pump:</b> selected on its curve{f' ({names})' if names else ''}"
+            if "pump.speed" in given:
+                pump += f", at {self.q(given['pump.speed'], 'speed')}"
+            pump += "."
+        elif "pump.efficiency" in given:
+            pump = (f"<b>Pump:</b> not selected; efficiency "
+                    f"{fmt(given['pump.efficiency']['value'], 3)} assumed for power.")
+        else:
+            pump = "<b>Pump:</b> not selected; no efficiency given, so shaft power is not computed."
+        if "rated_power" in motor:
+            loads = ", ".join(f"{text(c)} {fmt(v['value'] * 100, 3)} %"
+                              for c, v in motor["loading"].items())
+            series = "IEC 60072-1" if motor["series"] == "IEC" else "NEMA MG 1"
+            text_motor = (f" <b>Motor:</b> {self.q(motor['rated_power'], 'power')} ({series} "
+                          f"series), covering the peak shaft power "
+                          f"{self.q(motor['peak_shaft_power'], 'power')} anywhere on the curve; "
+                          f"loading at the operating points {loads}.")
+        elif "motor.efficiency" in given:
+            text_motor = (f" <b>Motor:</b> efficiency {fmt(given['motor.efficiency']['value'], 3)}"
+                          " assumed; rating to be selected with the pump.")
+        else:
+            text_motor = " <b>Motor:</b> not given."
+        return pump + text_motor
+
     def conclusion(self) -> str:
         fails = [c for c in self.t["checks"] if c["status"] == "fail"]
         tdh = self.q(self.r["total_dynamic_head"], "length")
@@ -457,6 +464,11 @@ class _Report:
                 f"NPSH available of {self.q(self.r['npsh_available'], 'length')}; select the "
                 "pump on its certified curve and recheck this calculation against it."
             )
+        reviews = [c for c in self.t["checks"] if c["status"] == "review"]
+        if reviews:
+            return (f"The selected pump delivers {flow} at {tdh} in the design case and meets "
+                    f"every criterion that can fail; {len(reviews)} item"
+                    f"{'s are' if len(reviews) != 1 else ' is'} marked for review.")
         return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
 
     def contents(self) -> list[Flowable]:
@@ -591,6 +603,14 @@ class _Report:
 
     def calculation(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Calculation")]
+        others = [c["id"] for c in self.t["cases"] if c["id"] != "C1"]
+        intro = ("Each step gives the quantity computed, its step id, the equation, the equation "
+                 "with the values and units substituted, the result and the reference in "
+                 "brackets. The steps are those of the design case C1")
+        if others:
+            intro += (f"; cases {', '.join(others)} repeat them at their own levels and flows "
+                      "and are listed in full in Appendix A")
+        out.append(self.p(intro + "."))
         for key, title, prefixes in SECTIONS:
             steps = [st for st in self.t["steps"] if st["id"].startswith(prefixes)]
             if not steps:
@@ -598,9 +618,21 @@ class _Report:
             out.append(self.heading(title, 2))
             if key == "pipes":
                 out += self.pipe_section(steps)
+            elif key == "pump":
+                out += self.examples(steps)
             else:
                 for st in steps:
                     out += self.step_block(st)
+        return out
+
+    def examples(self, steps: list[dict[str, Any]]) -> list[Flowable]:
+        """One worked step of each equation; the rest are in Appendix A."""
+        out: list[Flowable] = []
+        shown: set[str] = set()
+        for st in steps:
+            if st["function"] not in shown:
+                shown.add(st["function"])
+                out += self.step_block(st)
         return out
 
     def pipe_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
@@ -654,13 +686,7 @@ class _Report:
                 self.s.small,
             )
         )
-        shown: set[str] = set()
-        for st in steps:
-            if st["function"] in shown:
-                continue
-            shown.add(st["function"])
-            out += self.step_block(st)
-        return out
+        return out + self.examples(steps)
 
     def check_table(self, checks: list[dict[str, Any]]) -> Table:
         rows = [["Status", "Check", "Case", "Value", "Limit", "Basis"]]
