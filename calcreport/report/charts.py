@@ -29,6 +29,7 @@ Helpers
 from __future__ import annotations
 
 import io
+import itertools
 import math
 from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass, field
@@ -301,16 +302,15 @@ def _num(x: float, sig: int = 3) -> str:
     """A result for a chart label: ``sig`` significant figures."""
     if x == 0 or not math.isfinite(x):
         return "0" if x == 0 else str(x)
-    return fmt(x, sig)
+    return fmt(x, sig).replace("-", "−")
 
 
 def _plain(x: float) -> str:
     """An input value as entered: up to four significant figures, no trailing zeros."""
     if x == 0:
         return "0"
-    if abs(x) >= 1000:
-        return f"{x:.0f}"
-    return f"{x:.4g}"
+    text = f"{x:.0f}" if abs(x) >= 1000 else f"{x:.4g}"
+    return text.replace("-", "−")
 
 
 def _with_unit(text: str, unit: str) -> str:
@@ -407,7 +407,7 @@ class _Placer:
         best: tuple[float, int] | None = None
         for i, (dx, dy) in enumerate(offsets):
             self._set_offset(ann, dx, dy)
-            bb = ann.get_window_extent()
+            bb = _text_extent(ann)
             score = self._score(bb, inside)
             if len(others):
                 mine = _box_distance(bb, own)
@@ -443,9 +443,9 @@ class _Placer:
             )
             ann.set_in_layout(False)
             target = self.ax.transData.transform([xy])[0]
-            bb = ann.get_window_extent()
+            bb = _text_extent(ann)
             self.add_polyline([target, _nearest_point(bb, target)], display=True)
-        bb = ann.get_window_extent()
+        bb = _text_extent(ann)
         self.boxes.append((bb.x0 - 0.5, bb.y0 - 0.5, bb.x1 + 0.5, bb.y1 + 0.5))
         return ann
 
@@ -459,12 +459,22 @@ class _Placer:
         p = self.pad
         box = (bb.x0 - p, bb.y0 - p, bb.x1 + p, bb.y1 + p)
         score = float(np.count_nonzero(_segments_hit(self.segments, box)))
-        score += 3.0 * sum(_overlap(box, other) for other in self.boxes)
+        score += 10.0 * sum(_overlap(box, other) for other in self.boxes)
         if inside:
             fx0, fy0, fx1, fy1 = self.frame
             if bb.x0 < fx0 or bb.y0 < fy0 or bb.x1 > fx1 or bb.y1 > fy1:
                 score += 20.0
         return score
+
+
+def _text_extent(ann: Any) -> Any:
+    """The box of an annotation's text alone, without its leader line."""
+    from matplotlib.text import Annotation, Text
+
+    renderer = ann.get_figure(root=True)._get_renderer()
+    if isinstance(ann, Annotation):
+        ann.update_positions(renderer)
+    return Text.get_window_extent(ann, renderer)
 
 
 def _box_distance(bb: Any, point: Sequence[float]) -> float:
@@ -498,6 +508,28 @@ def _segments_hit(seg: Any, box: Sequence[float]) -> Any:
         u0 = np.where(~parallel & (p < 0), np.maximum(u0, t), u0)
         u1 = np.where(~parallel & (p > 0), np.minimum(u1, t), u1)
     return ok & (u0 <= u1)
+
+
+def _clusters(ax: Any, xy: Sequence[tuple[float, float]], within: float) -> list[list[int]]:
+    """Group points (data) lying within ``within`` points of each other on the page."""
+    if not xy:
+        return []
+    page = ax.transData.transform(np.asarray(xy, dtype=float))
+    group = list(range(len(xy)))
+
+    def root(i: int) -> int:
+        while group[i] != i:
+            i = group[i]
+        return i
+
+    for i in range(len(xy)):
+        for j in range(i + 1, len(xy)):
+            if math.dist(page[i], page[j]) < within:
+                group[root(j)] = root(i)
+    out: dict[int, list[int]] = {}
+    for i in range(len(xy)):
+        out.setdefault(root(i), []).append(i)
+    return list(out.values())
 
 
 def _ring(radii: Sequence[float], first: Sequence[tuple[float, float]] = ()) -> list[tuple]:
@@ -822,19 +854,28 @@ def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
     ax.set_xlabel(f"Distance along route [{hu}]")
     ax.set_ylabel(f"Elevation [{hu}]")
 
+    free = _given(trace, "destination.outlet_elevation") is not None
+    liquid = surfaces[:1] if free else surfaces
     (surf,) = ax.plot(
-        [s[0] for s in surfaces], [s[1] for s in surfaces], ls="none", marker=_surface_marker(),
+        [s[0] for s in liquid], [s[1] for s in liquid], ls="none", marker=_surface_marker(),
         ms=9, mfc="white", mec=INK, mew=0.8, zorder=6, label="liquid surface",
     )  # fmt: skip
     handles.append(surf)
+    if free:
+        (outlet,) = ax.plot(
+            [surfaces[1][0]], [surfaces[1][1]], ls="none", marker="o", ms=5, mfc="white",
+            mec=INK, mew=0.8, zorder=6, label="free outlet",
+        )  # fmt: skip
+        handles.append(outlet)
     _legend_above(ax, handles)
 
     placer = _Placer(fig, ax)
     placer.add_lines()
-    for (xs, y, grade), role, sign in zip(surfaces, ("source", "destination"), (1, -1), strict=True):
-        text = f"{role} surface {_plain(y)} {hu}"
+    roles = (("source surface", 1), ("free outlet" if free else "destination surface", -1))
+    for (xs, y, grade), (role, sign) in zip(surfaces, roles, strict=True):
+        text = f"{role} {_plain(y)} {hu}"
         if abs(grade - y) > 1e-9:
-            which = "EGL" if role == "source" else "HGL"
+            which = "EGL" if sign > 0 else "HGL"
             text += f"\n{which} {_plain(grade)} {hu} with the surface pressure"
         near = [(sign * 8, -4), (sign * 8, 4), (sign * 8, 0), (0, -10), (0, 12), (-sign * 8, -4)]
         placer.place(text, (xs, y), near + _ring((16, 26, 36)), leader_from=14)
@@ -1043,12 +1084,32 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
     from calcreport.physics import friction
 
     r = _results(trace, "pipes")
+
+    # The system's pipes, in route order: (id, side, Re, f).
+    points: list[tuple[str, str, float, float]] = []
+    for pid, p in _pipe_items(r):
+        if p.get("reynolds") is None or p.get("friction_factor") is None:
+            continue
+        side = "suction" if p.get("side") == "suction" else "discharge"
+        points.append(
+            (pid, side, float(p["reynolds"]["value"]), float(p["friction_factor"]["value"]))
+        )
+    # The fixed span, widened (never narrowed) to show every pipe of this system.
+    re_lo, re_hi = RE_SPAN
+    f_lo, f_hi = F_SPAN
+    usable = [(x, f) for _, _, x, f in points if x > 0 and f > 0]
+    if usable:
+        re_lo = min(re_lo, min(x for x, _ in usable) / 1.6)
+        re_hi = max(re_hi, max(x for x, _ in usable) * 1.6)
+        f_lo = min(f_lo, min(f for _, f in usable) / 1.15)
+        f_hi = max(f_hi, max(f for _, f in usable) * 1.2)
+
     fig = _new_figure(3.8)
     ax = fig.add_subplot()
     ax.set_xscale("log")
     ax.set_yscale("log")
-    ax.set_xlim(*RE_SPAN)
-    ax.set_ylim(*F_SPAN)
+    ax.set_xlim(re_lo, re_hi)
+    ax.set_ylim(f_lo, f_hi)
     ax.spines["top"].set_visible(True)
     ax.spines["right"].set_visible(True)
     ax.grid(True, which="major", color="#dedede", lw=0.5)
@@ -1058,7 +1119,7 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
     ax.axvspan(lam_limit, 4000.0, color="#f0f0f0", lw=0, zorder=0)
     ax.text(
         math.sqrt(lam_limit * 4000.0),
-        0.0095,
+        f_lo * 1.18,
         "transition",
         rotation=90,
         ha="center",
@@ -1066,33 +1127,35 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
         color="#555555",
         fontsize=FONT_PT - 0.5,
     )
-    re_lam = np.geomspace(RE_SPAN[0], lam_limit, 40)
+    re_lam = np.geomspace(re_lo, lam_limit, 40)
     (lam,) = ax.plot(re_lam, friction.laminar(re_lam), color=INK, lw=1.4, label="laminar, 64/Re")
 
-    re = np.geomspace(lam_limit, RE_SPAN[1], 240)
-    right_labels: list[tuple[float, str]] = []
+    re = np.geomspace(lam_limit, re_hi, 160)
     smooth = None
     col = None
-    for e in ROUGHNESS_LINES:
+    # Right-end labels at least 8 pt apart (about 290 pt of plot height).
+    per_decade = 290.0 / math.log10(f_hi / f_lo)
+    last_label = math.inf
+    for e in sorted(ROUGHNESS_LINES, reverse=True):
         f = friction.colebrook(re, np.full_like(re, e))
         (col,) = ax.plot(re, f, color="#7a8ea3", lw=0.8, zorder=2)
-        if f[-1] >= F_SPAN[0]:
-            right_labels.append((float(f[-1]), _roughness_text(e)))
         if e == 0:
             smooth = (re, f)
+        height = math.log10(f[-1]) * per_decade if f[-1] > 0 else -math.inf
+        if f[-1] >= f_lo and last_label - height >= 8.0:
+            last_label = height
+            ax.annotate(
+                _roughness_text(e),
+                xy=(re_hi, float(f[-1])),
+                xytext=(3, 0),
+                textcoords="offset points",
+                ha="left",
+                va="center",
+                fontsize=FONT_PT - 0.5,
+                annotation_clip=False,
+            )
     assert col is not None
     col.set_label("Colebrook, ε/D at right")
-    for f_end, text in right_labels:
-        ax.annotate(
-            text,
-            xy=(RE_SPAN[1], f_end),
-            xytext=(3, 0),
-            textcoords="offset points",
-            ha="left",
-            va="center",
-            fontsize=FONT_PT - 0.5,
-            annotation_clip=False,
-        )
     ax.annotate(
         "ε/D",
         xy=(1.0, 1.0),
@@ -1104,25 +1167,13 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
         fontsize=FONT_PT - 0.5,
     )
 
-    # The system's pipes.
     handles: list[Any] = [lam, col]
-    points: list[tuple[str, float, float]] = []
     for side, mk, face in (("suction", "o", "white"), ("discharge", "s", RUST)):
-        xs, fs = [], []
-        for pid, p in _pipe_items(r):
-            if p.get("side", "discharge") != side and not (
-                side == "discharge" and p.get("side") not in ("suction", "discharge")
-            ):
-                continue
-            if p.get("reynolds") is None or p.get("friction_factor") is None:
-                continue
-            xs.append(float(p["reynolds"]["value"]))
-            fs.append(float(p["friction_factor"]["value"]))
-            points.append((pid, xs[-1], fs[-1]))
-        if xs:
+        mine = [(x, f) for _, s_, x, f in points if s_ == side]
+        if mine:
             (pts,) = ax.plot(
-                xs, fs, ls="none", marker=mk, ms=5.5, mfc=face, mec=INK, mew=0.8, zorder=6,
-                label=f"{side} pipe",
+                *zip(*mine, strict=True), ls="none", marker=mk, ms=5.5, mfc=face, mec=INK,
+                mew=0.8, zorder=6, label=f"{side} pipe",
             )  # fmt: skip
             handles.append(pts)
 
@@ -1130,10 +1181,16 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
     ax.xaxis.set_minor_locator(LogLocator(base=10, subs=(2, 3, 4, 5, 6, 7, 8, 9), numticks=12))
     ax.xaxis.set_major_formatter(FuncFormatter(lambda v, _: _power_of_ten(v)))
     ax.xaxis.set_minor_formatter(NullFormatter())
-    y_ticks = [0.008, 0.01, 0.015, 0.02, 0.025, 0.03, 0.04, 0.05, 0.06, 0.08, 0.1]
+    if math.log10(f_hi / f_lo) <= 1.3:
+        y_ticks = [0.008, 0.01, 0.015, 0.02, 0.025, 0.03, 0.04, 0.05, 0.06, 0.08, 0.1]
+        y_minor = [0.009, 0.035, 0.045, 0.07, 0.09]
+    else:
+        y_ticks = [0.001, 0.002, 0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1, 2, 5, 10]
+        y_minor = [k * 10.0**n for n in range(-3, 1) for k in (3, 4, 6, 7, 8, 9)]
+        y_minor += [0.015, 0.025, 0.15, 0.25]
     ax.yaxis.set_major_locator(FixedLocator(y_ticks))
     ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
-    ax.yaxis.set_minor_locator(FixedLocator([0.009, 0.035, 0.045, 0.07, 0.09]))
+    ax.yaxis.set_minor_locator(FixedLocator(y_minor))
     ax.yaxis.set_minor_formatter(NullFormatter())
     ax.set_xlabel("Reynolds number Re [–]")
     ax.set_ylabel("Darcy friction factor f [–]")
@@ -1143,8 +1200,7 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
     placer.add_lines([lam, *handles[2:]])  # the points; labels may cross the background lines
     if smooth is not None:
         re_s, f_s = smooth
-        target = F_SPAN[0] * 1.28
-        k = int(np.argmin(np.abs(f_s - target)))
+        k = int(np.argmin(np.abs(f_s - f_lo * 1.28)))
         ax.annotate(
             "smooth",
             xy=(re_s[k], f_s[k]),
@@ -1154,13 +1210,22 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
             va="top",
             fontsize=FONT_PT - 0.5,
         ).set_in_layout(False)
-    order = sorted(points, key=lambda t: (t[1], t[2]))
-    for pid, x, f in order:
+
+    # Pipes whose markers overlap share one label, so no label is ambiguous.
+    groups = _clusters(ax, [(x, f) for _, _, x, f in points], 6.0)
+    anchors = []
+    for members in groups:
+        ids = [points[i][0] for i in members]
+        lines = [", ".join(ids[k : k + 5]) for k in range(0, len(ids), 5)]
+        x = math.exp(sum(math.log(points[i][2]) for i in members) / len(members))
+        f = math.exp(sum(math.log(points[i][3]) for i in members) / len(members))
+        anchors.append(("\n".join(lines), x, f))
+    for text, x, f in anchors:
         placer.place(
-            pid,
+            text,
             (x, f),
             _ring((7, 12, 20, 28, 38)),
-            rivals=[(x2, f2) for p2, x2, f2 in order if p2 != pid],
+            rivals=[(x2, f2) for t2, x2, f2 in anchors if t2 != text],
             leader_from=11,
             bbox={"boxstyle": "square,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.85},
         )
@@ -1200,7 +1265,10 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     level_d = elev("destination.level")
     level_d = level_d if level_d is not None else node_elev(-1)
     if level_s is None or level_d is None:
-        raise ValueError("The trace gives neither source.level nor the profile surfaces.")
+        raise ValueError(
+            "The trace gives neither the vessel levels (given) nor the profile's surface "
+            "elevations, which the sketch draws."
+        )
     datum = elev("pump.elevation")
     pump_y = datum if datum is not None else min(level_s, level_d)
     free_outlet = elev("destination.outlet_elevation")
@@ -1257,7 +1325,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     dst_top = level_d + 0.3 * tank_h
     if free_outlet is not None:
         inlet_y = free_outlet
-        dst_top = max(dst_top, free_outlet + 0.18 * tank_h)
+        dst_top = max(dst_top, free_outlet + 0.35 * tank_h)
         dst_bottom = min(dst_bottom, level_d - 0.7 * tank_h)
     elif first_end is not None:
         inlet_y = first_end
@@ -1291,9 +1359,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
             ends.append((s if s is not None else joints[i], e if e is not None else joints[i + 1]))
         return ends
 
-    src_out_y = pump_y if not lift else pump_y
-    if not lift:
-        src_out_y = max(pump_y, src_bottom + 0.12 * tank_h)
+    src_out_y = pump_y if lift else max(pump_y, src_bottom + 0.12 * tank_h)
     s_ends = route(suction, src_out_y, pump_y)
     d_ends = route(discharge, pump_y, inlet_y)
 
@@ -1338,13 +1404,26 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
             ax.plot([x0 + 0.01, x1 - 0.01], [v, v], color=BLUE, lw=0.6, ls=(0, (2, 1.5)), zorder=2)
 
     # Pipes, suction then discharge.
+    dip_x = src_x0 + 0.68 * (src_x1 - src_x0)  # a suction lift draws from the liquid
+    if not suction:  # the pump sits at the source vessel's nozzle
+        nozzle = [(src_x1, src_out_y), (pump_x, pump_y)]
+        if lift:
+            nozzle = [(dip_x, src_bottom + 0.2 * tank_h), (dip_x, pump_y), (pump_x, pump_y)]
+        ax.plot(*zip(*nozzle, strict=True), **pipe_kw)
+    y_scale = 0.5 / max(y_hi - y_lo, min_span)  # axes units, about the chart's aspect
+
+    def main_leg(pts: list[tuple[float, float]]) -> tuple[tuple[float, float], ...]:
+        def size(g: tuple[tuple[float, float], ...]) -> float:
+            return math.hypot(g[1][0] - g[0][0], (g[1][1] - g[0][1]) * y_scale)
+
+        return max(itertools.pairwise(pts), key=size)
+
     segments: list[tuple[str, dict[str, Any], list[tuple[float, float]]]] = []
     x = src_x1
     for i, ((pid, p), (ys, ye)) in enumerate(zip(suction, s_ends, strict=True)):
         pts = [(x, ys), (x + width, ye)]
         if i == 0 and lift:
-            cx = 0.5 * (src_x0 + src_x1)
-            pts = [(cx, src_bottom + 0.2 * tank_h), (cx, ys), (x + width, ye)]
+            pts = [(dip_x, src_bottom + 0.2 * tank_h), (dip_x, ys), (x + width, ye)]
         segments.append((pid, p, pts))
         x += width
     x = pump_x
@@ -1366,7 +1445,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     for _pid, _p, pts in segments:
         xs, ys = zip(*pts, strict=True)
         ax.plot(xs, ys, **pipe_kw)
-        (x0, y0), (x1, y1) = pts[-2], pts[-1]
+        (x0, y0), (x1, y1) = main_leg(pts)
         t0, t1 = 0.74, 0.78
         ax.annotate(
             "",
@@ -1396,6 +1475,8 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     # Surface symbols and the reference lines to the elevation scale.
     marker = _surface_marker()
     cs, cd = 0.5 * (src_x0 + src_x1), 0.5 * (dst_x0 + dst_x1)
+    if lift:
+        cs = src_x0 + 0.32 * (src_x1 - src_x0)
     ax.plot([cs, cd], [level_s, level_d], ls="none", marker=marker, ms=8, mfc="white",
             mec=INK, mew=0.8, zorder=6)  # fmt: skip
     ref = {"color": GREY, "lw": 0.5, "ls": (0, (1, 2)), "zorder": 0}
@@ -1417,9 +1498,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
 
     small = FONT_PT
     for level, top, xc in ((level_s, src_top, cs), (level_d, dst_top, cd)):
-        placer.place(
-            f"level {_plain(level)} {hu}", (xc, top), [(0, 3), (0, 10)], leader_from=99
-        )
+        placer.place(f"level {_plain(level)} {hu}", (xc, top), [(0, 3), (0, 10)], leader_from=99)
     placer.place(
         "source" + pressure_text(p_src),
         (cs, src_bottom),
@@ -1439,7 +1518,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
                  (10, 10), (-10, 10)], leader_from=99)  # fmt: skip
 
     lu, du = d.label("length"), d.label("diameter")
-    for k, (pid, p, pts) in enumerate(segments):
+    for pid, p, pts in segments:
         parts = [pid]
         if p.get("length") is not None:
             parts.append(f"L {_plain(d(p['length'], 'length'))} {lu}")
@@ -1447,9 +1526,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
         text = text_top
         if p.get("inner_diameter") is not None:
             text += f"\nID {_plain(d(p['inner_diameter'], 'diameter'))} {du}"
-        (x0, y0), (x1, y1) = pts[-2], pts[-1]
-        if len(pts) == 3 and k == 0 and lift and suction:
-            (x0, y0), (x1, y1) = pts[1], pts[2]
+        (x0, y0), (x1, y1) = main_leg(pts)
         xm, ym = 0.5 * (x0 + x1), 0.5 * (y0 + y1)
         a, b = ax.transData.transform([(x0, y0), (x1, y1)])
         dx, dy = b - a
