@@ -10,6 +10,7 @@ requirement of that project: exceeding it fails. Physical impossibilities
 from __future__ import annotations
 
 import re
+from functools import cache
 from typing import Any
 
 from calcreport import catalog
@@ -108,14 +109,19 @@ def _worse(a: Check, b: Check) -> bool:
 
 def _limit(model: Model, name: str) -> tuple[float, str, str, bool]:
     """Limit value (SI), basis, reference key, and whether the project set it."""
-    from calcreport.units import parse
-
-    default = catalog.criteria()[name]
     given = model.criteria.given.get(name)
     if given is not None:
         return given.value, f"Project criterion criteria.{name}", "input", True
-    value = parse(default["value"], default["kind"])
-    return value, default["basis"], default["reference"], False
+    default = catalog.criteria()[name]
+    return _default_value(name), default["basis"], default["reference"], False
+
+
+@cache
+def _default_value(name: str) -> float:
+    from calcreport.units import parse
+
+    default = catalog.criteria()[name]
+    return parse(default["value"], default["kind"])
 
 
 def _status(ok: bool, project_set: bool) -> str:

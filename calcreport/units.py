@@ -101,6 +101,39 @@ _HINTS = {
 }
 
 
+# Exact conversions of the units an input commonly uses (NIST SP 811), so that
+# a typical solve never builds pint's registry; anything else goes to pint.
+# unit -> (kind it measures, factor to SI, offset added after the factor).
+_INCH = 0.0254
+_FOOT = 0.3048
+_GALLON = 3.785411784e-3
+_POUND_FORCE = 0.45359237 * 9.80665
+_PSI = _POUND_FORCE / _INCH**2
+_FAST: dict[str, tuple[str, float, float]] = {
+    "m": ("length", 1.0, 0.0), "mm": ("length", 1e-3, 0.0), "cm": ("length", 1e-2, 0.0),
+    "km": ("length", 1e3, 0.0), "in": ("length", _INCH, 0.0), "inch": ("length", _INCH, 0.0),
+    "ft": ("length", _FOOT, 0.0), "foot": ("length", _FOOT, 0.0),
+    "L/s": ("flow", 1e-3, 0.0), "l/s": ("flow", 1e-3, 0.0), "m^3/s": ("flow", 1.0, 0.0),
+    "m^3/h": ("flow", 1.0 / 3600.0, 0.0), "m^3/hr": ("flow", 1.0 / 3600.0, 0.0),
+    "L/min": ("flow", 1e-3 / 60.0, 0.0), "gpm": ("flow", _GALLON / 60.0, 0.0),
+    "gal/min": ("flow", _GALLON / 60.0, 0.0), "cfs": ("flow", _FOOT**3, 0.0),
+    "Pa": ("pressure", 1.0, 0.0), "kPa": ("pressure", 1e3, 0.0), "MPa": ("pressure", 1e6, 0.0),
+    "bar": ("pressure", 1e5, 0.0), "mbar": ("pressure", 1e2, 0.0), "psi": ("pressure", _PSI, 0.0),
+    "psig": ("pressure", _PSI, 0.0), "barg": ("pressure", 1e5, 0.0),
+    "kPag": ("pressure", 1e3, 0.0),
+    "K": ("temperature", 1.0, 0.0), "degC": ("temperature", 1.0, 273.15),
+    "degF": ("temperature", 5.0 / 9.0, 459.67 * 5.0 / 9.0),
+    "kg/m^3": ("density", 1.0, 0.0), "Pa*s": ("viscosity", 1.0, 0.0),
+    "mPa*s": ("viscosity", 1e-3, 0.0), "cP": ("viscosity", 1e-3, 0.0),
+    "m/s": ("velocity", 1.0, 0.0), "ft/s": ("velocity", _FOOT, 0.0),
+    "W": ("power", 1.0, 0.0), "kW": ("power", 1e3, 0.0),
+    "hp": ("power", 550.0 * _FOOT * _POUND_FORCE, 0.0),
+    "rpm": ("speed", 1.0 / 60.0, 0.0), "percent": ("dimensionless", 0.01, 0.0),
+    "m^3": ("volume", 1.0, 0.0), "kWh": ("energy", 3.6e6, 0.0), "J": ("energy", 1.0, 0.0),
+    "s": ("time", 1.0, 0.0),
+}
+
+
 @cache
 def registry() -> Any:
     """The package's pint UnitRegistry, built on first use."""
@@ -149,6 +182,12 @@ def parse(value: Any, kind: str) -> float:
         raise UnitProblem(f"The value {shown} has no unit; {give}")
     if unit == "":
         return number
+    fast = _FAST.get(unit)
+    if fast is not None and _DIMENSION_OF[fast[0]] == _DIMENSION_OF[kind]:
+        converted = number * fast[1] + fast[2]
+        if not math.isfinite(converted):
+            raise UnitProblem(f"The value {shown} is out of range; {give}")
+        return converted
     ureg = registry()
     import pint
 
@@ -256,9 +295,10 @@ def to_display(value: float, si_unit: str, unit: str) -> float:
     """Convert an SI float in ``si_unit`` to ``unit`` for display."""
     if si_unit == unit:
         return value
+    fast = _FAST.get(unit)
+    if fast is not None and KINDS[fast[0]].si == si_unit:
+        return (value - fast[2]) / fast[1]
     ureg = registry()
-    if si_unit == "1/s" and unit == "rpm":
-        return value * 60.0
     return float(ureg.Quantity(value, si_unit or "dimensionless").to(unit).magnitude)
 
 

@@ -19,6 +19,7 @@ import re
 import pytest
 
 from calcreport.units import KINDS, UnitProblem, as_written, display_unit, parse, to_display
+from calcreport import units
 
 # Exact definitions from which the check values are built.
 INCH = 0.0254  # m; [SP811] B.8 "inch": exact by definition
@@ -223,3 +224,20 @@ def test_to_display_inverts_parse():
     assert to_display(parse("2950 rpm", "speed"), "1/s", "rpm") == pytest.approx(2950.0)
     assert to_display(288.15, "K", "degC") == pytest.approx(15.0)
     assert to_display(0.154051, "m", "in") == pytest.approx(6.065)
+
+
+@pytest.mark.parametrize("unit", sorted(units._FAST))
+def test_fast_conversions_equal_pint(unit):
+    # The exact table of common units must agree with pint's definitions
+    # (NIST SP 811 values) to the last bits, both ways.
+    kind = units._FAST[unit][0]
+    ureg = units.registry()
+    q = ureg.Quantity(12.5, unit)
+    si = KINDS_SI[kind]
+    expected = q.to("turn / second" if kind == "speed" else si or "dimensionless").magnitude
+    assert units.parse(f"12.5 {unit}".replace("percent", "%"), kind) == pytest.approx(
+        expected, rel=1e-14)
+    assert units.to_display(expected, units.KINDS[kind].si, unit) == pytest.approx(12.5, rel=1e-13)
+
+
+KINDS_SI = {name: spec.si for name, spec in units.KINDS.items()}
