@@ -87,7 +87,6 @@ LABEL_PT = 8.5  # axis labels
 INK = "#222222"
 BLUE = "#1f4e79"  # primary line
 RUST = "#b0502a"  # second line, duty point
-GREEN = "#4d7a36"  # third series
 GREY = "#808080"
 LIGHT = "#d0d0d0"
 LIQUID = "#dce6ef"
@@ -136,6 +135,7 @@ _RC: dict[str, Any] = {
     "figure.dpi": 72,
     "savefig.dpi": 72,
     "pdf.fonttype": 42,  # embed TrueType, text stays text
+    "ps.fonttype": 42,  # matplotlib sizes the PDF font subsets by this one
     "pdf.compression": 6,
     "svg.hashsalt": "calcreport",
     "path.simplify": False,
@@ -191,6 +191,7 @@ def _render(draw: Callable[[dict[str, Any]], tuple[Any, str]], trace: dict[str, 
 
     with matplotlib.rc_context(_RC):
         fig, title = draw(trace)
+        _plain_glyphs(fig)
         buffer = io.BytesIO()
         fig.savefig(buffer, format="pdf", metadata=_PDF_METADATA)
     width, height = fig.get_size_inches()
@@ -203,6 +204,16 @@ def _render(draw: Callable[[dict[str, Any]], tuple[Any, str]], trace: dict[str, 
     )
 
 
+def _draw_only(name: str, trace: dict[str, Any]) -> tuple[Any, str]:
+    """The matplotlib figure and caption of chart ``name``, without saving a PDF (tests)."""
+    import matplotlib
+
+    with matplotlib.rc_context(_RC):
+        fig, title = globals()[f"_draw_{name}"](trace)
+        _plain_glyphs(fig)
+    return fig, title
+
+
 def _new_figure(height_in: float) -> Any:
     from matplotlib.figure import Figure as MplFigure
 
@@ -213,8 +224,30 @@ def _new_figure(height_in: float) -> Any:
 
 def _freeze_layout(fig: Any) -> None:
     """Run the constrained layout once and keep it: later draws reuse its positions."""
+    _plain_glyphs(fig)
     fig.draw_without_rendering()
     fig.set_layout_engine("none")
+    _plain_glyphs(fig)  # the tick labels that drawing created
+
+
+def _plain_glyphs(fig: Any) -> None:
+    """Set every text without ligatures: one glyph a character, one font subset a page."""
+    from matplotlib.text import Text
+
+    if not hasattr(Text, "set_fontfeatures"):  # matplotlib before 3.11 sets no ligatures
+        return
+    texts = list(fig.texts)
+    for ax in fig.axes:
+        texts += [*ax.texts, ax.xaxis.label, ax.yaxis.label, ax.title]
+        legend = ax.get_legend()
+        if legend is not None:
+            texts += legend.get_texts()
+        for axis in (ax.xaxis, ax.yaxis):
+            for tick in axis.majorTicks + axis.minorTicks:
+                texts += [tick.label1, tick.label2]
+    for text in texts:
+        if text.get_fontfeatures() is None:
+            text.set_fontfeatures(("-liga",))
 
 
 def _style_axes(ax: Any, grid: str = "both") -> None:
@@ -230,7 +263,7 @@ def _legend_above(
         handles, _ = ax.get_legend_handles_labels()
     if not handles:
         return
-    room = ax.get_figure(root=True).bbox.width - 60.0 - reserve
+    room = ax.figure.bbox.width - 60.0 - reserve
     columns = min(ncols or len(handles), len(handles))
     while True:
         legend = ax.legend(
@@ -313,10 +346,6 @@ def _plain(x: float) -> str:
     return text.replace("-", "−")
 
 
-def _with_unit(text: str, unit: str) -> str:
-    return f"{text} {unit}" if unit else text
-
-
 def _given(trace: dict[str, Any], key: str) -> dict[str, Any] | None:
     value = trace.get("given", {}).get(key)
     return value if isinstance(value, dict) and "value" in value else None
@@ -342,6 +371,7 @@ class _Placer:
         self.pad = pad
         frame = ax.get_window_extent()
         self.frame = (frame.x0, frame.y0, frame.x1, frame.y1)
+        self.renderer = fig._get_renderer()  # one text-measuring renderer for every label
         self.segments = np.empty((0, 4))
         self.boxes: list[tuple[float, float, float, float]] = []
 
@@ -367,14 +397,6 @@ class _Placer:
         seg = seg[np.all(np.isfinite(seg), axis=1)]
         self.segments = np.vstack([self.segments, seg])
 
-    def add_data_box(self, x0: float, y0: float, x1: float, y1: float) -> None:
-        (a, b), (c, d) = self.ax.transData.transform([(x0, y0), (x1, y1)])
-        self.boxes.append((min(a, c), min(b, d), max(a, c), max(b, d)))
-
-    def add_artist_box(self, artist: Any) -> None:
-        bb = artist.get_window_extent()
-        self.boxes.append((bb.x0, bb.y0, bb.x1, bb.y1))
-
     # placement -----------------------------------------------------------
     def place(
         self,
@@ -385,14 +407,17 @@ class _Placer:
         inside: bool = True,
         fontsize: float = FONT_PT,
         rivals: Sequence[tuple[float, float]] = (),
+        also: Sequence[tuple[tuple[float, float], tuple[float, float]]] = (),
         **kw: Any,
     ) -> Any:
         """Annotate ``xy`` (data) with ``text`` at the best of ``offsets`` (points).
 
-        ``rivals`` are other labelled points (data): a place nearer to one of
-        them than to ``xy`` counts against a candidate, so labels stay unambiguous.
+        ``also`` lists further candidates with an anchor of their own, as
+        ``(anchor, offset)``, tried after ``offsets``. ``rivals`` are other
+        labelled points (data): a place nearer to one of them than to the
+        anchor counts against a candidate, so labels stay unambiguous.
         """
-        own = self.ax.transData.transform([xy])[0]
+        options = [(xy, o) for o in offsets] + list(also)
         others = self.ax.transData.transform(rivals) if len(rivals) else np.empty((0, 2))
         ann = self.ax.annotate(
             text,
@@ -405,12 +430,13 @@ class _Placer:
         )
         ann.set_in_layout(False)
         best: tuple[float, int] | None = None
-        for i, (dx, dy) in enumerate(offsets):
+        for i, (anchor, (dx, dy)) in enumerate(options):
+            ann.xy = anchor
             self._set_offset(ann, dx, dy)
-            bb = _text_extent(ann)
+            bb = _text_extent(ann, self.renderer)
             score = self._score(bb, inside)
             if len(others):
-                mine = _box_distance(bb, own)
+                mine = _box_distance(bb, self.ax.transData.transform([anchor])[0])
                 if any(_box_distance(bb, o) < mine + 2.0 for o in others):
                     score += 2.0
             if best is None or score < best[0]:
@@ -418,14 +444,15 @@ class _Placer:
             if score == 0:
                 break
         assert best is not None
-        dx, dy = offsets[best[1]]
+        anchor, (dx, dy) = options[best[1]]
+        ann.xy = anchor
         self._set_offset(ann, dx, dy)
         if math.hypot(dx, dy) >= leader_from:
             ha, va = ann.get_horizontalalignment(), ann.get_verticalalignment()
             ann.remove()
             ann = self.ax.annotate(
                 text,
-                xy=xy,
+                xy=anchor,
                 xytext=(dx, dy),
                 textcoords="offset points",
                 annotation_clip=False,
@@ -442,10 +469,10 @@ class _Placer:
                 **kw,
             )
             ann.set_in_layout(False)
-            target = self.ax.transData.transform([xy])[0]
-            bb = _text_extent(ann)
+            target = self.ax.transData.transform([anchor])[0]
+            bb = _text_extent(ann, self.renderer)
             self.add_polyline([target, _nearest_point(bb, target)], display=True)
-        bb = _text_extent(ann)
+        bb = _text_extent(ann, self.renderer)
         self.boxes.append((bb.x0 - 0.5, bb.y0 - 0.5, bb.x1 + 0.5, bb.y1 + 0.5))
         return ann
 
@@ -467,11 +494,10 @@ class _Placer:
         return score
 
 
-def _text_extent(ann: Any) -> Any:
+def _text_extent(ann: Any, renderer: Any) -> Any:
     """The box of an annotation's text alone, without its leader line."""
     from matplotlib.text import Annotation, Text
 
-    renderer = ann.get_figure(root=True)._get_renderer()
     if isinstance(ann, Annotation):
         ann.update_positions(renderer)
     return Text.get_window_extent(ann, renderer)
@@ -533,12 +559,13 @@ def _clusters(ax: Any, xy: Sequence[tuple[float, float]], within: float) -> list
 
 
 def _ring(radii: Sequence[float], first: Sequence[tuple[float, float]] = ()) -> list[tuple]:
-    """Candidate offsets: ``first``, then eight directions at each radius."""
+    """Candidate offsets: ``first``, then sixteen directions at each radius."""
     out = list(first)
     directions = ((1, 1), (-1, 1), (1, -1), (-1, -1), (0, 1), (0, -1), (1, 0), (-1, 0))
+    directions += ((1, 2), (1, -2), (-1, 2), (-1, -2), (2, 1), (2, -1), (-2, 1), (-2, -1))
     for r in radii:
         for ux, uy in directions:
-            scale = r / math.hypot(ux, uy) if ux and uy else r
+            scale = r / math.hypot(ux, uy)
             out.append((ux * scale, uy * scale))
     return out
 
@@ -618,8 +645,6 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
     )
     duty.set_label("duty point")
     handles.append(duty)
-    ax.plot([q_duty, q_duty], [0, h_duty], color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
-    ax.plot([0, q_duty], [h_duty, h_duty], color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
 
     op = r.get("operating_point")
     op_xy = None
@@ -631,8 +656,17 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
         opm.set_label("operating point")
         handles.append(opm)
 
+    # Head from zero, or from below zero where the curve or static head is negative.
+    ymin = min(0.0, float(np.min(h)), h_static if static_line is not None else 0.0, h_duty)
+    ymax = max(ymax, h_duty)
+    span = max(ymax - ymin, 1e-9)
     ax.set_xlim(0, xmax * 1.02)
-    ax.set_ylim(0, ymax * 1.12)
+    ax.set_ylim(ymin - (0.08 * span if ymin < 0 else 0.0), ymax + 0.12 * span)
+    if ymin < 0:
+        ax.axhline(0.0, color="#555555", lw=0.6, zorder=1)
+    drop = {"color": RUST, "lw": 0.7, "ls": (0, (1, 1.5)), "zorder": 1}
+    ax.plot([q_duty, q_duty], [ax.get_ylim()[0], h_duty], **drop)
+    ax.plot([0, q_duty], [h_duty, h_duty], **drop)
     ax.set_xlabel(f"Flow [{qu}]")
     ax.set_ylabel(f"Head [{hu}]")
     _legend_above(ax, handles)
@@ -660,7 +694,13 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
                 f" = elevation {_num(d(static, 'length'))} {hu}"
                 f" + pressure {_num(d(pressure, 'length'))} {hu}"
             )
-        placer.place(text, (xmax * 0.01, h_static), [(2, -3), (2, 3)], leader_from=99)
+        placer.place(
+            text,
+            (xmax * 0.01, h_static),
+            [(2, -3), (2, 3)],
+            also=[((xmax, h_static), (-2, 3)), ((xmax, h_static), (-2, -3))],
+            leader_from=99,
+        )
 
     title = (
         f"System curve at the design case: head against flow, duty point "
@@ -745,7 +785,7 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
     placer = _Placer(fig, ax)
     placer.add_lines()
     placer.place(
-        f"duty flow {_num(q_duty)} {qu}\nNPSHa {_num(a_duty)} {hu}",
+        f"duty {_num(q_duty)} {qu}\nNPSHa {_num(a_duty)} {hu}",
         (q_duty, a_duty),
         [(7, 8), (-7, 8), (7, -8), (-7, -8), (14, 20), (-14, 20)],
         leader_from=99,
@@ -850,7 +890,7 @@ def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
     span = max(hi - lo, 1.0)
     length = max(float(x[-1] - x[0]), 1e-9)
     ax.set_xlim(x[0] - 0.02 * length, x[-1] + 0.025 * length)
-    ax.set_ylim(lo - 0.16 * span, hi + 0.10 * span)
+    ax.set_ylim(lo - 0.16 * span, hi + 0.14 * span)
     ax.set_xlabel(f"Distance along route [{hu}]")
     ax.set_ylabel(f"Elevation [{hu}]")
 
@@ -883,8 +923,9 @@ def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
     if jump is not None and jump + 1 < len(nodes):
         xj = x[jump + 1]
         yj = 0.5 * (egl[jump] + egl[jump + 1])
-        text = "pump" + (f"\nadds TDH {_num(d(tdh, 'length'))} {hu}" if tdh else "")
-        placer.place(text, (xj, yj), [(8, 0), (-8, 0), (16, 10), (-16, 10)], leader_from=12)
+        text = "pump" + (f"\nTDH {_num(d(tdh, 'length'))} {hu}" if tdh else "")
+        cands = [(8, 0), (-8, 0), (16, 10), (-16, 10)] + _ring((20, 32, 44))
+        placer.place(text, (xj, yj), cands, leader_from=12)
     for pid, i0, i1 in spans:
         xm = 0.5 * (x[i0] + x[i1])
         ym = 0.5 * (egl[i0] + egl[i1])
@@ -1012,6 +1053,7 @@ def _draw_loss_breakdown(trace: dict[str, Any]) -> tuple[Any, str]:
     hi = hi if hi > 0 else 1.0
     ax.set_xlim(lo * 1.05 if lo < 0 else 0.0, hi * 1.05)
     _freeze_layout(fig)
+    renderer = fig._get_renderer()
     labels = []
     for i, end, text in ends:
         right = end >= 0
@@ -1031,7 +1073,7 @@ def _draw_loss_breakdown(trace: dict[str, Any]) -> tuple[Any, str]:
         x0, x1 = ax.get_xlim()
         need_hi, need_lo = x1, x0
         for t, right in labels:
-            bb = t.get_window_extent()
+            bb = t.get_window_extent(renderer)
             scale = (x1 - x0) / frame.width
             if right and bb.x1 > frame.x1 - 2:
                 need_hi = max(need_hi, x1 + (bb.x1 - frame.x1 + 4) * scale)
@@ -1496,7 +1538,6 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
         gauge = "psig" if unit == "psi" else f"{pretty_unit(unit)}(g)"
         return f"\n{_num(d(q, 'pressure'))} {gauge}"
 
-    small = FONT_PT
     for level, top, xc in ((level_s, src_top, cs), (level_d, dst_top, cd)):
         placer.place(f"level {_plain(level)} {hu}", (xc, top), [(0, 3), (0, 10)], leader_from=99)
     placer.place(
@@ -1504,14 +1545,12 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
         (cs, src_bottom),
         [(0, -4), (0, -12)],
         leader_from=99,
-        fontsize=small,
     )
     placer.place(
         "destination" + pressure_text(p_dst),
         (cd, dst_bottom),
         [(0, -4), (0, -12)],
         leader_from=99,
-        fontsize=small,
     )
     datum_text = f"pump\ndatum {_plain(pump_y)} {hu}" if datum is not None else "pump"
     placer.place(datum_text, (pump_x, pump_y), [(0, -11), (0, 11), (10, -10), (-10, -10),
@@ -1519,13 +1558,15 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
 
     lu, du = d.label("length"), d.label("diameter")
     for pid, p, pts in segments:
-        parts = [pid]
+        size = []
         if p.get("length") is not None:
-            parts.append(f"L {_plain(d(p['length'], 'length'))} {lu}")
-        text_top = "  ".join(parts)
-        text = text_top
+            size.append(f"L {_plain(d(p['length'], 'length'))} {lu}")
         if p.get("inner_diameter") is not None:
-            text += f"\nID {_plain(d(p['inner_diameter'], 'diameter'))} {du}"
+            size.append(f"ID {_plain(d(p['inner_diameter'], 'diameter'))} {du}")
+        if len(pid) > 6:  # a long id gets a line of its own
+            text = "\n".join([pid, ", ".join(size)] if size else [pid])
+        else:
+            text = "\n".join([f"{pid}  {size[0]}", *size[1:]] if size else [pid])
         (x0, y0), (x1, y1) = main_leg(pts)
         xm, ym = 0.5 * (x0 + x1), 0.5 * (y0 + y1)
         a, b = ax.transData.transform([(x0, y0), (x1, y1)])
@@ -1536,6 +1577,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
         for dist in (5, 10, 18, 28, 40):
             cands.append((-nx * dist, -ny * dist))
             cands.append((nx * dist, ny * dist))
+        cands += _ring((24, 36, 50))
         placer.place(text, (xm, ym), cands, leader_from=16, multialignment="center")
 
     title = (

@@ -1,0 +1,345 @@
+"""The report's charts: vector PDF pages from a trace, deterministic, in the report's units.
+
+Every chart is drawn once per example trace (module fixtures) and the
+tests read those drawings: the PDF bytes, the caption, and the matplotlib
+figure kept on ``Figure.figure``. Charts must work when the trace lacks the
+optional keys (pump curve, operating point, route elevations, equipment
+losses, other cases) and must keep every label on the page.
+"""
+
+from __future__ import annotations
+
+import copy
+import io
+import json
+import subprocess
+import sys
+from pathlib import Path
+from typing import Any
+
+import pytest
+
+from calcreport.calc import solve
+from calcreport.model.loader import load, loads
+from calcreport.report import charts
+
+ROOT = Path(__file__).parent.parent
+EXAMPLES = {
+    "si": ROOT / "input_examples" / "reservoir_fill_si.toml",
+    "us": ROOT / "input_examples" / "process_transfer_us.toml",
+    "check": ROOT / "input_examples" / "check_case.toml",
+}
+NAMES = charts.FIGURES
+WIDTH_PT = 6.3 * 72
+
+# Ten pipes with a suction lift: the busiest sketch and friction chart we expect.
+TEN_PIPES = """
+format = 1
+[project]
+units = "SI"
+[fluid]
+temperature = "20 degC"
+[duty]
+flow = "15 L/s"
+[source]
+level = "10 m"
+level_low = "9 m"
+[destination]
+level = "60 m"
+[pump]
+elevation = "14 m"
+efficiency = 0.7
+""" + "".join(
+    f"""
+[[pipe]]
+id = "{side[0].upper()}{i}"
+side = "{side}"
+length = "{length} m"
+inner_diameter = "{diameter} mm"
+roughness = "0.045 mm"
+fittings = [{{ K = 0.5 }}]
+"""
+    for side, i, length, diameter in [("suction", 1, 4, 150), ("suction", 2, 2.5, 125)]
+    + [("discharge", i, 50 * i, 100 + 5 * i) for i in range(1, 9)]
+)
+
+
+def _trace_of(model: Any) -> dict[str, Any]:
+    return json.loads(solve(model).dumps())
+
+
+@pytest.fixture(scope="module")
+def traces() -> dict[str, dict[str, Any]]:
+    out = {key: _trace_of(load(path)) for key, path in EXAMPLES.items()}
+    out["ten"] = _trace_of(loads(TEN_PIPES.encode(), "<ten pipes>"))
+    return out
+
+
+@pytest.fixture(scope="module")
+def drawn(traces: dict[str, dict[str, Any]]) -> dict[tuple[str, str], charts.Figure]:
+    """Every chart of the three examples, through the public functions."""
+    return {(key, name): getattr(charts, name)(traces[key]) for key in EXAMPLES for name in NAMES}
+
+
+@pytest.fixture(scope="module")
+def figures(traces, drawn) -> dict[tuple[str, str], Any]:
+    """The matplotlib figures: the examples' as saved, the ten-pipe case drawn only."""
+    out = {key: fig.figure for key, fig in drawn.items()}
+    for name in NAMES:
+        out["ten", name] = charts._draw_only(name, traces["ten"])[0]
+    return out
+
+
+def _texts(fig: Any) -> list[str]:
+    """Every non-empty text of a matplotlib figure, tick labels included."""
+    from matplotlib.text import Text
+
+    return [t.get_text() for t in fig.findobj(Text) if t.get_visible() and t.get_text()]
+
+
+def _pdf_text(pdf: bytes) -> str:
+    from pypdf import PdfReader
+
+    reader = PdfReader(io.BytesIO(pdf))
+    assert len(reader.pages) == 1
+    return reader.pages[0].extract_text()
+
+
+# -- the Figure record -------------------------------------------------------------------
+
+
+@pytest.mark.parametrize("name", NAMES)
+@pytest.mark.parametrize("key", list(EXAMPLES))
+def test_every_chart_is_a_one_page_pdf_of_report_width(drawn, key: str, name: str) -> None:
+    fig = drawn[key, name]
+    assert isinstance(fig, charts.Figure)
+    assert fig.pdf.startswith(b"%PDF") and len(fig.pdf) > 1000
+    assert fig.pdf.rstrip().endswith(b"%%EOF")
+    assert fig.width_pt == pytest.approx(WIDTH_PT)
+    assert 3.2 * 72 - 1e-9 <= fig.height_pt <= 3.8 * 72 + 1e-9
+    assert fig.title.strip() and "\n" not in fig.title
+    assert not fig.title.lower().startswith("figure")
+    assert fig.figure is not None
+    assert tuple(fig.figure.get_size_inches() * 72) == pytest.approx((fig.width_pt, fig.height_pt))
+
+
+def test_figure_refuses_what_is_not_a_pdf() -> None:
+    with pytest.raises(ValueError, match="PDF"):
+        charts.Figure(pdf=b"<svg/>", width_pt=10, height_pt=10, title="x")
+    with pytest.raises(ValueError, match="title"):
+        charts.Figure(pdf=b"%PDF-1.4", width_pt=10, height_pt=10, title="")
+
+
+def test_figures_lists_every_public_chart() -> None:
+    assert set(NAMES) == {
+        "sketch",
+        "system_curve",
+        "npsh",
+        "profile",
+        "loss_breakdown",
+        "friction_factor",
+    }
+    assert set(NAMES) <= set(charts.__all__)
+
+
+# -- deterministic bytes -------------------------------------------------------------------
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_same_trace_gives_the_same_bytes(traces, drawn, name: str) -> None:
+    again = getattr(charts, name)(copy.deepcopy(traces["us"]))
+    assert again.pdf == drawn["us", name].pdf
+    assert again.title == drawn["us", name].title
+
+
+def test_pdf_has_no_date_or_producer(drawn) -> None:
+    pdf = drawn["si", "system_curve"].pdf
+    assert b"/CreationDate" not in pdf
+    assert b"/Producer" not in pdf
+    assert b"/Creator" not in pdf
+
+
+def test_fonts_are_embedded_as_truetype(drawn) -> None:
+    pdf = drawn["si", "loss_breakdown"].pdf
+    assert b"/FontFile2" in pdf  # Type 42: TrueType outlines, text stays text
+    assert b"/Type3" not in pdf
+
+
+# -- units on the axes -----------------------------------------------------------------------
+
+
+def test_us_traces_print_us_units(drawn) -> None:
+    fig = drawn["us", "system_curve"].figure
+    ax = fig.axes[0]
+    assert ax.get_xlabel() == "Flow [gpm]"
+    assert ax.get_ylabel() == "Head [ft]"
+    text = _pdf_text(drawn["us", "system_curve"].pdf)
+    assert "gpm" in text and "L/s" not in text
+    assert drawn["us", "npsh"].figure.axes[0].get_xlabel() == "Flow [gpm]"
+    assert drawn["us", "profile"].figure.axes[0].get_xlabel() == "Distance along route [ft]"
+    assert drawn["us", "loss_breakdown"].figure.axes[0].get_xlabel() == "Head [ft]"
+    assert drawn["us", "sketch"].figure.axes[0].get_ylabel() == "Elevation [ft]"
+    sketch = " ".join(_texts(drawn["us", "sketch"].figure))
+    assert "ID 6.065 in" in sketch and "L 640 ft" in sketch  # as entered
+    assert "psig" in sketch  # the pressurised destination, gauge
+
+
+def test_si_traces_print_si_units(drawn) -> None:
+    ax = drawn["si", "system_curve"].figure.axes[0]
+    assert (ax.get_xlabel(), ax.get_ylabel()) == ("Flow [L/s]", "Head [m]")
+    text = _pdf_text(drawn["si", "system_curve"].pdf)
+    assert "L/s" in text and "gpm" not in text
+    sketch = " ".join(_texts(drawn["si", "sketch"].figure))
+    assert "ID 202.7 mm" in sketch and "L 1180 m" in sketch
+
+
+def test_labels_carry_the_trace_values(traces, drawn) -> None:
+    # 28 L/s at TDH 50.26 m in the SI example; the chart prints 3 significant figures.
+    r = traces["si"]["results"]
+    assert r["flow"]["value"] == pytest.approx(0.028)
+    texts = " ".join(_texts(drawn["si", "system_curve"].figure))
+    assert "28.0 L/s, TDH 50.3 m" in texts
+    assert "TDH 50.3 m" in drawn["si", "system_curve"].title
+    assert "TDH = 50.3 m" in drawn["si", "loss_breakdown"].title
+    assert "downstream end" in drawn["si", "profile"].title
+
+
+def test_every_pipe_is_labelled(traces, drawn) -> None:
+    for key in ("si", "us", "check"):
+        ids = traces[key]["results"]["pipes"]
+        for name in ("profile", "friction_factor", "sketch", "loss_breakdown"):
+            texts = " ".join(_texts(drawn[key, name].figure))
+            for pid in ids:
+                assert pid in texts, (key, name, pid)
+
+
+# -- layout: nothing off the page, labels do not collide ---------------------------------------
+
+
+def _placed_texts(fig: Any) -> list[Any]:
+    """The texts the charts place themselves: annotations, notes, legends, axis labels."""
+    out = list(fig.texts)
+    for ax in fig.axes:
+        out += ax.texts
+        out += [ax.xaxis.label, ax.yaxis.label]
+        legend = ax.get_legend()
+        if legend is not None:
+            out += legend.get_texts()
+    return [t for t in out if t.get_visible() and t.get_text().strip()]
+
+
+@pytest.mark.parametrize("name", NAMES)
+@pytest.mark.parametrize("key", ["si", "us", "check", "ten"])
+def test_labels_stay_on_the_page_and_apart(figures, key: str, name: str) -> None:
+    from matplotlib.text import Annotation, Text
+
+    fig = figures[key, name]
+    renderer = fig._get_renderer()
+    page = fig.bbox
+    boxes = []
+    for t in _placed_texts(fig):
+        if isinstance(t, Annotation):
+            t.update_positions(renderer)
+        bb = Text.get_window_extent(t, renderer)  # an annotation's text, not its leader
+        assert bb.x0 >= page.x0 - 0.5 and bb.x1 <= page.x1 + 0.5, (t.get_text(), bb)
+        assert bb.y0 >= page.y0 - 0.5 and bb.y1 <= page.y1 + 0.5, (t.get_text(), bb)
+        boxes.append((t.get_text(), bb))
+    for i, (a, box_a) in enumerate(boxes):
+        for b, box_b in boxes[i + 1 :]:
+            overlap_w = min(box_a.x1, box_b.x1) - max(box_a.x0, box_b.x0)
+            overlap_h = min(box_a.y1, box_b.y1) - max(box_a.y0, box_b.y0)
+            assert overlap_w <= 0.5 or overlap_h <= 0.5, (a, b)
+
+
+# -- optional keys ----------------------------------------------------------------------------
+
+
+def _strip_optional(trace: dict[str, Any]) -> dict[str, Any]:
+    t = copy.deepcopy(trace)
+    r = t["results"]
+    r.pop("cases", None)
+    r.pop("operating_point", None)
+    r.pop("pump_curve", None)
+    for p in r["pipes"].values():
+        for key in ("equipment_loss", "elevation_start", "elevation_end", "fitting_loss"):
+            p.pop(key, None)
+    for node in r["profile"]["nodes"][1:-1]:  # the pipe ends; the surfaces stay
+        node["elevation"] = None
+    t["given"] = {}
+    t.pop("cases", None)
+    return t
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_charts_work_without_the_optional_keys(traces, name: str) -> None:
+    fig = getattr(charts, name)(_strip_optional(traces["us"]))
+    assert fig.pdf.startswith(b"%PDF") and fig.title
+
+
+def test_pump_curve_and_operating_point_are_drawn_when_given(traces) -> None:
+    t = copy.deepcopy(traces["si"])
+    r = t["results"]
+    flows = [0.0, 0.01, 0.02, 0.03, 0.04]
+    r["pump_curve"] = {
+        "flow": {"value": flows, "unit": "m^3/s"},
+        "head": {"value": [70.0, 68.0, 63.0, 55.0, 44.0], "unit": "m"},
+        "npsh_required": {"value": [1.5, 2.0, 2.8, 4.0, 5.6], "unit": "m"},
+    }
+    r["operating_point"] = {
+        "flow": {"value": 0.0305, "unit": "m^3/s"},
+        "head": {"value": 54.5, "unit": "m"},
+        "npsh_required": {"value": 4.1, "unit": "m"},
+    }
+    curve = charts.system_curve(t)
+    legend = [x.get_text() for x in curve.figure.axes[0].get_legend().get_texts()]
+    assert "pump curve" in legend and "operating point" in legend
+    assert "operating point" in curve.title
+    npsh = charts.npsh(t)
+    legend = [x.get_text() for x in npsh.figure.axes[0].get_legend().get_texts()]
+    assert "NPSH required (pump data)" in legend
+
+
+def test_other_cases_with_their_own_curve_are_drawn(traces) -> None:
+    t = copy.deepcopy(traces["check"])
+    other = copy.deepcopy(t["results"]["system_curve"])
+    other["head"]["value"] = [h + 1.5 for h in other["head"]["value"]]
+    t["results"]["cases"]["C2"] = {"system_curve": other}
+    t["cases"].append({"id": "C2", "title": "Low source level"})
+    fig = charts.system_curve(t)
+    legend = [x.get_text() for x in fig.figure.axes[0].get_legend().get_texts()]
+    assert "system curve, Low source level" in legend
+
+
+def test_missing_required_results_say_what_is_missing(traces) -> None:
+    t = copy.deepcopy(traces["check"])
+    del t["results"]["system_curve"]
+    with pytest.raises(ValueError, match="system_curve"):
+        charts.system_curve(t)
+    with pytest.raises(ValueError, match="results"):
+        charts.profile({"project": {"units": "SI"}})
+
+
+# -- no global state, no matplotlib on the solve path -------------------------------------------
+
+
+def test_drawing_leaves_matplotlib_settings_alone(traces) -> None:
+    import matplotlib
+
+    before = dict(matplotlib.rcParams)
+    charts.loss_breakdown(traces["check"])
+    assert dict(matplotlib.rcParams) == before
+
+
+def test_importing_the_charts_module_does_not_import_matplotlib() -> None:
+    code = (
+        "import sys, calcreport.report.charts, calcreport.calc; "
+        "sys.exit('matplotlib' in sys.modules or 'matplotlib.pyplot' in sys.modules)"
+    )
+    result = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
+    assert result.returncode == 0, result.stderr
+
+
+def test_pyplot_is_never_used(drawn) -> None:
+    assert "matplotlib.pyplot" not in sys.modules or all(
+        fig.figure.canvas.manager is None for fig in drawn.values()
+    )
