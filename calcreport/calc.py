@@ -240,6 +240,7 @@ def _solve_case(
         eta_pump = eta_curve or eta_pump
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive, notes))
     results["system_curve"] = _system_curve(model, case, liquid, surfaces, curve)
+    results["duty_point"] = _duty_point(model, case, liquid, surfaces)
     if curve is not None:
         results["pump_curve"] = {
             "flow": quantity(curve.values("flow"), "m^3/s"),
@@ -261,10 +262,25 @@ def _system_curve(model: Model, case: Case, liquid: Liquid,
     flows = np.linspace(low, high, CURVE_POINTS)
     sweep = _hydraulics(_Sweep(), model, case, liquid, surfaces,
                         flow=Given(flows, "m^3/s", "flow_range"))  # type: ignore[arg-type]
+    shape = flows.shape  # terms that do not depend on flow come back as scalars
     return {
         "flow": quantity(flows.tolist(), "m^3/s"),
-        "head": quantity(np.asarray(sweep["tdh"].value).tolist(), "m"),
-        "npsh_available": quantity(np.asarray(sweep["npsh_available"].value).tolist(), "m"),
+        "head": quantity(np.broadcast_to(sweep["tdh"].value, shape).tolist(), "m"),
+        "npsh_available": quantity(
+            np.broadcast_to(sweep["npsh_available"].value, shape).tolist(), "m"),
+    }
+
+
+def _duty_point(model: Model, case: Case, liquid: Liquid,
+                surfaces: tuple[Given, Given, Given, Given | None]) -> dict[str, Any]:
+    """The system's head and NPSHa at the required flow (the same equations, not steps)."""
+    at = _hydraulics(_Sweep(), model, case, liquid, surfaces,
+                     flow=Given(np.array([model.flow.value]), "m^3/s", "duty.flow"))
+    return {
+        "flow": _q(model.flow),
+        "head": quantity(float(np.asarray(at["tdh"].value).ravel()[0]), "m"),
+        "npsh_available": quantity(float(np.asarray(at["npsh_available"].value).ravel()[0]),
+                                   "m"),
     }
 
 

@@ -22,4 +22,4 @@ def render(trace: dict[str, Any], input_text: str) -> bytes:
 def _figures(trace: dict[str, Any]) -> dict[str, Any]:
     from calcreport.report import charts
 
-    return {name: getattr(charts, name)(trace) for name in charts.FIGURES}
+    return {name: charts.drawn(name, trace) for name in charts.FIGURES}

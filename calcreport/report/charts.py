@@ -37,12 +37,13 @@ from typing import Any
 
 import numpy as np
 
-from calcreport.trace import fmt, pretty_unit
-from calcreport.units import display_unit, to_display
+from calcreport.units import display_unit, fmt, pretty_unit, to_display
 
 __all__ = [
     "FIGURES",
+    "Drawn",
     "Figure",
+    "drawn",
     "friction_factor",
     "loss_breakdown",
     "npsh",
@@ -204,8 +205,21 @@ def _render(draw: Callable[[dict[str, Any]], tuple[Any, str]], trace: dict[str, 
     )
 
 
+@dataclass(frozen=True)
+class Drawn:
+    """A chart drawn but not saved: the matplotlib figure and its caption."""
+
+    figure: Any
+    title: str
+
+
+def drawn(name: str, trace: dict[str, Any]) -> Drawn:
+    """Chart ``name`` of :data:`FIGURES` as a matplotlib figure, for a document to draw."""
+    return Drawn(*_draw_only(name, trace))
+
+
 def _draw_only(name: str, trace: dict[str, Any]) -> tuple[Any, str]:
-    """The matplotlib figure and caption of chart ``name``, without saving a PDF (tests)."""
+    """The matplotlib figure and caption of chart ``name``, without saving a PDF."""
     import matplotlib
 
     with matplotlib.rc_context(_RC):
@@ -580,8 +594,9 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
     curve = r["system_curve"]
     q = d(curve["flow"], "flow")
     h = d.series(curve["head"], "length", len(q))
-    q_duty = d(r["flow"], "flow")
-    h_duty = d(r["total_dynamic_head"], "length")
+    duty_point = r.get("duty_point", {"flow": r["flow"], "head": r["total_dynamic_head"]})
+    q_duty = d(duty_point["flow"], "flow")
+    h_duty = d(duty_point["head"], "length")
     qu, hu = d.label("flow"), d.label("length")
 
     fig = _new_figure(3.4)
@@ -723,8 +738,9 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
         raise ValueError("The trace's system curve has no npsh_available, which this chart plots.")
     q = d(curve["flow"], "flow")
     a = d.series(curve["npsh_available"], "length", len(q))
-    q_duty = d(r["flow"], "flow")
-    a_duty = d(r["npsh_available"], "length")
+    duty_point = r.get("duty_point", {"flow": r["flow"], "npsh_available": r["npsh_available"]})
+    q_duty = d(duty_point["flow"], "flow")
+    a_duty = d(duty_point["npsh_available"], "length")
     qu, hu = d.label("flow"), d.label("length")
 
     fig = _new_figure(3.2)

@@ -1,10 +1,11 @@
-"""Draw a matplotlib figure straight onto the report's PDF canvas, as vectors.
+"""Draw a matplotlib figure onto the report's PDF canvas, as vectors.
 
 A small matplotlib renderer turns every path the figure draws (lines,
-markers, patches, and text laid out as glyph outlines) into reportlab path
-operators, so charts stay sharp at any zoom, use the report's own font
-outlines, and come out byte-identical from run to run. Images (rare in our
-charts) are drawn as embedded rasters.
+markers, patches, and text laid out as glyph outlines) into PDF path
+operators. The operators are recorded once per figure and replayed on
+every pass of the document build, so charts stay sharp at any zoom, use
+the report's own font outlines, cost one drawing however many passes the
+contents page needs, and come out byte-identical from run to run.
 """
 
 from __future__ import annotations
@@ -15,20 +16,27 @@ from reportlab.platypus import Flowable
 
 __all__ = ["ChartFlowable"]
 
+_CAP = {"butt": 0, "round": 1, "projecting": 2}
+_JOIN = {"miter": 0, "round": 1, "bevel": 2}
 
-def _renderer_class() -> Any:
+
+def _n(x: float) -> str:
+    """A coordinate or colour component as PDF prints it (three decimals suffice at 72 dpi)."""
+    text = f"{x:.3f}".rstrip("0").rstrip(".")
+    return "0" if text in ("-0", "") else text
+
+
+def _record(figure: Any) -> list[Any]:
+    """The figure's drawing as PDF operator strings and alpha/image events."""
     from matplotlib.backend_bases import GraphicsContextBase, RendererBase
     from matplotlib.path import Path as MplPath
 
-    class ReportlabRenderer(RendererBase):
-        def __init__(self, canvas: Any, width: float, height: float) -> None:
-            super().__init__()
-            self.canvas = canvas
-            self.width = width
-            self.height = height
+    ops: list[Any] = []
+    width_in, height_in = figure.get_size_inches()
 
+    class Recorder(RendererBase):
         def get_canvas_width_height(self) -> tuple[float, float]:
-            return self.width, self.height
+            return width_in * 72.0, height_in * 72.0
 
         def points_to_pixels(self, points: float) -> float:
             return points  # 72 dpi: one pixel is one point
@@ -39,87 +47,82 @@ def _renderer_class() -> Any:
         def option_image_nocomposite(self) -> bool:
             return True
 
-        def _clip(self, gc: Any) -> None:
+        def _clip(self, gc: Any) -> str:
             rect = gc.get_clip_rectangle()
-            clip_path, clip_transform = gc.get_clip_path()
-            if rect is None and clip_path is None:
-                return
-            path = self.canvas.beginPath()
             if rect is not None:
                 x0, y0, w, h = rect.bounds
-                path.rect(x0, y0, w, h)
-            else:
-                self._trace(path, clip_path, clip_transform)
-            self.canvas.clipPath(path, stroke=0, fill=0)
+                return f"{_n(x0)} {_n(y0)} {_n(w)} {_n(h)} re W n\n"
+            clip_path, clip_transform = gc.get_clip_path()
+            if clip_path is not None:
+                return self._trace(clip_path, clip_transform) + "W n\n"
+            return ""
 
-        def _trace(self, path: Any, mpl_path: Any, transform: Any) -> None:
+        def _trace(self, mpl_path: Any, transform: Any) -> str:
+            out = []
             last = (0.0, 0.0)
-            for vertices, code in mpl_path.iter_segments(
-                transform, remove_nans=True, simplify=False
-            ):
+            for vertices, code in mpl_path.iter_segments(transform, remove_nans=True,
+                                                         simplify=False):
                 if code == MplPath.MOVETO:
-                    path.moveTo(*vertices)
+                    out.append(f"{_n(vertices[0])} {_n(vertices[1])} m")
                 elif code == MplPath.LINETO:
-                    path.lineTo(*vertices)
+                    out.append(f"{_n(vertices[0])} {_n(vertices[1])} l")
                 elif code == MplPath.CURVE3:  # quadratic Bezier as the equivalent cubic
                     qx, qy, x3, y3 = vertices
                     x0, y0 = last
-                    path.curveTo(
-                        x0 + 2 / 3 * (qx - x0),
-                        y0 + 2 / 3 * (qy - y0),
-                        x3 + 2 / 3 * (qx - x3),
-                        y3 + 2 / 3 * (qy - y3),
-                        x3,
-                        y3,
-                    )
+                    c1 = (x0 + 2 / 3 * (qx - x0), y0 + 2 / 3 * (qy - y0))
+                    c2 = (x3 + 2 / 3 * (qx - x3), y3 + 2 / 3 * (qy - y3))
+                    out.append(" ".join(_n(v) for v in (*c1, *c2, x3, y3)) + " c")
                 elif code == MplPath.CURVE4:
-                    path.curveTo(*vertices)
+                    out.append(" ".join(_n(v) for v in vertices) + " c")
                 elif code == MplPath.CLOSEPOLY:
-                    path.close()
+                    out.append("h")
                     continue
                 last = (vertices[-2], vertices[-1])
+            return "\n".join(out) + "\n" if out else ""
 
-        def draw_path(self, gc: Any, path: Any, transform: Any, rgbFace: Any = None) -> None:
-            canvas = self.canvas
-            canvas.saveState()
-            self._clip(gc)
-            rl_path = canvas.beginPath()
-            self._trace(rl_path, path, transform)
-            stroke = gc.get_linewidth() > 0 and gc.get_rgb()[3] > 0
+        def draw_path(self, gc: Any, path: Any, transform: Any, rgbFace: Any = None) -> None:  # noqa: N803
+            shape = self._trace(path, transform)
+            if not shape:
+                return
+            parts = ["q\n", self._clip(gc)]
+            stroke_alpha = fill_alpha = 1.0
+            r, g, b, a = gc.get_rgb()
+            stroke = gc.get_linewidth() > 0 and a > 0
             if stroke:
-                r, g, b, a = gc.get_rgb()
-                alpha = gc.get_alpha() if gc.get_forced_alpha() else a
-                canvas.setStrokeColorRGB(r, g, b, alpha=alpha)
-                canvas.setLineWidth(gc.get_linewidth())
-                canvas.setLineCap({"butt": 0, "round": 1, "projecting": 2}[gc.get_capstyle()])
-                canvas.setLineJoin({"miter": 0, "round": 1, "bevel": 2}[gc.get_joinstyle()])
+                stroke_alpha = gc.get_alpha() if gc.get_forced_alpha() else a
+                parts.append(f"{_n(r)} {_n(g)} {_n(b)} RG {_n(gc.get_linewidth())} w "
+                             f"{_CAP[gc.get_capstyle()]} J {_JOIN[gc.get_joinstyle()]} j\n")
                 offset, dashes = gc.get_dashes()
                 if dashes:
-                    canvas.setDash([float(d) for d in dashes], float(offset or 0))
+                    pattern = " ".join(_n(float(d)) for d in dashes)
+                    parts.append(f"[{pattern}] {_n(float(offset or 0))} d\n")
             fill = rgbFace is not None and (len(rgbFace) < 4 or rgbFace[3] > 0)
             if fill:
-                alpha = rgbFace[3] if len(rgbFace) > 3 else 1.0
+                fill_alpha = rgbFace[3] if len(rgbFace) > 3 else 1.0
                 if gc.get_forced_alpha():
-                    alpha = gc.get_alpha()
-                canvas.setFillColorRGB(rgbFace[0], rgbFace[1], rgbFace[2], alpha=alpha)
-            if stroke or fill:
-                canvas.drawPath(
-                    rl_path, stroke=1 if stroke else 0, fill=1 if fill else 0, fillMode=1
-                )
-            canvas.restoreState()
+                    fill_alpha = gc.get_alpha()
+                parts.append(f"{_n(rgbFace[0])} {_n(rgbFace[1])} {_n(rgbFace[2])} rg\n")
+            if not (stroke or fill):
+                return
+            paint = "B" if stroke and fill else ("S" if stroke else "f")
+            parts.append(shape + paint + "\nQ\n")
+            code = "".join(parts)
+            if stroke_alpha < 1.0 or fill_alpha < 1.0:
+                ops.append(("alpha", stroke_alpha, fill_alpha, code))
+            else:
+                ops.append(code)
 
         def draw_image(self, gc: Any, x: float, y: float, im: Any) -> None:
-            from PIL import Image
-            from reportlab.lib.utils import ImageReader
-
             height, width = im.shape[:2]
-            image = Image.fromarray(im[::-1], "RGBA")
-            self.canvas.saveState()
-            self._clip(gc)
-            self.canvas.drawImage(ImageReader(image), x, y, width, height, mask="auto")
-            self.canvas.restoreState()
+            ops.append(("image", x, y, width, height, im[::-1].copy(), self._clip(gc)))
 
-    return ReportlabRenderer
+    dpi = figure.dpi
+    figure.set_dpi(72.0)
+    try:
+        figure.draw(Recorder())
+    finally:
+        figure.set_dpi(dpi)
+    return ops
 
 
 class ChartFlowable(Flowable):
@@ -127,24 +130,41 @@ class ChartFlowable(Flowable):
 
     def __init__(self, figure: Any) -> None:
         super().__init__()
-        self.figure = figure
         width_in, height_in = figure.get_size_inches()
         self.fig_width = width_in * 72.0
         self.fig_height = height_in * 72.0
+        self.ops = _record(figure)
 
     def wrap(self, available_width: float, available_height: float) -> tuple[float, float]:
         self.scale = min(1.0, available_width / self.fig_width)
         return self.fig_width * self.scale, self.fig_height * self.scale
 
     def draw(self) -> None:
-        figure = self.figure
-        dpi = figure.dpi
-        figure.set_dpi(72.0)
-        renderer = _renderer_class()(self.canv, self.fig_width, self.fig_height)
-        self.canv.saveState()
-        self.canv.scale(self.scale, self.scale)
-        try:
-            figure.draw(renderer)
-        finally:
-            self.canv.restoreState()
-            figure.set_dpi(dpi)
+        canvas = self.canv
+        canvas.saveState()
+        canvas.scale(self.scale, self.scale)
+        for op in self.ops:
+            if isinstance(op, str):
+                canvas.addLiteral(op)
+            elif op[0] == "alpha":
+                canvas.saveState()
+                canvas.setStrokeAlpha(op[1])
+                canvas.setFillAlpha(op[2])
+                canvas.addLiteral(op[3])
+                canvas.restoreState()
+            else:
+                self._image(*op[1:])
+        canvas.restoreState()
+
+    def _image(self, x: float, y: float, width: float, height: float, pixels: Any,
+               clip: str) -> None:
+        from PIL import Image
+        from reportlab.lib.utils import ImageReader
+
+        canvas = self.canv
+        canvas.saveState()
+        if clip:
+            canvas.addLiteral(clip)
+        canvas.drawImage(ImageReader(Image.fromarray(pixels, "RGBA")), x, y, width, height,
+                         mask="auto")
+        canvas.restoreState()
