@@ -35,7 +35,6 @@ from reportlab.platypus import (
     Table,
     TableStyle,
 )
-from reportlab.platypus.tableofcontents import TableOfContents
 
 from calcreport.report import style
 from calcreport.report.mathtext import Equation
@@ -472,10 +471,7 @@ class _Report:
         return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
 
     def contents(self) -> list[Flowable]:
-        toc = TableOfContents()
-        toc.levelStyles = self.s.toc
-        toc.dotsMinLevel = 0
-        return [Paragraph("Contents", self.s.h1), toc]
+        return [Paragraph("Contents", self.s.h1), _ContentsMark()]
 
     def at_a_glance(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("The system at a glance")]
@@ -817,19 +813,39 @@ class _Report:
         return out
 
 
+class _ContentsMark(Flowable):
+    """Where the contents list starts; the canvas writes it once every page is known."""
+
+    def wrap(self, available_width: float, available_height: float) -> tuple[float, float]:
+        return available_width, 0.0
+
+    def draw(self) -> None:
+        x, y = self.canv.absolutePosition(0, 0)
+        self.canv._contents_at = (self.canv.getPageNumber(), x, y)
+
+
 class _Doc(BaseDocTemplate):
+    """Collects every heading with its page, for the outline and the contents page."""
+
+    def __init__(self, *args: Any, **kwargs: Any) -> None:
+        super().__init__(*args, **kwargs)
+        self.headings: list[tuple[int, str, int, str]] = []
+
     def afterFlowable(self, flowable: Flowable) -> None:
         toc = getattr(flowable, "_toc", None)
         if toc is not None:
             level, label = toc
-            key = f"s{id(flowable)}"
+            key = f"h{len(self.headings)}"
             self.canv.bookmarkPage(key)
             self.canv.addOutlineEntry(label, key, level=level, closed=level > 0)
-            self.notify("TOCEntry", (level, escape(label), self.page, key))
+            self.headings.append((level, label, self.page, key))
 
 
-def _canvas_maker(project: dict[str, Any], status: str) -> Callable[..., rl_canvas.Canvas]:
-    """A canvas that draws the title block with 'Page N of M' once the count is known."""
+def _canvas_maker(
+    project: dict[str, Any], status: str, headings: list[tuple[int, str, int, str]]
+) -> Callable[..., rl_canvas.Canvas]:
+    """A canvas that draws, once every page is laid out, the title block with 'Page N of
+    M' on each page and the contents list with page numbers: one build pass suffices."""
 
     class TitleBlockCanvas(rl_canvas.Canvas):
         def __init__(self, *args: Any, **kwargs: Any) -> None:
@@ -843,11 +859,38 @@ def _canvas_maker(project: dict[str, Any], status: str) -> Callable[..., rl_canv
 
         def save(self) -> None:
             total = len(self._pages)
+            contents = self.__dict__.get("_contents_at")
             for state in self._pages:
                 self.__dict__.update(state)
                 self._title_block(total)
+                if contents and contents[0] == self._pageNumber:
+                    self._contents(contents[1], contents[2])
                 super().showPage()
             super().save()
+
+        def _contents(self, x: float, y: float) -> None:
+            width, _ = self._pagesize
+            right = width - style.PAGE["margin_right"]
+            for level, label, page, key in headings:
+                size = 9.5 if level == 0 else 8.6
+                indent = 0.0 if level == 0 else 14.0
+                y -= 15.0 if level == 0 else 12.5
+                font = "DejaVu-Bold" if level == 0 else "DejaVu"
+                self.setFont(font, size)
+                self.setFillColor(style.INK)
+                self.drawString(x + indent, y, label)
+                number = str(page)
+                start = x + indent + self.stringWidth(label, font, size) + 4
+                end = right - self.stringWidth(number, font, size) - 4
+                dots = int((end - start) / self.stringWidth(". ", "DejaVu", size))
+                if dots > 0:
+                    self.setFont("DejaVu", size)
+                    self.setFillColor(style.RULE)
+                    self.drawRightString(end, y, ". " * dots)
+                self.setFont(font, size)
+                self.setFillColor(style.INK)
+                self.drawRightString(right, y, number)
+                self.linkRect("", key, (x, y - 2, right, y + size), relative=0, thickness=0)
 
         def _title_block(self, total: int) -> None:
             width, height = self._pagesize
@@ -915,5 +958,6 @@ def render_pdf(trace: dict[str, Any], input_text: str, figures: dict[str, Any]) 
     )
     frame = Frame(doc.leftMargin, doc.bottomMargin, doc.width, doc.height, id="body")
     doc.addPageTemplates([PageTemplate("cover", [frame]), PageTemplate("body", [frame])])
-    doc.multiBuild(report.story(), canvasmaker=_canvas_maker(project, trace["status"]["value"]))
+    doc.build(report.story(),
+              canvasmaker=_canvas_maker(project, trace["status"]["value"], doc.headings))
     return buffer.getvalue()
