@@ -11,12 +11,12 @@ import sys
 import matplotlib
 
 matplotlib.use("Agg")
-import numpy as np  # noqa: E402
-import pint  # noqa: E402
-from matplotlib.figure import Figure  # noqa: E402
-from reportlab.lib.pagesizes import A4  # noqa: E402
-from reportlab.lib.utils import ImageReader  # noqa: E402
-from reportlab.pdfgen import canvas  # noqa: E402
+import numpy as np
+import pint
+from matplotlib.figure import Figure
+from reportlab.lib.pagesizes import A4
+from reportlab.lib.utils import ImageReader
+from reportlab.pdfgen import canvas
 
 
 def main(out: str) -> None:

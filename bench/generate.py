@@ -71,9 +71,15 @@ def system(segments: int, segment_length: float = 60.0) -> str:
     parts = [HEAD.format(n=segments, top=119.7 + rise * segments + 2.0)]
     for i in range(1, segments + 1):
         last = i == segments
-        parts.append(SEGMENT.format(
-            i=i, length=segment_length, z0=119.7 + rise * (i - 1), z1=119.7 + rise * i,
-            exit=', { K = 1.0, note = "exit" }' if last else ""))
+        parts.append(
+            SEGMENT.format(
+                i=i,
+                length=segment_length,
+                z0=119.7 + rise * (i - 1),
+                z1=119.7 + rise * i,
+                exit=', { K = 1.0, note = "exit" }' if last else "",
+            )
+        )
     return "".join(parts)
 
 

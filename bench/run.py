@@ -53,8 +53,7 @@ def main() -> None:
         "build demo": ([py, "-m", "calcreport", "build", str(DEMO), "-o", str(work)], 2.5),
         "solve --json demo": ([py, "-m", "calcreport", "solve", str(DEMO), "--json"], 0.7),
         "build 40 pipes": ([py, "-m", "calcreport", "build", str(big40), "-o", str(work)], 4.0),
-        "solve --json 500 pipes": ([py, "-m", "calcreport", "solve", str(big500), "--json"],
-                                   1.0),
+        "solve --json 500 pipes": ([py, "-m", "calcreport", "solve", str(big500), "--json"], 1.0),
     }
     times: dict[str, list[float]] = {name: [] for name in rows}
     memory: dict[str, list[float]] = {name: [] for name in rows}
@@ -74,13 +73,17 @@ def main() -> None:
         failed |= not ok
         span = f"{min(times[name]):.2f}–{max(times[name]):.2f}"
         goal = "" if target is None else f"≤{target:g}"
-        print(f"{name:<24}{med:>10.3f}{span:>16}{ratio:>8.2f}{goal:>8}"
-              f"{statistics.median(memory[name]):>10.0f}{'' if ok else '  OVER'}")
+        print(
+            f"{name:<24}{med:>10.3f}{span:>16}{ratio:>8.2f}{goal:>8}"
+            f"{statistics.median(memory[name]):>10.0f}{'' if ok else '  OVER'}"
+        )
     demo_mem = statistics.median(memory["build demo"]) / floor_mem
     print(f"{'peak memory, demo build':<24}{'':>10}{'':>16}{demo_mem:>8.2f}{'≤2':>8}")
     failed |= demo_mem > 2.0
-    print(f"\n{args.runs} interleaved rounds; ratios are to the floor's median "
-          f"({floor:.3f} s, {floor_mem:.0f} MiB).")
+    print(
+        f"\n{args.runs} interleaved rounds; ratios are to the floor's median "
+        f"({floor:.3f} s, {floor_mem:.0f} MiB)."
+    )
     raise SystemExit(1 if failed else 0)
 
 

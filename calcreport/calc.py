@@ -114,8 +114,10 @@ def solve(model: Model) -> Trace:
     found = checks.governing(found) + checks.once(model, results)
     status = _status(model, results, found)
     if "shaft_power" not in results:
-        notes.append("Shaft power is not computed: no pump efficiency is given (pump.efficiency "
-                     "or the curve's efficiency).")
+        notes.append(
+            "Shaft power is not computed: no pump efficiency is given (pump.efficiency "
+            "or the curve's efficiency)."
+        )
     if "electrical_power" not in results and "shaft_power" in results:
         notes.append("Electrical power is not computed: motor.efficiency is not given.")
     used = {s.reference for s in b.steps} | {c.reference for c in found} | {"input"}
@@ -148,16 +150,22 @@ def solve(model: Model) -> Trace:
 
 def _status(model: Model, results: dict[str, Any], found: list[Check]) -> dict[str, str]:
     if model.pump.curve is None:
-        return {"value": "preliminary",
-                "reason": "pump not selected: no pump curve is given, so the operating point, "
-                "NPSH required and motor rating are not determined"}
+        return {
+            "value": "preliminary",
+            "reason": "pump not selected: no pump curve is given, so the operating point, "
+            "NPSH required and motor rating are not determined",
+        }
     if "operating_point" not in results:
-        return {"value": "not feasible",
-                "reason": "the pump curve does not meet the system curve in the design case"}
+        return {
+            "value": "not feasible",
+            "reason": "the pump curve does not meet the system curve in the design case",
+        }
     if any(c.status == "fail" for c in found):
         return {"value": "does not comply", "reason": "one or more design checks fail"}
-    return {"value": "for checking", "reason": "pump curve given; every check is a pass or "
-            "marked for review"}
+    return {
+        "value": "for checking",
+        "reason": "pump curve given; every check is a pass or marked for review",
+    }
 
 
 def _cases(model: Model) -> list[Case]:
@@ -166,17 +174,34 @@ def _cases(model: Model) -> list[Case]:
     npsh_level = src.level_low or src.level
 
     def case(ident: str, title: str, source: Given, destination: Given) -> Case:
-        return Case(id=ident, title=title, flow=model.flow, source_level=source,
-                    npsh_level=npsh_level,
-                    destination_level=_destination_elevation(model, destination))
+        return Case(
+            id=ident,
+            title=title,
+            flow=model.flow,
+            source_level=source,
+            npsh_level=npsh_level,
+            destination_level=_destination_elevation(model, destination),
+        )
 
     cases = [case("C1", "Design: normal levels, new pipe", src.level, dst.level)]
     if src.level_low or dst.level_high:
-        cases.append(case("C2", "Highest static head: source low, destination high",
-                          src.level_low or src.level, dst.level_high or dst.level))
+        cases.append(
+            case(
+                "C2",
+                "Highest static head: source low, destination high",
+                src.level_low or src.level,
+                dst.level_high or dst.level,
+            )
+        )
     if src.level_high or dst.level_low:
-        cases.append(case("C3", "Lowest static head: source high, destination low",
-                          src.level_high or src.level, dst.level_low or dst.level))
+        cases.append(
+            case(
+                "C3",
+                "Lowest static head: source high, destination low",
+                src.level_high or src.level,
+                dst.level_low or dst.level,
+            )
+        )
     return cases
 
 
@@ -200,17 +225,45 @@ def _pump_curve(b: TraceBuilder, model: Model) -> CurvePoints | None:
     flow, head, npsh = list(curve.flow), list(curve.head), list(curve.npsh_required)
     n = model.pump.speed
     if n is not None and curve.speed is not None and n.value != curve.speed.value:
-        b.assume("The pump curve is moved to the operating speed by the affinity laws "
-                 "(Q ∝ n, H ∝ n²); efficiency is taken unchanged at corresponding points; "
-                 "NPSH required ∝ n² is an approximation.")
+        b.assume(
+            "The pump curve is moved to the operating speed by the affinity laws "
+            "(Q ∝ n, H ∝ n²); efficiency is taken unchanged at corresponding points; "
+            "NPSH required ∝ n² is an approximation."
+        )
         n0 = curve.speed
-        flow = [b.step(f"pump.at_speed.flow[{i}]", f"Curve flow {i} at the operating speed",
-                       pump.affinity_flow, Q0=q, n=n, n0=n0) for i, q in enumerate(flow, 1)]
-        head = [b.step(f"pump.at_speed.head[{i}]", f"Curve head {i} at the operating speed",
-                       pump.affinity_head, H0=h, n=n, n0=n0) for i, h in enumerate(head, 1)]
-        npsh = [b.step(f"pump.at_speed.npsh_required[{i}]", f"Curve NPSHr {i} at the operating "
-                       "speed", pump.affinity_head, H0=h, n=n, n0=n0)
-                for i, h in enumerate(npsh, 1)]
+        flow = [
+            b.step(
+                f"pump.at_speed.flow[{i}]",
+                f"Curve flow {i} at the operating speed",
+                pump.affinity_flow,
+                Q0=q,
+                n=n,
+                n0=n0,
+            )
+            for i, q in enumerate(flow, 1)
+        ]
+        head = [
+            b.step(
+                f"pump.at_speed.head[{i}]",
+                f"Curve head {i} at the operating speed",
+                pump.affinity_head,
+                H0=h,
+                n=n,
+                n0=n0,
+            )
+            for i, h in enumerate(head, 1)
+        ]
+        npsh = [
+            b.step(
+                f"pump.at_speed.npsh_required[{i}]",
+                f"Curve NPSHr {i} at the operating speed",
+                pump.affinity_head,
+                H0=h,
+                n=n,
+                n0=n0,
+            )
+            for i, h in enumerate(npsh, 1)
+        ]
     return CurvePoints(flow, head, list(curve.efficiency), npsh)
 
 
@@ -245,123 +298,222 @@ def _solve_case(
         results["pump_curve"] = {
             "flow": quantity(curve.values("flow"), "m^3/s"),
             "head": quantity(curve.values("head"), "m"),
-            **({"efficiency": quantity(curve.values("efficiency"), "")}
-               if curve.efficiency else {}),
-            **({"npsh_required": quantity(curve.values("npsh_required"), "m")}
-               if curve.npsh_required else {}),
+            **(
+                {"efficiency": quantity(curve.values("efficiency"), "")} if curve.efficiency else {}
+            ),
+            **(
+                {"npsh_required": quantity(curve.values("npsh_required"), "m")}
+                if curve.npsh_required
+                else {}
+            ),
         }
     return results
 
 
-def _system_curve(model: Model, case: Case, liquid: Liquid,
-                  surfaces: tuple[Given, Given, Given, Given | None],
-                  curve: CurvePoints | None) -> dict[str, Any]:
+def _system_curve(
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    curve: CurvePoints | None,
+) -> dict[str, Any]:
     low, high = _flow_span(model)
     if curve is not None:
         high = max(high, curve.values("flow")[-1])
     flows = np.linspace(low, high, CURVE_POINTS)
-    sweep = _hydraulics(_Sweep(), model, case, liquid, surfaces,
-                        flow=Given(flows, "m^3/s", "flow_range"))  # type: ignore[arg-type]
+    sweep = _hydraulics(
+        _Sweep(), model, case, liquid, surfaces, flow=Given(flows, "m^3/s", "flow_range")
+    )  # type: ignore[arg-type]
     shape = flows.shape  # terms that do not depend on flow come back as scalars
     return {
         "flow": quantity(flows.tolist(), "m^3/s"),
         "head": quantity(np.broadcast_to(sweep["tdh"].value, shape).tolist(), "m"),
         "npsh_available": quantity(
-            np.broadcast_to(sweep["npsh_available"].value, shape).tolist(), "m"),
+            np.broadcast_to(sweep["npsh_available"].value, shape).tolist(), "m"
+        ),
     }
 
 
-def _duty_point(model: Model, case: Case, liquid: Liquid,
-                surfaces: tuple[Given, Given, Given, Given | None]) -> dict[str, Any]:
+def _duty_point(
+    model: Model, case: Case, liquid: Liquid, surfaces: tuple[Given, Given, Given, Given | None]
+) -> dict[str, Any]:
     """The system's head and NPSHa at the required flow (the same equations, not steps)."""
-    at = _hydraulics(_Sweep(), model, case, liquid, surfaces,
-                     flow=Given(np.array([model.flow.value]), "m^3/s", "duty.flow"))
+    at = _hydraulics(
+        _Sweep(),
+        model,
+        case,
+        liquid,
+        surfaces,
+        flow=Given(np.array([model.flow.value]), "m^3/s", "duty.flow"),
+    )
     return {
         "flow": _q(model.flow),
         "head": quantity(float(np.asarray(at["tdh"].value).ravel()[0]), "m"),
-        "npsh_available": quantity(float(np.asarray(at["npsh_available"].value).ravel()[0]),
-                                   "m"),
+        "npsh_available": quantity(float(np.asarray(at["npsh_available"].value).ravel()[0]), "m"),
     }
 
 
-def _operating_flow(b: TraceBuilder, model: Model, case: Case, liquid: Liquid,
-                    surfaces: tuple[Given, Given, Given, Given | None], curve: CurvePoints,
-                    notes: list[str]) -> Given | None:
+def _operating_flow(
+    b: TraceBuilder,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    curve: CurvePoints,
+    notes: list[str],
+) -> Given | None:
     flows, heads = curve.values("flow"), curve.values("head")
 
     def difference(q: np.ndarray) -> np.ndarray:
-        system = _hydraulics(_Sweep(), model, case, liquid, surfaces,
-                             flow=Given(q, "m^3/s", "solver"))  # type: ignore[arg-type]
+        system = _hydraulics(
+            _Sweep(), model, case, liquid, surfaces, flow=Given(q, "m^3/s", "solver")
+        )  # type: ignore[arg-type]
         return np.asarray(pump.monotone_cubic(flows, heads, q)) - np.asarray(system["tdh"].value)
 
     Q = pump.operating_point(difference, flows[0], flows[-1])
     if Q is None:
         ends = difference(np.array([flows[0], flows[-1]]))
-        why = ("the pump cannot reach the system head anywhere on its curve (shutoff head "
-               "below the system head)" if ends[0] < 0 else
-               "the system curve stays below the pump curve up to the end of the curve: the "
-               "pump would run out beyond its last curve point")
+        why = (
+            "the pump cannot reach the system head anywhere on its curve (shutoff head "
+            "below the system head)"
+            if ends[0] < 0
+            else "the system curve stays below the pump curve up to the end of the curve: the "
+            "pump would run out beyond its last curve point"
+        )
         notes.append(f"Case {case.id}: no operating point: {why}.")
         return None
-    found = b.solution(case.sid("solver.operating_flow"), Q, "m^3/s",
-                       "bracketed root of H_pump(Q) − H_system(Q), Illinois method")
-    return b.step(case.sid("pump.operating_flow"), "Operating flow (pump and system curves meet)",
-                  pump.solved_flow, case.id, Q=found)
+    found = b.solution(
+        case.sid("solver.operating_flow"),
+        Q,
+        "m^3/s",
+        "bracketed root of H_pump(Q) − H_system(Q), Illinois method",
+    )
+    return b.step(
+        case.sid("pump.operating_flow"),
+        "Operating flow (pump and system curves meet)",
+        pump.solved_flow,
+        case.id,
+        Q=found,
+    )
 
 
-def _operating_point(b: TraceBuilder, case: Case, curve: CurvePoints,
-                     h: dict[str, Any]) -> tuple[dict[str, Any], Given | None]:
+def _operating_point(
+    b: TraceBuilder, case: Case, curve: CurvePoints, h: dict[str, Any]
+) -> tuple[dict[str, Any], Given | None]:
     sid = case.sid
     Q = case.flow
-    H = b.step(sid("pump.head"), "Pump head at the operating flow", pump.head_at, case.id,
-               Q=Q, flow=curve.flow, head=curve.head)
-    b.step(sid("pump.head_balance"), "Head balance at the operating point (zero)",
-           pump.head_balance, case.id, H_pump=H, H_system=h["tdh"])
+    H = b.step(
+        sid("pump.head"),
+        "Pump head at the operating flow",
+        pump.head_at,
+        case.id,
+        Q=Q,
+        flow=curve.flow,
+        head=curve.head,
+    )
+    b.step(
+        sid("pump.head_balance"),
+        "Head balance at the operating point (zero)",
+        pump.head_balance,
+        case.id,
+        H_pump=H,
+        H_system=h["tdh"],
+    )
     point: dict[str, Any] = {"flow": _q(Q), "head": _q(H)}
     eta = None
     if curve.efficiency:
-        eta = b.step(sid("pump.efficiency"), "Pump efficiency at the operating flow",
-                     pump.efficiency_at, case.id, Q=Q, flow=curve.flow,
-                     efficiency=curve.efficiency)
+        eta = b.step(
+            sid("pump.efficiency"),
+            "Pump efficiency at the operating flow",
+            pump.efficiency_at,
+            case.id,
+            Q=Q,
+            flow=curve.flow,
+            efficiency=curve.efficiency,
+        )
         point["efficiency"] = _q(eta)
-        q_bep, eta_bep = pump.best_efficiency_point(curve.values("flow"),
-                                                    curve.values("efficiency"))
+        q_bep, eta_bep = pump.best_efficiency_point(
+            curve.values("flow"), curve.values("efficiency")
+        )
         point["bep_flow"] = quantity(q_bep, "m^3/s")
         point["bep_efficiency"] = quantity(eta_bep, "")
         point["flow_ratio_bep"] = quantity(Q.value / q_bep, "")
     if curve.npsh_required:
-        npshr = b.step(sid("pump.npsh_required"), "NPSH required at the operating flow",
-                       pump.npsh_required_at, case.id, Q=Q, flow=curve.flow,
-                       npsh=curve.npsh_required)
-        ratio = b.step(sid("npsh.margin_ratio"), "NPSH margin ratio", pump.npsh_margin_ratio,
-                       case.id, npsha=h["npsh_available"], npshr=npshr)
-        margin = b.step(sid("npsh.margin"), "NPSH margin", pump.npsh_margin, case.id,
-                        npsha=h["npsh_available"], npshr=npshr)
+        npshr = b.step(
+            sid("pump.npsh_required"),
+            "NPSH required at the operating flow",
+            pump.npsh_required_at,
+            case.id,
+            Q=Q,
+            flow=curve.flow,
+            npsh=curve.npsh_required,
+        )
+        ratio = b.step(
+            sid("npsh.margin_ratio"),
+            "NPSH margin ratio",
+            pump.npsh_margin_ratio,
+            case.id,
+            npsha=h["npsh_available"],
+            npshr=npshr,
+        )
+        margin = b.step(
+            sid("npsh.margin"),
+            "NPSH margin",
+            pump.npsh_margin,
+            case.id,
+            npsha=h["npsh_available"],
+            npshr=npshr,
+        )
         point["npsh_required"] = _q(npshr)
         point["npsh_margin_ratio"] = _q(ratio)
         point["npsh_margin"] = _q(margin)
     return point, eta
 
 
-def _motor(b: TraceBuilder, model: Model, liquid: Liquid, curve: CurvePoints,
-           by_case: dict[str, dict[str, Any]]) -> dict[str, Any] | None:
+def _motor(
+    b: TraceBuilder,
+    model: Model,
+    liquid: Liquid,
+    curve: CurvePoints,
+    by_case: dict[str, dict[str, Any]],
+) -> dict[str, Any] | None:
     if not curve.efficiency:
         return None
-    peak = b.step("motor.peak_shaft_power", "Peak shaft power over the pump curve",
-                  power.peak_shaft_power, rho=liquid.density, flow=curve.flow, head=curve.head,
-                  efficiency=curve.efficiency)
+    peak = b.step(
+        "motor.peak_shaft_power",
+        "Peak shaft power over the pump curve",
+        power.peak_shaft_power,
+        rho=liquid.density,
+        flow=curve.flow,
+        head=curve.head,
+        efficiency=curve.efficiency,
+    )
     series, unit = ("NEMA", "hp") if model.project.units == "US" else ("IEC", "kW")
-    ratings = [b.datum(f"catalog.motor_ratings.{series}[{i}]", value, "W")
-               for i, value in enumerate(catalog.motor_ratings(series), start=1)]
+    ratings = [
+        b.datum(f"catalog.motor_ratings.{series}[{i}]", value, "W")
+        for i, value in enumerate(catalog.motor_ratings(series), start=1)
+    ]
     try:
-        rated = b.step("motor.rated_power", f"Motor rating ({series} series, {unit})",
-                       motor.standard_rating, P=peak, ratings=ratings)
+        rated = b.step(
+            "motor.rated_power",
+            f"Motor rating ({series} series, {unit})",
+            motor.standard_rating,
+            P=peak,
+            ratings=ratings,
+        )
     except ValueError:
         return {"peak_shaft_power": _q(peak)}
-    loading = {cid: quantity(r["shaft_power"]["value"] / rated.value, "")
-               for cid, r in by_case.items() if "shaft_power" in r}
-    return {"peak_shaft_power": _q(peak), "rated_power": _q(rated), "series": series,
-            "loading": loading}
+    loading = {
+        cid: quantity(r["shaft_power"]["value"] / rated.value, "")
+        for cid, r in by_case.items()
+        if "shaft_power" in r
+    }
+    return {
+        "peak_shaft_power": _q(peak),
+        "rated_power": _q(rated),
+        "series": series,
+        "loading": loading,
+    }
 
 
 def _record_inputs(b: TraceBuilder, model: Model) -> None:
@@ -744,8 +896,9 @@ def _power(
     return out
 
 
-def _results(h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model,
-             flow: Given) -> dict[str, Any]:
+def _results(
+    h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model, flow: Given
+) -> dict[str, Any]:
     pipes = {}
     for pipe in model.pipes:
         values = h["pipes"][pipe.id]

@@ -36,13 +36,22 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         return found
     point = results.get("operating_point")
     if point is None:
-        found.append(Check(
-            id="operating_point", title="Pump and system curves intersect",
-            status="fail", value=None, unit="", limit=None, comparison="exists",
-            basis="The pump runs where its curve meets the system curve; without an "
-            "intersection within the curve data the pump cannot serve this case",
-            reference="karassik_2008", case=case,
-            message="no intersection within the curve data; see the notes"))
+        found.append(
+            Check(
+                id="operating_point",
+                title="Pump and system curves intersect",
+                status="fail",
+                value=None,
+                unit="",
+                limit=None,
+                comparison="exists",
+                basis="The pump runs where its curve meets the system curve; without an "
+                "intersection within the curve data the pump cannot serve this case",
+                reference="karassik_2008",
+                case=case,
+                message="no intersection within the curve data; see the notes",
+            )
+        )
         return found
     found.append(_duty(model, point, case))
     if "npsh_required" in point:
@@ -54,13 +63,22 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
     if model.pump.min_continuous_flow is not None:
         minimum = model.pump.min_continuous_flow.value
         q = point["flow"]["value"]
-        found.append(Check(
-            id="min_continuous_flow", title="Operating flow above the minimum continuous flow",
-            status="pass" if q >= minimum else "fail", value=q, unit="m^3/s", limit=minimum,
-            comparison=">=", basis="Pump data: minimum continuous stable flow (pump.min_"
-            "continuous_flow)", reference="input", case=case,
-            message="" if q >= minimum else "the pump would run below its minimum flow",
-            margin=q - minimum))
+        found.append(
+            Check(
+                id="min_continuous_flow",
+                title="Operating flow above the minimum continuous flow",
+                status="pass" if q >= minimum else "fail",
+                value=q,
+                unit="m^3/s",
+                limit=minimum,
+                comparison=">=",
+                basis="Pump data: minimum continuous stable flow (pump.min_continuous_flow)",
+                reference="input",
+                case=case,
+                message="" if q >= minimum else "the pump would run below its minimum flow",
+                margin=q - minimum,
+            )
+        )
     return found
 
 
@@ -74,18 +92,36 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
     if "rated_power" in motor:
         rated = motor["rated_power"]["value"]
         peak = motor["peak_shaft_power"]["value"]
-        found.append(Check(
-            id="motor_non_overloading", title="Motor rating covers the whole pump curve",
-            status="pass" if rated >= peak else "fail", value=peak, unit="W", limit=rated,
-            comparison="<=", basis="Non-overloading selection: the motor rating at service "
-            "factor 1.0 is not below the largest shaft power anywhere on the pump curve",
-            reference="karassik_2008", case="all"))
+        found.append(
+            Check(
+                id="motor_non_overloading",
+                title="Motor rating covers the whole pump curve",
+                status="pass" if rated >= peak else "fail",
+                value=peak,
+                unit="W",
+                limit=rated,
+                comparison="<=",
+                basis="Non-overloading selection: the motor rating at service "
+                "factor 1.0 is not below the largest shaft power anywhere on the pump curve",
+                reference="karassik_2008",
+                case="all",
+            )
+        )
     elif "peak_shaft_power" in motor:
-        found.append(Check(
-            id="motor_non_overloading", title="Motor rating covers the whole pump curve",
-            status="fail", value=motor["peak_shaft_power"]["value"], unit="W", limit=None,
-            comparison="<=", basis="The peak shaft power exceeds the largest standard rating "
-            "in the catalogue", reference="iec_60072", case="all"))
+        found.append(
+            Check(
+                id="motor_non_overloading",
+                title="Motor rating covers the whole pump curve",
+                status="fail",
+                value=motor["peak_shaft_power"]["value"],
+                unit="W",
+                limit=None,
+                comparison="<=",
+                basis="The peak shaft power exceeds the largest standard rating in the catalogue",
+                reference="iec_60072",
+                case="all",
+            )
+        )
     return found
 
 
@@ -230,8 +266,7 @@ def _npsh_open_item(results: dict[str, Any], case: str) -> Check:
     )
 
 
-def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any],
-                 case: str) -> Check:
+def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], case: str) -> Check:
     npsha = results["npsh_available"]["value"]
     npshr = point["npsh_required"]["value"]
     ratio, basis_r, ref, project_r = _limit(model, "npsh_margin_ratio")
@@ -240,26 +275,47 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any],
     ok = npsha >= needed
     status = "pass" if ok else ("fail" if npsha <= npshr or project_r or project_m else "review")
     return Check(
-        id="npsh_margin", title="NPSH margin over NPSH required",
-        status=status, value=npsha, unit="m", limit=needed, comparison=">=",
+        id="npsh_margin",
+        title="NPSH margin over NPSH required",
+        status=status,
+        value=npsha,
+        unit="m",
+        limit=needed,
+        comparison=">=",
         basis=f"NPSHa at least the greater of {ratio:g} × NPSHr and NPSHr + {minimum:g} m. "
-        f"{basis_r}", reference=ref, case=case,
-        message="" if ok else (f"NPSHa {npsha:.3g} m against NPSHr {npshr:.3g} m"
-                               + (": the pump cavitates" if npsha <= npshr else "")),
-        margin=npsha - needed)
+        f"{basis_r}",
+        reference=ref,
+        case=case,
+        message=""
+        if ok
+        else (
+            f"NPSHa {npsha:.3g} m against NPSHr {npshr:.3g} m"
+            + (": the pump cavitates" if npsha <= npshr else "")
+        ),
+        margin=npsha - needed,
+    )
 
 
 def _duty(model: Model, point: dict[str, Any], case: str) -> Check:
     q, required = point["flow"]["value"], model.flow.value
     ok = q >= required * (1 - 1e-9)
     return Check(
-        id="duty_flow", title="Operating flow meets the required flow",
-        status="pass" if ok else "fail", value=q, unit="m^3/s", limit=required,
-        comparison=">=", basis="The operating flow of the selected pump is not below "
+        id="duty_flow",
+        title="Operating flow meets the required flow",
+        status="pass" if ok else "fail",
+        value=q,
+        unit="m^3/s",
+        limit=required,
+        comparison=">=",
+        basis="The operating flow of the selected pump is not below "
         "duty.flow; the vendor's test tolerance (ISO 9906 acceptance grade) is not included",
-        reference="input", case=case,
-        message="" if ok else f"delivers {q * 1e3:.4g} L/s of the {required * 1e3:.4g} L/s "
-        "required", margin=q - required)
+        reference="input",
+        case=case,
+        message=""
+        if ok
+        else f"delivers {q * 1e3:.4g} L/s of the {required * 1e3:.4g} L/s required",
+        margin=q - required,
+    )
 
 
 def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Check]:
@@ -272,20 +328,41 @@ def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Ch
         low, basis, ref, _ = _limit(model, "preferred_flow_low")
         high, _, _, _ = _limit(model, "preferred_flow_high")
     inside = low <= ratio <= high
-    found = [Check(
-        id="preferred_operating_region", title="Operating flow within the preferred region",
-        status="pass" if inside else "review", value=ratio, unit="", limit=None,
-        comparison=f"{low:g}–{high:g} × Q_BEP", basis=basis, reference=ref, case=case,
-        message=f"Q/Q_BEP = {ratio:.3f}", margin=min(ratio - low, high - ratio))]
+    found = [
+        Check(
+            id="preferred_operating_region",
+            title="Operating flow within the preferred region",
+            status="pass" if inside else "review",
+            value=ratio,
+            unit="",
+            limit=None,
+            comparison=f"{low:g}–{high:g} × Q_BEP",
+            basis=basis,
+            reference=ref,
+            case=case,
+            message=f"Q/Q_BEP = {ratio:.3f}",
+            margin=min(ratio - low, high - ratio),
+        )
+    ]
     if model.pump.allowable_range:
         low, high = (g.value for g in model.pump.allowable_range)
         inside = low <= ratio <= high
-        found.append(Check(
-            id="allowable_operating_region", title="Operating flow within the allowable region",
-            status="pass" if inside else "fail", value=ratio, unit="", limit=None,
-            comparison=f"{low:g}–{high:g} × Q_BEP", basis="Allowable operating region from "
-            "the pump data (pump.allowable_range)", reference="input", case=case,
-            message=f"Q/Q_BEP = {ratio:.3f}", margin=min(ratio - low, high - ratio)))
+        found.append(
+            Check(
+                id="allowable_operating_region",
+                title="Operating flow within the allowable region",
+                status="pass" if inside else "fail",
+                value=ratio,
+                unit="",
+                limit=None,
+                comparison=f"{low:g}–{high:g} × Q_BEP",
+                basis="Allowable operating region from the pump data (pump.allowable_range)",
+                reference="input",
+                case=case,
+                message=f"Q/Q_BEP = {ratio:.3f}",
+                margin=min(ratio - low, high - ratio),
+            )
+        )
     return found
 
 

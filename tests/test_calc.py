@@ -160,8 +160,14 @@ def test_high_site_lowers_npsh_available():
 
 def _all_traces():
     yield solve(loads(CASE.encode()))
-    yield solve(loads((CASE.replace("efficiency = 0.78\n", 'speed = "2800 rpm"\n')
-                       + _analytic_curve(speed='speed = "3000 rpm"\n')).encode()))
+    yield solve(
+        loads(
+            (
+                CASE.replace("efficiency = 0.78\n", 'speed = "2800 rpm"\n')
+                + _analytic_curve(speed='speed = "3000 rpm"\n')
+            ).encode()
+        )
+    )
     for path in sorted(EXAMPLES.glob("*.toml")):
         yield solve(loads(path.read_bytes(), str(path)))
 
@@ -332,16 +338,16 @@ def test_operating_point_against_check_values():
     assert op["efficiency"]["value"] == pytest.approx(0.7772, rel=2e-4)
     assert t.results["shaft_power"]["value"] == pytest.approx(10514.1, rel=2e-4)
     # Pump head equals system head at the operating point.
-    assert t.results["total_dynamic_head"]["value"] == pytest.approx(op["head"]["value"],
-                                                                     abs=1e-8)
+    assert t.results["total_dynamic_head"]["value"] == pytest.approx(op["head"]["value"], abs=1e-8)
     assert abs(t.step("pump.head_balance").value) < 1e-8
 
 
 def test_affinity_moves_the_curve_and_finds_a_new_intersection():
     # CHECK-VALUES.md section 11 [V]: at 90 % speed q 18.0178 L/s, H 30.7704 m.
     speeds = 'speed = "3000 rpm"\n'
-    text = (CASE.replace("efficiency = 0.78\n", 'speed = "2700 rpm"\n')
-            + _analytic_curve(speed=speeds))
+    text = CASE.replace("efficiency = 0.78\n", 'speed = "2700 rpm"\n') + _analytic_curve(
+        speed=speeds
+    )
     t = solve(loads(text.encode()))
     op = t.results["operating_point"]
     assert op["flow"]["value"] == pytest.approx(0.0180178, rel=1e-4)
@@ -352,7 +358,8 @@ def test_affinity_moves_the_curve_and_finds_a_new_intersection():
 def test_no_intersection_is_reported_not_crashed():
     weak = CASE.replace("efficiency = 0.78\n", "") + (
         '\n[pump.curve]\nflow = ["0 L/s", "10 L/s", "20 L/s"]\n'
-        'head = ["20 m", "18 m", "12 m"]\nefficiency = [0.0, 0.6, 0.7]\n')
+        'head = ["20 m", "18 m", "12 m"]\nefficiency = [0.0, 0.6, 0.7]\n'
+    )
     t = solve(loads(weak.encode()))
     assert "operating_point" not in t.results
     check = next(c for c in t.checks if c.id == "operating_point")
@@ -374,9 +381,9 @@ def test_motor_is_next_standard_rating_above_the_peak_power():
 
 
 def test_level_ranges_make_cases_and_checks_name_the_governing_case():
-    ranged = CASE.replace('level = "2.0 m"', 'level = "2.0 m"\nlevel_low = "0.5 m"\n'
-                          'level_high = "3.0 m"').replace(
-        'level = "25.0 m"', 'level = "25.0 m"\nlevel_high = "26.0 m"\nlevel_low = "24.0 m"')
+    ranged = CASE.replace(
+        'level = "2.0 m"', 'level = "2.0 m"\nlevel_low = "0.5 m"\nlevel_high = "3.0 m"'
+    ).replace('level = "25.0 m"', 'level = "25.0 m"\nlevel_high = "26.0 m"\nlevel_low = "24.0 m"')
     text = ranged.replace("efficiency = 0.78\n", "") + _analytic_curve()
     t = solve(loads(text.encode()))
     cases = t.results["cases"]

@@ -575,33 +575,53 @@ BAD: list[Bad] = [
     ),
     Bad(
         "pump-curve-too-short",
-        variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[pump.curve]\n'
-                 'flow = ["0 L/s", "20 L/s"]\nhead = ["40 m", "30 m"]\n')),
+        variant(
+            (
+                "efficiency = 0.71\n",
+                "efficiency = 0.71\n\n[pump.curve]\n"
+                'flow = ["0 L/s", "20 L/s"]\nhead = ["40 m", "30 m"]\n',
+            )
+        ),
         "pump.curve.flow",
         "at least 3 points",
         'flow = ["0 L/s", "20 L/s"]',
     ),
     Bad(
         "pump-curve-flow-not-increasing",
-        variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[pump.curve]\n'
-                 'flow = ["0 L/s", "20 L/s", "10 L/s"]\nhead = ["40 m", "30 m", "20 m"]\n')),
+        variant(
+            (
+                "efficiency = 0.71\n",
+                "efficiency = 0.71\n\n[pump.curve]\n"
+                'flow = ["0 L/s", "20 L/s", "10 L/s"]\nhead = ["40 m", "30 m", "20 m"]\n',
+            )
+        ),
         "pump.curve.flow",
         "increase strictly",
         'flow = ["0 L/s", "20 L/s", "10 L/s"]',
     ),
     Bad(
         "pump-curve-efficiency-above-one",
-        variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[pump.curve]\n'
-                 'flow = ["0 L/s", "10 L/s", "20 L/s"]\nhead = ["40 m", "35 m", "25 m"]\n'
-                 "efficiency = [0.0, 0.7, 1.2]\n")),
+        variant(
+            (
+                "efficiency = 0.71\n",
+                "efficiency = 0.71\n\n[pump.curve]\n"
+                'flow = ["0 L/s", "10 L/s", "20 L/s"]\nhead = ["40 m", "35 m", "25 m"]\n'
+                "efficiency = [0.0, 0.7, 1.2]\n",
+            )
+        ),
         "pump.curve.efficiency",
         "between 0 and 1",
         "efficiency = [0.0, 0.7, 1.2]",
     ),
     Bad(
         "pump-curve-length-mismatch",
-        variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[pump.curve]\n'
-                 'flow = ["0 L/s", "10 L/s", "20 L/s"]\nhead = ["40 m", "35 m"]\n')),
+        variant(
+            (
+                "efficiency = 0.71\n",
+                "efficiency = 0.71\n\n[pump.curve]\n"
+                'flow = ["0 L/s", "10 L/s", "20 L/s"]\nhead = ["40 m", "35 m"]\n',
+            )
+        ),
         "pump.curve.head",
         "one for each flow point",
         'head = ["40 m", "35 m"]',

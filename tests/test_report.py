@@ -85,9 +85,19 @@ def _contents_entries(page: str) -> list[tuple[str, str]]:
 
 def test_sections_in_reviewers_order(built):
     # DESIGN.md, "The report a checker expects": cover, summary, contents, then the body.
-    order = ["Summary", "The system at a glance", "Basis of the calculation", "Calculation",
-             "Design checks", "Charts", "Exclusions, cautions and code-deferral notes",
-             "References", "Appendix A", "Appendix B", "Appendix C"]
+    order = [
+        "Summary",
+        "The system at a glance",
+        "Basis of the calculation",
+        "Calculation",
+        "Design checks",
+        "Charts",
+        "Exclusions, cautions and code-deferral notes",
+        "References",
+        "Appendix A",
+        "Appendix B",
+        "Appendix C",
+    ]
     for _, _, pages in built.values():
         contents = next(i for i, page in enumerate(pages) if "Contents" in page)
         assert "Summary" in pages[contents - 1] and contents <= 3
@@ -144,8 +154,10 @@ def test_cautions_and_code_deferral_present(built):
 
 def test_markup_in_input_text_prints_literally(tmp_path):
     source = (EXAMPLES / "check_case.toml").read_text(encoding="utf-8")
-    hostile = source.replace('title = "Check case: two open tanks"',
-                             'title = "<b>bold</b> & <font size=40>big</font> \\u0007bell"')
+    hostile = source.replace(
+        'title = "Check case: two open tanks"',
+        'title = "<b>bold</b> & <font size=40>big</font> \\u0007bell"',
+    )
     path = tmp_path / "hostile.toml"
     path.write_text(hostile, encoding="utf-8")
     assert main(["build", str(path)]) == 0
@@ -170,7 +182,7 @@ def test_failed_build_leaves_previous_report(tmp_path, monkeypatch):
 
 def test_bad_input_writes_nothing(tmp_path):
     bad = tmp_path / "bad.toml"
-    bad.write_text("format = 1\n[duty]\nflow = \"-3 L/s\"\n", encoding="utf-8")
+    bad.write_text('format = 1\n[duty]\nflow = "-3 L/s"\n', encoding="utf-8")
     assert main(["build", str(bad)]) == 2
     assert sorted(p.name for p in tmp_path.iterdir()) == ["bad.toml"]
 

@@ -18,8 +18,8 @@ import re
 
 import pytest
 
-from calcreport.units import KINDS, UnitProblem, as_written, display_unit, parse, to_display
 from calcreport import units
+from calcreport.units import KINDS, UnitProblem, as_written, display_unit, parse, to_display
 
 # Exact definitions from which the check values are built.
 INCH = 0.0254  # m; [SP811] B.8 "inch": exact by definition
@@ -236,7 +236,8 @@ def test_fast_conversions_equal_pint(unit):
     si = KINDS_SI[kind]
     expected = q.to("turn / second" if kind == "speed" else si or "dimensionless").magnitude
     assert units.parse(f"12.5 {unit}".replace("percent", "%"), kind) == pytest.approx(
-        expected, rel=1e-14)
+        expected, rel=1e-14
+    )
     assert units.to_display(expected, units.KINDS[kind].si, unit) == pytest.approx(12.5, rel=1e-13)
 
 

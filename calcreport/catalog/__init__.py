@@ -41,6 +41,9 @@ def motor_ratings(series: str) -> tuple[float, ...]:
 
     with (_HERE / "motor_ratings.csv").open(encoding="utf-8") as handle:
         rows = csv.DictReader(line for line in handle if not line.startswith("#"))
-        values = [parse(f"{row['rating']} {row['unit']}", "power") for row in rows
-                  if row["series"] == series]
+        values = [
+            parse(f"{row['rating']} {row['unit']}", "power")
+            for row in rows
+            if row["series"] == series
+        ]
     return tuple(sorted(values))

@@ -18,6 +18,7 @@ from __future__ import annotations
 import datetime as dt
 import difflib
 import hashlib
+import itertools
 import math
 import re
 import tomllib
@@ -56,26 +57,75 @@ WATER_T_MIN = 273.16
 WATER_T_MAX = 623.15
 
 _TOP_KEYS = {
-    "format", "project", "fluid", "duty", "site", "source", "destination", "pump",
-    "motor", "drive", "operation", "pipe", "criteria",
+    "format",
+    "project",
+    "fluid",
+    "duty",
+    "site",
+    "source",
+    "destination",
+    "pump",
+    "motor",
+    "drive",
+    "operation",
+    "pipe",
+    "criteria",
 }
 _PROJECT_KEYS = {
-    "title", "client", "calc_id", "revision", "date", "prepared_by", "checked_by", "units",
+    "title",
+    "client",
+    "calc_id",
+    "revision",
+    "date",
+    "prepared_by",
+    "checked_by",
+    "units",
 }
-_FLUID_KEYS = {"kind", "temperature", "mass_fraction", "density", "viscosity",
-               "vapor_pressure", "name"}
+_FLUID_KEYS = {
+    "kind",
+    "temperature",
+    "mass_fraction",
+    "density",
+    "viscosity",
+    "vapor_pressure",
+    "name",
+}
 _VESSEL_KEYS = {"level", "level_low", "level_high", "pressure"}
 _DESTINATION_KEYS = _VESSEL_KEYS | {"inlet", "outlet_elevation"}
 _PIPE_KEYS = {
-    "id", "side", "length", "inner_diameter", "roughness", "fittings",
-    "elevation_start", "elevation_end", "nominal_size", "schedule", "material",
+    "id",
+    "side",
+    "length",
+    "inner_diameter",
+    "roughness",
+    "fittings",
+    "elevation_start",
+    "elevation_end",
+    "nominal_size",
+    "schedule",
+    "material",
 }
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow"}
 _PLANNED_PUMP_KEYS = ("count", "arrangement", "standby", "speed_range", "efficiency_basis")
-_PROVENANCE_KEYS = ("manufacturer", "model", "impeller_diameter", "curve_reference", "curve_date",
-                    "npsh_basis")
-_PUMP_KEYS = {"elevation", "efficiency", "speed", "curve", "preferred_range", "allowable_range",
-              "min_continuous_flow", *_PROVENANCE_KEYS, *_PLANNED_PUMP_KEYS}
+_PROVENANCE_KEYS = (
+    "manufacturer",
+    "model",
+    "impeller_diameter",
+    "curve_reference",
+    "curve_date",
+    "npsh_basis",
+)
+_PUMP_KEYS = {
+    "elevation",
+    "efficiency",
+    "speed",
+    "curve",
+    "preferred_range",
+    "allowable_range",
+    "min_continuous_flow",
+    *_PROVENANCE_KEYS,
+    *_PLANNED_PUMP_KEYS,
+}
 _CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required"}
 MIN_CURVE_POINTS = 3
 
@@ -115,7 +165,7 @@ class _Lines:
             if key and open_array is None:
                 path = f"{table}.{key.group(1)}" if table else key.group(1)
                 self.at.setdefault(path, number)
-                rest = code[key.end():]
+                rest = code[key.end() :]
                 element = 0
                 for _ in range(rest.count("{")):
                     element += 1
@@ -157,11 +207,15 @@ class _Reader:
 
     def count(self, prefix: str) -> int:
         """How many problems so far concern ``prefix`` or a key under it."""
-        return sum(1 for p in self.problems
-                   if p.key == prefix or p.key.startswith((f"{prefix}.", f"{prefix}[")))
+        return sum(
+            1
+            for p in self.problems
+            if p.key == prefix or p.key.startswith((f"{prefix}.", f"{prefix}["))
+        )
 
-    def table(self, data: dict[str, Any], key: str, path: str,
-              required: bool) -> dict[str, Any] | None:
+    def table(
+        self, data: dict[str, Any], key: str, path: str, required: bool
+    ) -> dict[str, Any] | None:
         """The table at ``key``; None (reported when required) if absent or not a table."""
         value = data.get(key)
         if value is None:
@@ -169,8 +223,9 @@ class _Reader:
                 self.problem(path, f"The table [{path}] is required but missing.")
             return None
         if not isinstance(value, dict):
-            self.problem(path, f"Expected a table [{path}], got {_type(value)} "
-                         f"{as_written(value)}.")
+            self.problem(
+                path, f"Expected a table [{path}], got {_type(value)} {as_written(value)}."
+            )
             return None
         return value
 
@@ -180,9 +235,13 @@ class _Reader:
                 continue
             where = f"{path}.{key}" if path else key
             close = [k for k in sorted(allowed) if k.lower() == key.lower()] or [
-                k for k in sorted(allowed)
-                if k.lower() in difflib.get_close_matches(key.lower(), [a.lower() for a in allowed],
-                                                          n=1, cutoff=0.6)]
+                k
+                for k in sorted(allowed)
+                if k.lower()
+                in difflib.get_close_matches(
+                    key.lower(), [a.lower() for a in allowed], n=1, cutoff=0.6
+                )
+            ]
             if not path and isinstance(data[key], dict | list):
                 what = f"table [{key}]"
                 hint = f"; did you mean [{close[0]}]?" if close else "."
@@ -219,8 +278,11 @@ class _Reader:
             self.problem(where, f"The value must be greater than zero; got {shown}.")
             return None
         if fraction and not 0.0 < value <= 1.0:
-            self.problem(where, f"The value must be a fraction greater than 0 and at most 1 "
-                         f'(such as 0.72 or "72 %"); got {shown}.')
+            self.problem(
+                where,
+                f"The value must be a fraction greater than 0 and at most 1 "
+                f'(such as 0.72 or "72 %"); got {shown}.',
+            )
             return None
         return Given(value, KINDS[kind].si, where)
 
@@ -237,14 +299,16 @@ class _Reader:
         if isinstance(value, dt.date | dt.time):
             value = value.isoformat()
         if not isinstance(value, str):
-            self.problem(where, f"Expected text in double quotes, got {_type(value)} "
-                         f"{as_written(value)}.")
+            self.problem(
+                where, f"Expected text in double quotes, got {_type(value)} {as_written(value)}."
+            )
             return default
         if choices is not None and value not in choices:
             close = difflib.get_close_matches(value, choices, n=1, cutoff=0.5)
             hint = f'; did you mean "{close[0]}"?' if close else "."
-            self.problem(where, f"The value {as_written(value)} is not one of "
-                         f"{_one_of(choices)}{hint}")
+            self.problem(
+                where, f"The value {as_written(value)} is not one of {_one_of(choices)}{hint}"
+            )
             return default
         return value
 
@@ -256,8 +320,9 @@ def load(path: str | Path) -> Model:
         raw = file.read_bytes()
     except OSError as exc:
         reason = (exc.strerror or type(exc).__name__).lower()
-        raise InputError([Problem("<file>", f"The input file cannot be read: {reason}.")],
-                         str(path)) from exc
+        raise InputError(
+            [Problem("<file>", f"The input file cannot be read: {reason}.")], str(path)
+        ) from exc
     return loads(raw, str(path))
 
 
@@ -266,11 +331,17 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
-        line = raw[:exc.start].count(b"\n") + 1
+        line = raw[: exc.start].count(b"\n") + 1
         raise InputError(
-            [Problem("<file>", f"The file is not UTF-8 text: byte {exc.start} (0x"
-                     f"{raw[exc.start]:02x}) cannot be decoded; save the file as UTF-8.",
-                     line)], path
+            [
+                Problem(
+                    "<file>",
+                    f"The file is not UTF-8 text: byte {exc.start} (0x"
+                    f"{raw[exc.start]:02x}) cannot be decoded; save the file as UTF-8.",
+                    line,
+                )
+            ],
+            path,
         ) from exc
     try:
         data = tomllib.loads(text)
@@ -279,8 +350,9 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
         line = int(found.group(1)) if found else None
         reason = str(exc)
         reason = reason[:1].lower() + reason[1:]
-        raise InputError([Problem("<toml>", f"The file is not valid TOML: {reason}.", line)],
-                         path) from exc
+        raise InputError(
+            [Problem("<toml>", f"The file is not valid TOML: {reason}.", line)], path
+        ) from exc
     reader = _Reader(_Lines(text))
     model = _build(reader, data, text, hashlib.sha256(raw).hexdigest(), path)
     if reader.problems:
@@ -293,8 +365,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     r.known_keys(data, "", _TOP_KEYS)
     fmt = data.get("format", FORMAT)
     if fmt != FORMAT or isinstance(fmt, bool):
-        r.problem("format", f"This version reads input format {FORMAT}; got "
-                  f"{as_written(fmt)}.")
+        r.problem("format", f"This version reads input format {FORMAT}; got {as_written(fmt)}.")
 
     project = _project(r, r.table(data, "project", "project", required=False) or {})
     fluid = _fluid(r, r.table(data, "fluid", "fluid", required=True))
@@ -311,16 +382,20 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     r.known_keys(site_data, "site", {"elevation", "station_pressure"})
     site = Site(
         elevation=r.quantity(site_data, "elevation", "site", "length"),
-        station_pressure=r.quantity(site_data, "station_pressure", "site", "pressure",
-                                    positive=True),
+        station_pressure=r.quantity(
+            site_data, "station_pressure", "site", "pressure", positive=True
+        ),
     )
     if site.elevation and site.station_pressure:
-        r.problem("site.station_pressure",
-                  "Give either site.elevation or site.station_pressure, not both.")
+        r.problem(
+            "site.station_pressure",
+            "Give either site.elevation or site.station_pressure, not both.",
+        )
 
     source = _vessel(r, r.table(data, "source", "source", required=True), "source")
-    destination = _vessel(r, r.table(data, "destination", "destination", required=True),
-                          "destination")
+    destination = _vessel(
+        r, r.table(data, "destination", "destination", required=True), "destination"
+    )
 
     pump_data = r.table(data, "pump", "pump", required=True)
     pump = _pump(r, pump_data) if pump_data is not None else None
@@ -368,8 +443,11 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
     r.known_keys(data, "pump", _PUMP_KEYS)
     for key in _PLANNED_PUMP_KEYS:
         if key in data:
-            r.problem(f"pump.{key}", f"The key pump.{key} (several pumps, speed ranges and "
-                      "wire-to-water efficiency) is not available in this version.")
+            r.problem(
+                f"pump.{key}",
+                f"The key pump.{key} (several pumps, speed ranges and "
+                "wire-to-water efficiency) is not available in this version.",
+            )
     elevation = r.quantity(data, "elevation", "pump", "length", required=True)
     efficiency = r.quantity(data, "efficiency", "pump", "dimensionless", fraction=True)
     speed = r.quantity(data, "speed", "pump", "speed", positive=True)
@@ -378,8 +456,11 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
         curve_data = r.table(data, "curve", "pump.curve", required=True)
         curve = _curve(r, curve_data) if curve_data is not None else None
     if speed and curve and curve.speed is None:
-        r.problem("pump.curve.speed", "With pump.speed given, give the speed of the curve "
-                  "data too, so the curve can be moved by the affinity laws.")
+        r.problem(
+            "pump.curve.speed",
+            "With pump.speed given, give the speed of the curve "
+            "data too, so the curve can be moved by the affinity laws.",
+        )
     if speed and not curve:
         r.problem("pump.speed", "pump.speed moves a pump curve; give [pump.curve] as well.")
     ranges = {}
@@ -390,16 +471,24 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
     minimum = r.quantity(data, "min_continuous_flow", "pump", "flow", positive=True)
     if elevation is None:
         return None
-    return Pump(elevation=elevation, efficiency=efficiency, speed=speed, curve=curve,
-                preferred_range=ranges.get("preferred_range"),
-                allowable_range=ranges.get("allowable_range"),
-                min_continuous_flow=minimum, provenance=provenance)
+    return Pump(
+        elevation=elevation,
+        efficiency=efficiency,
+        speed=speed,
+        curve=curve,
+        preferred_range=ranges.get("preferred_range"),
+        allowable_range=ranges.get("allowable_range"),
+        min_continuous_flow=minimum,
+        provenance=provenance,
+    )
 
 
 def _fraction_pair(r: _Reader, raw: Any, path: str) -> tuple[Given, Given] | None:
     if not (isinstance(raw, list) and len(raw) == 2):
-        r.problem(path, f"Expected two fractions of the BEP flow, such as [0.7, 1.2]; got "
-                  f"{as_written(raw)}.")
+        r.problem(
+            path,
+            f"Expected two fractions of the BEP flow, such as [0.7, 1.2]; got {as_written(raw)}.",
+        )
         return None
     values = []
     for i, item in enumerate(raw, start=1):
@@ -410,14 +499,18 @@ def _fraction_pair(r: _Reader, raw: Any, path: str) -> tuple[Given, Given] | Non
     if len(values) != 2:
         return None
     if not 0.0 < values[0].value < 1.0 < values[1].value:
-        r.problem(path, "Expected a range around the BEP flow: a lower fraction below 1 and "
-                  "an upper fraction above 1, such as [0.7, 1.2].")
+        r.problem(
+            path,
+            "Expected a range around the BEP flow: a lower fraction below 1 and "
+            "an upper fraction above 1, such as [0.7, 1.2].",
+        )
         return None
     return values[0], values[1]
 
 
-def _quantity_list(r: _Reader, data: dict[str, Any], key: str, path: str, kind: str) -> tuple[
-        Given, ...] | None:
+def _quantity_list(
+    r: _Reader, data: dict[str, Any], key: str, path: str, kind: str
+) -> tuple[Given, ...] | None:
     """An array of quantities: strings with units, or { unit = "...", values = [...] }."""
     where = f"{path}.{key}"
     raw = data.get(key)
@@ -428,16 +521,20 @@ def _quantity_list(r: _Reader, data: dict[str, Any], key: str, path: str, kind: 
         r.known_keys(raw, where, {"unit", "values"})
         unit, raw = raw.get("unit"), raw.get("values")
         if not isinstance(unit, str) and kind != "dimensionless":
-            r.problem(where, 'Give the unit of the values, such as { unit = "L/s", '
-                      "values = [0, 8, 16] }.")
+            r.problem(
+                where, 'Give the unit of the values, such as { unit = "L/s", values = [0, 8, 16] }.'
+            )
             return None
     if not isinstance(raw, list) or not raw:
         r.problem(where, f"Expected an array of values; got {as_written(raw)}.")
         return None
     values = []
     for i, item in enumerate(raw, start=1):
-        text = f"{item} {unit}" if unit and isinstance(item, int | float) and not isinstance(
-            item, bool) else item
+        text = (
+            f"{item} {unit}"
+            if unit and isinstance(item, int | float) and not isinstance(item, bool)
+            else item
+        )
         try:
             values.append(Given(parse(text, kind), KINDS[kind].si, f"{where}[{i}]"))
         except UnitProblem as exc:
@@ -460,16 +557,20 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
         return None
     count = len(flow)
     if count < MIN_CURVE_POINTS:
-        r.problem(f"{path}.flow", f"A pump curve needs at least {MIN_CURVE_POINTS} points; "
-                  f"got {count}.")
+        r.problem(
+            f"{path}.flow", f"A pump curve needs at least {MIN_CURVE_POINTS} points; got {count}."
+        )
     for key, series in (("head", head), ("efficiency", efficiency), ("npsh_required", npsh)):
         if series is not None and len(series) != count:
-            r.problem(f"{path}.{key}", f"Expected {count} values, one for each flow point; "
-                      f"got {len(series)}.")
+            r.problem(
+                f"{path}.{key}",
+                f"Expected {count} values, one for each flow point; got {len(series)}.",
+            )
     flows = [q.value for q in flow]
-    if flows[0] < 0.0 or any(b <= a for a, b in zip(flows, flows[1:], strict=False)):
-        r.problem(f"{path}.flow", "The flow points must start at zero or more and increase "
-                  "strictly.")
+    if flows[0] < 0.0 or any(b <= a for a, b in itertools.pairwise(flows)):
+        r.problem(
+            f"{path}.flow", "The flow points must start at zero or more and increase strictly."
+        )
     if any(h.value <= 0.0 for h in head):
         r.problem(f"{path}.head", "Every head point must be greater than zero.")
     if efficiency is not None and any(not 0.0 <= e.value <= 1.0 for e in efficiency):
@@ -478,15 +579,19 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
         r.problem(f"{path}.efficiency", "The efficiency curve has no positive value.")
     if npsh is not None and any(n.value <= 0.0 for n in npsh):
         r.problem(f"{path}.npsh_required", "Every NPSH required must be greater than zero.")
-    return PumpCurve(speed=speed, flow=flow, head=head, efficiency=efficiency or (),
-                     npsh_required=npsh or ())
+    return PumpCurve(
+        speed=speed, flow=flow, head=head, efficiency=efficiency or (), npsh_required=npsh or ()
+    )
 
 
 def _project(r: _Reader, data: dict[str, Any]) -> Project:
     r.known_keys(data, "project", _PROJECT_KEYS)
     defaults = Project()
-    values = {key: r.text(data, key, "project", getattr(defaults, key))
-              for key in _PROJECT_KEYS if key != "units"}
+    values = {
+        key: r.text(data, key, "project", getattr(defaults, key))
+        for key in _PROJECT_KEYS
+        if key != "units"
+    }
     units = r.text(data, "units", "project", "SI", UNIT_SYSTEMS)
     return Project(units=units, **values)
 
@@ -497,32 +602,47 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
     r.known_keys(data, "fluid", _FLUID_KEYS)
     kind = data.get("kind", "water")
     if kind in PLANNED_FLUIDS:
-        r.problem("fluid.kind", f'The fluid "{kind}" is not available in this version; use '
-                  '"water", or "custom" with density, viscosity and vapor_pressure.')
+        r.problem(
+            "fluid.kind",
+            f'The fluid "{kind}" is not available in this version; use '
+            '"water", or "custom" with density, viscosity and vapor_pressure.',
+        )
         return None
     kind = r.text(data, "kind", "fluid", "water", FLUID_KINDS)
     temperature = r.quantity(data, "temperature", "fluid", "temperature", required=True)
     if temperature and kind == "water" and not WATER_T_MIN <= temperature.value <= WATER_T_MAX:
-        r.problem("fluid.temperature",
-                  "Liquid water is computed from 0.01 degC to 350 degC; got "
-                  f"{as_written(data['temperature'])}.")
+        r.problem(
+            "fluid.temperature",
+            "Liquid water is computed from 0.01 degC to 350 degC; got "
+            f"{as_written(data['temperature'])}.",
+        )
     custom = {
         key: r.quantity(data, key, "fluid", kind_, required=(kind == "custom"), positive=True)
-        for key, kind_ in (("density", "density"), ("viscosity", "viscosity"),
-                           ("vapor_pressure", "pressure"))
+        for key, kind_ in (
+            ("density", "density"),
+            ("viscosity", "viscosity"),
+            ("vapor_pressure", "pressure"),
+        )
     }
     if kind == "water":
         for key in custom:
             if key in data:
-                r.problem(f"fluid.{key}", "Water properties come from IAPWS; give fluid."
-                          f'{key} only with kind = "custom".')
+                r.problem(
+                    f"fluid.{key}",
+                    "Water properties come from IAPWS; give fluid."
+                    f'{key} only with kind = "custom".',
+                )
     if "mass_fraction" in data:
-        r.problem("fluid.mass_fraction", "The key mass_fraction applies to glycol solutions, "
-                  "which are not available in this version.")
+        r.problem(
+            "fluid.mass_fraction",
+            "The key mass_fraction applies to glycol solutions, "
+            "which are not available in this version.",
+        )
     if temperature is None:
         return None
-    return Fluid(kind=kind, temperature=temperature, name=r.text(data, "name", "fluid", ""),
-                 **custom)
+    return Fluid(
+        kind=kind, temperature=temperature, name=r.text(data, "name", "fluid", ""), **custom
+    )
 
 
 def _flow_range(r: _Reader, duty: dict[str, Any], flow: Given | None) -> tuple[Given, Given] | None:
@@ -530,8 +650,10 @@ def _flow_range(r: _Reader, duty: dict[str, Any], flow: Given | None) -> tuple[G
         return None
     raw = duty["flow_range"]
     if not isinstance(raw, list) or len(raw) != 2:
-        r.problem("duty.flow_range", 'Expected an array of two flows, such as '
-                  f'["0 L/s", "35 L/s"]; got {as_written(raw)}.')
+        r.problem(
+            "duty.flow_range",
+            f'Expected an array of two flows, such as ["0 L/s", "35 L/s"]; got {as_written(raw)}.',
+        )
         return None
     ends = []
     for i, value in enumerate(raw):
@@ -543,8 +665,10 @@ def _flow_range(r: _Reader, duty: dict[str, Any], flow: Given | None) -> tuple[G
         return None
     low, high = ends
     if low.value < 0.0 or high.value <= low.value:
-        r.problem("duty.flow_range", "The first flow must be zero or more and the second "
-                  "greater than the first.")
+        r.problem(
+            "duty.flow_range",
+            "The first flow must be zero or more and the second greater than the first.",
+        )
         return None
     if flow and not low.value <= flow.value <= high.value:
         r.problem("duty.flow_range", "The range must contain duty.flow.")
@@ -568,20 +692,32 @@ def _vessel(r: _Reader, data: dict[str, Any] | None, role: str) -> Vessel | None
     pressure = None
     if not saturation:
         pressure = r.quantity(data, "pressure", role, "pressure") or Given(
-            0.0, "Pa", f"{role}.pressure")
+            0.0, "Pa", f"{role}.pressure"
+        )
     inlet = r.text(data, "inlet", role, "submerged", INLETS) if role == "destination" else ""
     outlet = r.quantity(data, "outlet_elevation", role, "length") if role == "destination" else None
     if inlet == "free" and outlet is None and "outlet_elevation" not in data:
-        r.problem(f"{role}.outlet_elevation",
-                  'A free discharge (inlet = "free") needs the outlet centreline elevation; '
-                  'give outlet_elevation, such as "24 m".')
+        r.problem(
+            f"{role}.outlet_elevation",
+            'A free discharge (inlet = "free") needs the outlet centreline elevation; '
+            'give outlet_elevation, such as "24 m".',
+        )
     if inlet == "submerged" and outlet is not None:
-        r.problem(f"{role}.outlet_elevation", 'The key outlet_elevation applies only to '
-                  'inlet = "free".')
+        r.problem(
+            f"{role}.outlet_elevation", 'The key outlet_elevation applies only to inlet = "free".'
+        )
     if level is None:
         return None
-    return Vessel(role=role, level=level, level_low=low, level_high=high, pressure=pressure,
-                  saturation=saturation, inlet=inlet or "submerged", outlet_elevation=outlet)
+    return Vessel(
+        role=role,
+        level=level,
+        level_low=low,
+        level_high=high,
+        pressure=pressure,
+        saturation=saturation,
+        inlet=inlet or "submerged",
+        outlet_elevation=outlet,
+    )
 
 
 def _operation(r: _Reader, data: dict[str, Any]) -> Operation:
@@ -617,93 +753,146 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
         if not ident.strip():
             r.problem(f"{path}.id", "The pipe id must not be empty.")
         elif ident in seen:
-            r.problem(f"{path}.id", f'The pipe id "{ident}" is already used by {seen[ident]}; '
-                      "give each pipe its own id.")
+            r.problem(
+                f"{path}.id",
+                f'The pipe id "{ident}" is already used by {seen[ident]}; '
+                "give each pipe its own id.",
+            )
         else:
             seen[ident] = path
         side = r.text(data, "side", path, "discharge", SIDES)
         if "side" not in data:
-            r.problem(f"{path}.side", 'The required key side is missing; give "suction" or '
-                      '"discharge".')
+            r.problem(
+                f"{path}.side", 'The required key side is missing; give "suction" or "discharge".'
+            )
         for key in ("nominal_size", "schedule", "material"):
             if key in data:
-                r.problem(f"{path}.{key}", "Catalog pipe sizes and materials are not available "
-                          "in this version; give inner_diameter and roughness.")
+                r.problem(
+                    f"{path}.{key}",
+                    "Catalog pipe sizes and materials are not available "
+                    "in this version; give inner_diameter and roughness.",
+                )
         length = r.quantity(data, "length", path, "length", required=True, positive=True)
-        diameter = r.quantity(data, "inner_diameter", path, "diameter",
-                              required="nominal_size" not in data, positive=True)
-        roughness = r.quantity(data, "roughness", path, "roughness",
-                               required="material" not in data)
+        diameter = r.quantity(
+            data,
+            "inner_diameter",
+            path,
+            "diameter",
+            required="nominal_size" not in data,
+            positive=True,
+        )
+        roughness = r.quantity(
+            data, "roughness", path, "roughness", required="material" not in data
+        )
         if roughness and roughness.value < 0.0:
-            r.problem(f"{path}.roughness", "The roughness must not be negative; got "
-                      f"{as_written(data['roughness'])}.")
+            r.problem(
+                f"{path}.roughness",
+                f"The roughness must not be negative; got {as_written(data['roughness'])}.",
+            )
             roughness = None
         elif roughness and diameter and roughness.value >= diameter.value:
-            r.problem(f"{path}.roughness", "The roughness must be smaller than the inner "
-                      f"diameter ({as_written(data['inner_diameter'])}); got "
-                      f"{as_written(data['roughness'])}.")
+            r.problem(
+                f"{path}.roughness",
+                "The roughness must be smaller than the inner "
+                f"diameter ({as_written(data['inner_diameter'])}); got "
+                f"{as_written(data['roughness'])}.",
+            )
         fittings = _fittings(r, data.get("fittings", []), path)
         start = r.quantity(data, "elevation_start", path, "length")
         end = r.quantity(data, "elevation_end", path, "length")
         if ("elevation_start" in data) != ("elevation_end" in data):
-            r.problem(f"{path}.elevation_end" if "elevation_start" in data
-                      else f"{path}.elevation_start",
-                      "Give both elevation_start and elevation_end, or neither.")
+            r.problem(
+                f"{path}.elevation_end" if "elevation_start" in data else f"{path}.elevation_start",
+                "Give both elevation_start and elevation_end, or neither.",
+            )
         if length and diameter and roughness and "side" in data:
-            pipes.append(Pipe(key=path, id=ident, side=side, length=length,
-                              inner_diameter=diameter, roughness=roughness,
-                              fittings=fittings, elevation_start=start, elevation_end=end))
+            pipes.append(
+                Pipe(
+                    key=path,
+                    id=ident,
+                    side=side,
+                    length=length,
+                    inner_diameter=diameter,
+                    roughness=roughness,
+                    fittings=fittings,
+                    elevation_start=start,
+                    elevation_end=end,
+                )
+            )
     sides = [p.side for p in pipes]
     if "discharge" in sides:
         first_discharge = sides.index("discharge")
-        for pipe in pipes[first_discharge + 1:]:
+        for pipe in pipes[first_discharge + 1 :]:
             if pipe.side == "suction":
-                r.problem(pipe.key + ".side",
-                          f'The suction pipe "{pipe.id}" is listed after the discharge pipe '
-                          f'"{pipes[first_discharge].id}"; list the pipes in flow order, '
-                          "every suction pipe before the first discharge pipe.")
+                r.problem(
+                    pipe.key + ".side",
+                    f'The suction pipe "{pipe.id}" is listed after the discharge pipe '
+                    f'"{pipes[first_discharge].id}"; list the pipes in flow order, '
+                    "every suction pipe before the first discharge pipe.",
+                )
     return tuple(pipes)
 
 
 def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
     path = f"{pipe_path}.fittings"
     if not isinstance(raw, list):
-        r.problem(path, "Expected an array of inline tables, such as "
-                  f"[{{ K = 0.5, count = 1 }}]; got {_type(raw)} {as_written(raw)}.")
+        r.problem(
+            path,
+            "Expected an array of inline tables, such as "
+            f"[{{ K = 0.5, count = 1 }}]; got {_type(raw)} {as_written(raw)}.",
+        )
         return ()
     items = []
     for index, data in enumerate(raw, start=1):
         where = f"{path}[{index}]"
         if not isinstance(data, dict):
-            r.problem(where, "Expected an inline table such as { K = 0.5, count = 1 }; got "
-                      f"{_type(data)} {as_written(data)}.")
+            r.problem(
+                where,
+                "Expected an inline table such as { K = 0.5, count = 1 }; got "
+                f"{_type(data)} {as_written(data)}.",
+            )
             continue
         r.known_keys(data, where, _FITTING_KEYS)
         count = r.quantity(data, "count", where, "dimensionless", positive=True)
         if count and count.value != math.floor(count.value):
-            r.problem(f"{where}.count", "The count must be a whole number; got "
-                      f"{as_written(data['count'])}.")
+            r.problem(
+                f"{where}.count",
+                f"The count must be a whole number; got {as_written(data['count'])}.",
+            )
         K = r.quantity(data, "K", where, "dimensionless")
         if K and K.value < 0.0:
-            r.problem(f"{where}.K", f"The K value must not be negative; got "
-                      f"{as_written(data['K'])}.")
+            r.problem(
+                f"{where}.K", f"The K value must not be negative; got {as_written(data['K'])}."
+            )
         dp = r.quantity(data, "dp", where, "pressure", positive=True)
         at_flow = r.quantity(data, "at_flow", where, "flow", positive=True)
         kind = r.text(data, "kind", where, "")
         given = [name for name in ("K", "dp", "kind") if name in data]
         if len(given) != 1:
             found = f"got {' and '.join(given)}" if given else "got none of them"
-            r.problem(where, "Give exactly one of K, kind, or dp with at_flow; "
-                      f"{found}.")
+            r.problem(where, f"Give exactly one of K, kind, or dp with at_flow; {found}.")
         elif kind:
-            r.problem(f"{where}.kind", f'Named fittings ("{kind}") come from the fittings '
-                      "catalog, which is not available in this version; give K.")
+            r.problem(
+                f"{where}.kind",
+                f'Named fittings ("{kind}") come from the fittings '
+                "catalog, which is not available in this version; give K.",
+            )
         if ("dp" in data) != ("at_flow" in data):
-            r.problem(where, "A rated loss needs both dp and at_flow (the flow at which the "
-                      "loss dp was rated).")
-        items.append(Fitting(key=where, count=count or Given(1.0, "", f"{where}.count"), K=K,
-                             dp=dp, at_flow=at_flow, kind=kind,
-                             note=r.text(data, "note", where, "")))
+            r.problem(
+                where,
+                "A rated loss needs both dp and at_flow (the flow at which the loss dp was rated).",
+            )
+        items.append(
+            Fitting(
+                key=where,
+                count=count or Given(1.0, "", f"{where}.count"),
+                K=K,
+                dp=dp,
+                at_flow=at_flow,
+                kind=kind,
+                note=r.text(data, "note", where, ""),
+            )
+        )
     return tuple(items)
 
 
@@ -742,16 +931,20 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
             continue
         absolute = p_baro + vessel.pressure.value
         if absolute <= 0.0:
-            r.problem(vessel.pressure.key,
-                      f"A vacuum of {-vessel.pressure.value / 1e3:.4g} kPa is below absolute "
-                      f"zero at this site, where the barometric pressure is "
-                      f"{p_baro / 1e3:.4g} kPa (absolute).")
+            r.problem(
+                vessel.pressure.key,
+                f"A vacuum of {-vessel.pressure.value / 1e3:.4g} kPa is below absolute "
+                f"zero at this site, where the barometric pressure is "
+                f"{p_baro / 1e3:.4g} kPa (absolute).",
+            )
         elif p_v > absolute:
-            r.problem("fluid.temperature",
-                      f"The liquid boils at the {vessel.role} surface: its vapour pressure "
-                      f"{p_v / 1e3:.4g} kPa exceeds the absolute surface pressure "
-                      f"{absolute / 1e3:.4g} kPa; lower the temperature, raise "
-                      f'{vessel.pressure.key}, or give pressure = "saturation".')
+            r.problem(
+                "fluid.temperature",
+                f"The liquid boils at the {vessel.role} surface: its vapour pressure "
+                f"{p_v / 1e3:.4g} kPa exceeds the absolute surface pressure "
+                f"{absolute / 1e3:.4g} kPa; lower the temperature, raise "
+                f'{vessel.pressure.key}, or give pressure = "saturation".',
+            )
 
 
 def _one_of(choices: tuple[str, ...]) -> str:

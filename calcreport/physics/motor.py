@@ -16,8 +16,10 @@ __all__ = ["standard_rating"]
 def _ratings_text(values: dict[str, Any], result: float, fmt: Any) -> str:
     below = [r for r in values["ratings"] if r < result]
     shown = f"{fmt(below[-1])} W < " if below else ""
-    return (f"smallest standard rating ≥ {fmt(values['P'])} W in the series: "
-            f"{shown}{fmt(values['P'])} W ≤ {fmt(result)} W")
+    return (
+        f"smallest standard rating ≥ {fmt(values['P'])} W in the series: "
+        f"{shown}{fmt(values['P'])} W ≤ {fmt(result)} W"
+    )
 
 
 @equation(

@@ -253,9 +253,11 @@ PEAK_POINTS = 401
 
 
 def _peak_text(values: dict[str, Any], result: float, fmt: Any) -> str:
-    return (f"max over {PEAK_POINTS} flows from {fmt(values['flow'][0])} to "
-            f"{fmt(values['flow'][-1])} m³/s of {fmt(values['rho'])} kg/m³ × 9.80665 m/s² × "
-            f"Q × H_pump(Q) / η_p(Q), curves by monotone cubic")
+    return (
+        f"max over {PEAK_POINTS} flows from {fmt(values['flow'][0])} to "
+        f"{fmt(values['flow'][-1])} m³/s of {fmt(values['rho'])} kg/m³ × 9.80665 m/s² × "
+        f"Q × H_pump(Q) / η_p(Q), curves by monotone cubic"
+    )
 
 
 @equation(

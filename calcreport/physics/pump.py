@@ -58,8 +58,10 @@ def _slopes(x: np.ndarray, y: np.ndarray) -> np.ndarray:
             w1 = 2.0 * h[k] + h[k - 1]
             w2 = h[k] + 2.0 * h[k - 1]
             d[k] = (w1 + w2) / (w1 / delta[k - 1] + w2 / delta[k])
-    for end, (h0, h1, d0, d1) in ((0, (h[0], h[1], delta[0], delta[1])),
-                                  (n - 1, (h[-1], h[-2], delta[-1], delta[-2]))):
+    for end, (h0, h1, d0, d1) in (
+        (0, (h[0], h[1], delta[0], delta[1])),
+        (n - 1, (h[-1], h[-2], delta[-1], delta[-2])),
+    ):
         slope = ((2.0 * h0 + h1) * d0 - h0 * d1) / (h0 + h1)
         if np.sign(slope) != np.sign(d0):
             slope = 0.0
@@ -539,14 +541,17 @@ def operating_point(
             if side == 1:
                 fb /= 2.0
             side = 1
-    raise ConvergenceError("operating point (pump and system curves)", _MAX_ITERATIONS,
-                           abs(b - a) / max(abs(b), 1e-12))
+    raise ConvergenceError(
+        "operating point (pump and system curves)", _MAX_ITERATIONS, abs(b - a) / max(abs(b), 1e-12)
+    )
 
 
 def _solved_text(values: dict[str, Any], result: float, fmt: Any) -> str:
-    return (f"Q = {fmt(values['Q'])} m³/s, the highest flow on the curve where "
-            "H_pump(Q) − H_system(Q) = 0, bracketed on 201 flows and refined by the "
-            "Illinois method; confirmed by the head-balance step")
+    return (
+        f"Q = {fmt(values['Q'])} m³/s, the highest flow on the curve where "
+        "H_pump(Q) − H_system(Q) = 0, bracketed on 201 flows and refined by the "
+        "Illinois method; confirmed by the head-balance step"
+    )
 
 
 @equation(

@@ -362,24 +362,37 @@ class _Report:
         out.append(self.p(f"This calculation covers {self.system_phrase()}."))
         out.append(self.p(self.equipment_phrase()))
         pump = self.t["given"].get("pump.efficiency")
-        rows = [["Case", "Flow", "TDH", "Pump eff.", "NPSHa", "NPSHr", "NPSHa / NPSHr",
-                 "Shaft power", "Electrical"]]
+        rows = [
+            [
+                "Case",
+                "Flow",
+                "TDH",
+                "Pump eff.",
+                "NPSHa",
+                "NPSHr",
+                "NPSHa / NPSHr",
+                "Shaft power",
+                "Electrical",
+            ]
+        ]
         for case in self.t["cases"]:
             res = self.r["cases"][case["id"]]
             point = res.get("operating_point", {})
             eff = point.get("efficiency") or pump
             ratio = point.get("npsh_margin_ratio")
-            rows.append([
-                f"<b>{text(case['id'])}</b> {text(case['title'])}",
-                self.q(res["flow"], "flow"),
-                self.q(res["total_dynamic_head"], "length"),
-                fmt(eff["value"], 3) if eff else "—",
-                self.q(res["npsh_available"], "length"),
-                self.q(point.get("npsh_required"), "length"),
-                fmt(ratio["value"], 3) if ratio else "—",
-                self.q(res.get("shaft_power"), "power"),
-                self.q(res.get("electrical_power"), "power"),
-            ])
+            rows.append(
+                [
+                    f"<b>{text(case['id'])}</b> {text(case['title'])}",
+                    self.q(res["flow"], "flow"),
+                    self.q(res["total_dynamic_head"], "length"),
+                    fmt(eff["value"], 3) if eff else "—",
+                    self.q(res["npsh_available"], "length"),
+                    self.q(point.get("npsh_required"), "length"),
+                    fmt(ratio["value"], 3) if ratio else "—",
+                    self.q(res.get("shaft_power"), "power"),
+                    self.q(res.get("electrical_power"), "power"),
+                ]
+            )
         w = self.width
         out.append(self.table(rows, [w * 0.25] + [w * 0.75 / 8] * 8))
         out.append(Spacer(1, 4 * mm))
@@ -420,29 +433,39 @@ class _Report:
         motor = self.r.get("motor", {})
         curve = "pump.curve.flow[1]" in given
         pump_data = self.entered.get("pump", {})
-        names = ", ".join(text(pump_data[k]) for k in ("manufacturer", "model",
-                                                        "impeller_diameter") if k in pump_data)
+        names = ", ".join(
+            text(pump_data[k])
+            for k in ("manufacturer", "model", "impeller_diameter")
+            if k in pump_data
+        )
         if curve:
             pump = f"<b>Pump:</b> selected on its curve{f' ({names})' if names else ''}"
             if "pump.speed" in given:
                 pump += f", at {self.q(given['pump.speed'], 'speed')}"
             pump += "."
         elif "pump.efficiency" in given:
-            pump = (f"<b>Pump:</b> not selected; efficiency "
-                    f"{fmt(given['pump.efficiency']['value'], 3)} assumed for power.")
+            pump = (
+                f"<b>Pump:</b> not selected; efficiency "
+                f"{fmt(given['pump.efficiency']['value'], 3)} assumed for power."
+            )
         else:
             pump = "<b>Pump:</b> not selected; no efficiency given, so shaft power is not computed."
         if "rated_power" in motor:
-            loads = ", ".join(f"{text(c)} {fmt(v['value'] * 100, 3)} %"
-                              for c, v in motor["loading"].items())
+            loads = ", ".join(
+                f"{text(c)} {fmt(v['value'] * 100, 3)} %" for c, v in motor["loading"].items()
+            )
             series = "IEC 60072-1" if motor["series"] == "IEC" else "NEMA MG 1"
-            text_motor = (f" <b>Motor:</b> {self.q(motor['rated_power'], 'power')} ({series} "
-                          f"series), covering the peak shaft power "
-                          f"{self.q(motor['peak_shaft_power'], 'power')} anywhere on the curve; "
-                          f"loading at the operating points {loads}.")
+            text_motor = (
+                f" <b>Motor:</b> {self.q(motor['rated_power'], 'power')} ({series} "
+                f"series), covering the peak shaft power "
+                f"{self.q(motor['peak_shaft_power'], 'power')} anywhere on the curve; "
+                f"loading at the operating points {loads}."
+            )
         elif "motor.efficiency" in given:
-            text_motor = (f" <b>Motor:</b> efficiency {fmt(given['motor.efficiency']['value'], 3)}"
-                          " assumed; rating to be selected with the pump.")
+            text_motor = (
+                f" <b>Motor:</b> efficiency {fmt(given['motor.efficiency']['value'], 3)}"
+                " assumed; rating to be selected with the pump."
+            )
         else:
             text_motor = " <b>Motor:</b> not given."
         return pump + text_motor
@@ -465,9 +488,11 @@ class _Report:
             )
         reviews = [c for c in self.t["checks"] if c["status"] == "review"]
         if reviews:
-            return (f"The selected pump delivers {flow} at {tdh} in the design case and meets "
-                    f"every criterion that can fail; {len(reviews)} item"
-                    f"{'s are' if len(reviews) != 1 else ' is'} marked for review.")
+            return (
+                f"The selected pump delivers {flow} at {tdh} in the design case and meets "
+                f"every criterion that can fail; {len(reviews)} item"
+                f"{'s are' if len(reviews) != 1 else ' is'} marked for review."
+            )
         return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
 
     def contents(self) -> list[Flowable]:
@@ -600,12 +625,16 @@ class _Report:
     def calculation(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Calculation")]
         others = [c["id"] for c in self.t["cases"] if c["id"] != "C1"]
-        intro = ("Each step gives the quantity computed, its step id, the equation, the equation "
-                 "with the values and units substituted, the result and the reference in "
-                 "brackets. The steps are those of the design case C1")
+        intro = (
+            "Each step gives the quantity computed, its step id, the equation, the equation "
+            "with the values and units substituted, the result and the reference in "
+            "brackets. The steps are those of the design case C1"
+        )
         if others:
-            intro += (f"; cases {', '.join(others)} repeat them at their own levels and flows "
-                      "and are listed in full in Appendix A")
+            intro += (
+                f"; cases {', '.join(others)} repeat them at their own levels and flows "
+                "and are listed in full in Appendix A"
+            )
         out.append(self.p(intro + "."))
         for key, title, prefixes in SECTIONS:
             steps = [st for st in self.t["steps"] if st["id"].startswith(prefixes)]
@@ -958,6 +987,7 @@ def render_pdf(trace: dict[str, Any], input_text: str, figures: dict[str, Any]) 
     )
     frame = Frame(doc.leftMargin, doc.bottomMargin, doc.width, doc.height, id="body")
     doc.addPageTemplates([PageTemplate("cover", [frame]), PageTemplate("body", [frame])])
-    doc.build(report.story(),
-              canvasmaker=_canvas_maker(project, trace["status"]["value"], doc.headings))
+    doc.build(
+        report.story(), canvasmaker=_canvas_maker(project, trace["status"]["value"], doc.headings)
+    )
     return buffer.getvalue()

@@ -40,7 +40,9 @@ def _font(path: str) -> str:
 
 
 @cache
-def _layout(latex: str, size: float) -> tuple[float, float, float, tuple[Any, ...], tuple[Any, ...]]:
+def _layout(
+    latex: str, size: float
+) -> tuple[float, float, float, tuple[Any, ...], tuple[Any, ...]]:
     """Width, ascent, depth, glyphs (font, size, char, x, y) and rules (x, y, w, h)."""
     from matplotlib.font_manager import FontProperties
 

@@ -60,8 +60,9 @@ def _record(figure: Any) -> list[Any]:
         def _trace(self, mpl_path: Any, transform: Any) -> str:
             out = []
             last = (0.0, 0.0)
-            for vertices, code in mpl_path.iter_segments(transform, remove_nans=True,
-                                                         simplify=False):
+            for vertices, code in mpl_path.iter_segments(
+                transform, remove_nans=True, simplify=False
+            ):
                 if code == MplPath.MOVETO:
                     out.append(f"{_n(vertices[0])} {_n(vertices[1])} m")
                 elif code == MplPath.LINETO:
@@ -80,7 +81,7 @@ def _record(figure: Any) -> list[Any]:
                 last = (vertices[-2], vertices[-1])
             return "\n".join(out) + "\n" if out else ""
 
-        def draw_path(self, gc: Any, path: Any, transform: Any, rgbFace: Any = None) -> None:  # noqa: N803
+        def draw_path(self, gc: Any, path: Any, transform: Any, rgbFace: Any = None) -> None:
             shape = self._trace(path, transform)
             if not shape:
                 return
@@ -90,8 +91,10 @@ def _record(figure: Any) -> list[Any]:
             stroke = gc.get_linewidth() > 0 and a > 0
             if stroke:
                 stroke_alpha = gc.get_alpha() if gc.get_forced_alpha() else a
-                parts.append(f"{_n(r)} {_n(g)} {_n(b)} RG {_n(gc.get_linewidth())} w "
-                             f"{_CAP[gc.get_capstyle()]} J {_JOIN[gc.get_joinstyle()]} j\n")
+                parts.append(
+                    f"{_n(r)} {_n(g)} {_n(b)} RG {_n(gc.get_linewidth())} w "
+                    f"{_CAP[gc.get_capstyle()]} J {_JOIN[gc.get_joinstyle()]} j\n"
+                )
                 offset, dashes = gc.get_dashes()
                 if dashes:
                     pattern = " ".join(_n(float(d)) for d in dashes)
@@ -156,8 +159,9 @@ class ChartFlowable(Flowable):
                 self._image(*op[1:])
         canvas.restoreState()
 
-    def _image(self, x: float, y: float, width: float, height: float, pixels: Any,
-               clip: str) -> None:
+    def _image(
+        self, x: float, y: float, width: float, height: float, pixels: Any, clip: str
+    ) -> None:
         from PIL import Image
         from reportlab.lib.utils import ImageReader
 
@@ -165,6 +169,7 @@ class ChartFlowable(Flowable):
         canvas.saveState()
         if clip:
             canvas.addLiteral(clip)
-        canvas.drawImage(ImageReader(Image.fromarray(pixels, "RGBA")), x, y, width, height,
-                         mask="auto")
+        canvas.drawImage(
+            ImageReader(Image.fromarray(pixels, "RGBA")), x, y, width, height, mask="auto"
+        )
         canvas.restoreState()
