@@ -133,6 +133,12 @@ def solve(model: Model) -> Trace:
             "prepared_by": model.project.prepared_by,
             "checked_by": model.project.checked_by,
             "units": model.project.units,
+            "revisions": list(model.project.revisions),
+            "report": {
+                "purpose": model.project.purpose,
+                "exclusions": list(model.project.exclusions),
+                "cautions": list(model.project.cautions),
+            },
         },
         status=status,
         steps=b.steps,

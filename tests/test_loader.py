@@ -567,6 +567,13 @@ BAD: list[Bad] = [
     ),
     # A key of the format that this version does not read yet: said so, not "unknown".
     Bad(
+        "report-cautions-not-a-list",
+        variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[report]\ncautions = "one"\n')),
+        "report.cautions",
+        "array of sentences",
+        'cautions = "one"',
+    ),
+    Bad(
         "pump-count-not-available",
         variant(("efficiency = 0.71\n", "efficiency = 0.71\ncount = 2\n")),
         "pump.count",

@@ -192,3 +192,23 @@ def test_pages_render_to_images(built, tmp_path):
     pdf, _, pages = built["reservoir_fill_si"]
     subprocess.run(["pdftoppm", "-r", "20", "-png", str(pdf), str(tmp_path / "p")], check=True)
     assert len(list(tmp_path.glob("p-*.png"))) == len(pages)
+
+
+def test_revision_history_and_project_texts_from_the_input(built):
+    _, trace, pages = built["cooling_water_selected_pump"]
+    cover = " ".join(pages[0].split())
+    for row in trace["project"]["revisions"]:
+        assert row["revision"] in cover and row["date"] in cover
+    assert "Selected pump checked on its certified curve" in cover
+    assert "heat exchanger's own rating are by others" in cover
+    text = " ".join(" ".join(pages).split())
+    assert "Confirm the basin low-level alarm setting" in text
+
+
+def test_selected_pump_report_shows_operating_point_and_motor(built):
+    _, trace, pages = built["cooling_water_selected_pump"]
+    summary = " ".join(pages[1].split())
+    motor = trace["results"]["motor"]["rated_power"]["value"] / 1e3
+    assert f"{motor:.2f} kW" in summary
+    assert "NPSHr" in summary
+    assert "pump.operating_flow" in " ".join("".join(pages).split())

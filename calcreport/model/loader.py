@@ -70,7 +70,11 @@ _TOP_KEYS = {
     "operation",
     "pipe",
     "criteria",
+    "report",
+    "revision",
 }
+_REPORT_KEYS = {"purpose", "exclusions", "cautions"}
+_REVISION_KEYS = {"revision", "date", "description", "prepared_by", "checked_by"}
 _PROJECT_KEYS = {
     "title",
     "client",
@@ -367,7 +371,12 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     if fmt != FORMAT or isinstance(fmt, bool):
         r.problem("format", f"This version reads input format {FORMAT}; got {as_written(fmt)}.")
 
-    project = _project(r, r.table(data, "project", "project", required=False) or {})
+    project = _project(
+        r,
+        r.table(data, "project", "project", required=False) or {},
+        r.table(data, "report", "report", required=False) or {},
+        data.get("revision"),
+    )
     fluid = _fluid(r, r.table(data, "fluid", "fluid", required=True))
 
     duty = r.table(data, "duty", "duty", required=True)
@@ -584,7 +593,8 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
     )
 
 
-def _project(r: _Reader, data: dict[str, Any]) -> Project:
+def _project(r: _Reader, data: dict[str, Any], report: dict[str, Any],
+             revisions: Any) -> Project:
     r.known_keys(data, "project", _PROJECT_KEYS)
     defaults = Project()
     values = {
@@ -593,7 +603,28 @@ def _project(r: _Reader, data: dict[str, Any]) -> Project:
         if key != "units"
     }
     units = r.text(data, "units", "project", "SI", UNIT_SYSTEMS)
-    return Project(units=units, **values)
+    r.known_keys(report, "report", _REPORT_KEYS)
+    lists = {key: _texts(r, report, key) for key in ("exclusions", "cautions")}
+    history = []
+    if revisions is not None:
+        if not isinstance(revisions, list) or not all(isinstance(x, dict) for x in revisions):
+            r.problem("revision", "Expected [[revision]] tables, one per issued revision.")
+        else:
+            for i, row in enumerate(revisions, start=1):
+                path = f"revision[{i}]"
+                r.known_keys(row, path, _REVISION_KEYS)
+                history.append({key: r.text(row, key, path, "") for key in sorted(_REVISION_KEYS)})
+    return Project(units=units, purpose=r.text(report, "purpose", "report", ""),
+                   revisions=tuple(history), **lists, **values)
+
+
+def _texts(r: _Reader, data: dict[str, Any], key: str) -> tuple[str, ...]:
+    raw = data.get(key, [])
+    if not isinstance(raw, list) or not all(isinstance(item, str) for item in raw):
+        r.problem(f"report.{key}", f'Expected an array of sentences, such as {key} = ["..."]; '
+                  f"got {as_written(raw)}.")
+        return ()
+    return tuple(raw)
 
 
 def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:

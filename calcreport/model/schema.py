@@ -44,6 +44,10 @@ class Project:
     prepared_by: str = ""
     checked_by: str = ""
     units: str = "SI"
+    purpose: str = ""
+    exclusions: tuple[str, ...] = ()
+    cautions: tuple[str, ...] = ()
+    revisions: tuple[dict[str, str], ...] = ()
 
 
 @dataclass(frozen=True)

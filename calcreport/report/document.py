@@ -279,7 +279,9 @@ class _Report:
                     "scope.j2",
                     system=system,
                     preliminary=preliminary,
-                    flow=self.q(self.r["flow"], "flow"),
+                    flow=self.q(self.r.get("duty_point", self.r)["flow"], "flow"),
+                    purpose=pr.get("report", {}).get("purpose", ""),
+                    exclusions=pr.get("report", {}).get("exclusions", []),
                 )
             )
         )
@@ -308,15 +310,15 @@ class _Report:
         )
         out.append(table)
         out.append(Spacer(1, 5 * mm))
-        revisions = [
-            ["Rev.", "Date", "Description", "Prepared", "Checked"],
-            [
-                text(pr["revision"] or "—"),
-                text(pr["date"]),
-                "Issued for checking" if preliminary else "Issued",
-                text(pr["prepared_by"]),
-                text(pr["checked_by"]),
-            ],
+        history = pr.get("revisions") or [{
+            "revision": pr["revision"] or "—", "date": pr["date"],
+            "description": "Issued for checking" if preliminary else "Issued",
+            "prepared_by": pr["prepared_by"], "checked_by": pr["checked_by"],
+        }]
+        revisions = [["Rev.", "Date", "Description", "Prepared", "Checked"]] + [
+            [text(row[key]) for key in ("revision", "date", "description", "prepared_by",
+                                        "checked_by")]
+            for row in history
         ]
         stamp = Table(
             [[Paragraph("Engineer's seal / stamp", s.small)]],
@@ -797,7 +799,8 @@ class _Report:
         for n, item in enumerate(specific or ["None."], start=1):
             out.append(self.p(f"{n}. {item}"))
         out.append(self.heading("Standing cautions and code deferral", 2))
-        for n, line in enumerate(_lines("cautions.j2"), start=1):
+        extra = [text(c) for c in self.t["project"].get("report", {}).get("cautions", [])]
+        for n, line in enumerate(_lines("cautions.j2") + extra, start=1):
             out.append(self.p(f"{n}. {line}"))
         return out
 
