@@ -297,6 +297,8 @@ def _solve_case(
         point, eta_curve = _operating_point(b, case, curve, h)
         results["operating_point"] = point
         eta_pump = eta_curve or eta_pump
+        if "bep_flow" in point:
+            results["operating_region"] = _regions(model, point["bep_flow"]["value"])
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive, notes))
     results["system_curve"] = _system_curve(model, case, liquid, surfaces, curve)
     results["duty_point"] = _duty_point(model, case, liquid, surfaces)
@@ -474,6 +476,21 @@ def _operating_point(
         point["npsh_margin_ratio"] = _q(ratio)
         point["npsh_margin"] = _q(margin)
     return point, eta
+
+
+def _regions(model: Model, q_bep: float) -> dict[str, Any]:
+    """Flows bounding the preferred (and, from the pump data, allowable) regions."""
+    low, high, basis, _ = checks.preferred_range(model)
+    out: dict[str, Any] = {
+        "bep_flow": quantity(q_bep, "m^3/s"),
+        "preferred": [quantity(low * q_bep, "m^3/s"), quantity(high * q_bep, "m^3/s")],
+        "preferred_basis": basis,
+    }
+    if model.pump.allowable_range:
+        out["allowable"] = [quantity(g.value * q_bep, "m^3/s") for g in model.pump.allowable_range]
+    if model.pump.min_continuous_flow:
+        out["min_continuous_flow"] = _q(model.pump.min_continuous_flow)
+    return out
 
 
 def _motor(

@@ -17,7 +17,7 @@ from calcreport import catalog
 from calcreport.model.schema import Model
 from calcreport.trace import Check
 
-__all__ = ["evaluate", "governing", "once"]
+__all__ = ["evaluate", "governing", "once", "preferred_range"]
 
 _SEVERITY = {"fail": 0, "review": 1, "pass": 2}
 
@@ -318,15 +318,24 @@ def _duty(model: Model, point: dict[str, Any], case: str) -> Check:
     )
 
 
-def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Check]:
-    ratio = point["flow_ratio_bep"]["value"]
+def preferred_range(model: Model) -> tuple[float, float, str, str]:
+    """Preferred operating region as fractions of the BEP flow, with basis and reference."""
     if model.pump.preferred_range:
         low, high = (g.value for g in model.pump.preferred_range)
-        basis = "Preferred operating region from the pump data (pump.preferred_range)"
-        ref = "input"
-    else:
-        low, basis, ref, _ = _limit(model, "preferred_flow_low")
-        high, _, _, _ = _limit(model, "preferred_flow_high")
+        return (
+            low,
+            high,
+            "Preferred operating region from the pump data (pump.preferred_range)",
+            "input",
+        )
+    low, basis, ref, _ = _limit(model, "preferred_flow_low")
+    high, _, _, _ = _limit(model, "preferred_flow_high")
+    return low, high, basis, ref
+
+
+def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Check]:
+    ratio = point["flow_ratio_bep"]["value"]
+    low, high, basis, ref = preferred_range(model)
     inside = low <= ratio <= high
     found = [
         Check(

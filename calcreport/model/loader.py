@@ -593,8 +593,7 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
     )
 
 
-def _project(r: _Reader, data: dict[str, Any], report: dict[str, Any],
-             revisions: Any) -> Project:
+def _project(r: _Reader, data: dict[str, Any], report: dict[str, Any], revisions: Any) -> Project:
     r.known_keys(data, "project", _PROJECT_KEYS)
     defaults = Project()
     values = {
@@ -614,15 +613,22 @@ def _project(r: _Reader, data: dict[str, Any], report: dict[str, Any],
                 path = f"revision[{i}]"
                 r.known_keys(row, path, _REVISION_KEYS)
                 history.append({key: r.text(row, key, path, "") for key in sorted(_REVISION_KEYS)})
-    return Project(units=units, purpose=r.text(report, "purpose", "report", ""),
-                   revisions=tuple(history), **lists, **values)
+    return Project(
+        units=units,
+        purpose=r.text(report, "purpose", "report", ""),
+        revisions=tuple(history),
+        **lists,
+        **values,
+    )
 
 
 def _texts(r: _Reader, data: dict[str, Any], key: str) -> tuple[str, ...]:
     raw = data.get(key, [])
     if not isinstance(raw, list) or not all(isinstance(item, str) for item in raw):
-        r.problem(f"report.{key}", f'Expected an array of sentences, such as {key} = ["..."]; '
-                  f"got {as_written(raw)}.")
+        r.problem(
+            f"report.{key}",
+            f'Expected an array of sentences, such as {key} = ["..."]; got {as_written(raw)}.',
+        )
         return ()
     return tuple(raw)
 

@@ -603,7 +603,7 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
     ax = fig.add_subplot()
     _style_axes(ax)
     handles = []
-    (line,) = ax.plot(q, h, color=BLUE, lw=1.6, label="system curve, design case")
+    (line,) = ax.plot(q, h, color=BLUE, lw=1.6, label="system curve, C1 (design)")
     handles.append(line)
     ymax = float(np.max(h))
     xmax = float(np.max(q))
@@ -611,6 +611,7 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
     # Other operating cases that carry their own curve.
     styles = iter([(GREY, (0, (5, 2))), (GREY, (0, (1, 1.5))), (GREY, (0, (6, 2, 1, 2)))] * 4)
     titles = {c.get("id"): c.get("title", c.get("id")) for c in trace.get("cases", []) or []}
+    shown_cases: list[str] = []
     for case_id, case in (r.get("cases") or {}).items():
         other = case.get("system_curve") if isinstance(case, dict) else None
         if not other or other == curve:
@@ -622,9 +623,10 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
             color=color,
             lw=1.0,
             ls=dash,
-            label=f"system curve, {titles.get(case_id, case_id)}",
+            label=f"system curve, {case_id}",
         )
         handles.append(line)
+        shown_cases.append(f"{case_id}: {titles.get(case_id, case_id)}")
         ymax = max(ymax, float(np.max(line.get_ydata())))
 
     # Pump curve and operating point, when the trace has them.
@@ -670,6 +672,25 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
         )
         opm.set_label("operating point")
         handles.append(opm)
+        others = [
+            (d(c["operating_point"]["flow"], "flow"), d(c["operating_point"]["head"], "length"))
+            for cid, c in (r.get("cases") or {}).items()
+            if cid != "C1" and isinstance(c, dict) and "operating_point" in c
+        ]
+        if others:
+            (om,) = ax.plot(
+                *zip(*others, strict=True),
+                ls="none",
+                marker="D",
+                ms=4.0,
+                mfc=LIGHT,
+                mec=INK,
+                mew=0.5,
+                zorder=6,
+            )
+            om.set_label("operating points, other cases")
+            handles.append(om)
+    handles += _regions(ax, d, r.get("operating_region"))
 
     # Head from zero, or from below zero where the curve or static head is negative.
     ymin = min(0.0, float(np.min(h)), h_static if static_line is not None else 0.0, h_duty)
@@ -723,7 +744,40 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
     )
     if op_xy is not None:
         title += ", with the pump curve and the operating point"
+    if shown_cases:
+        title += "; " + "; ".join(shown_cases)
     return fig, title
+
+
+def _regions(ax: Any, d: Any, regions: dict[str, Any] | None) -> list[Any]:
+    """Shade the preferred and allowable operating regions; mark BEP and minimum flow."""
+    if not regions:
+        return []
+    handles = []
+    if "allowable" in regions:
+        lo, hi = (d(q, "flow") for q in regions["allowable"])
+        handles.append(
+            ax.axvspan(lo, hi, color="#f1f1f1", zorder=0, lw=0, label="allowable operating region")
+        )
+    lo, hi = (d(q, "flow") for q in regions["preferred"])
+    handles.append(
+        ax.axvspan(lo, hi, facecolor="#e2e9f0", lw=0, zorder=0, label="preferred operating region")
+    )
+    bep = d(regions["bep_flow"], "flow")
+    handles.append(ax.axvline(bep, color=BLUE, lw=0.8, ls=(0, (2, 2)), zorder=1, label="BEP flow"))
+    if "min_continuous_flow" in regions:
+        q_min = d(regions["min_continuous_flow"], "flow")
+        handles.append(
+            ax.axvline(
+                q_min,
+                color=RUST,
+                lw=0.8,
+                ls=(0, (4, 1, 1, 1)),
+                zorder=1,
+                label="minimum continuous flow",
+            )
+        )
+    return handles
 
 
 # --------------------------------------------------------------------------

@@ -310,14 +310,20 @@ class _Report:
         )
         out.append(table)
         out.append(Spacer(1, 5 * mm))
-        history = pr.get("revisions") or [{
-            "revision": pr["revision"] or "—", "date": pr["date"],
-            "description": "Issued for checking" if preliminary else "Issued",
-            "prepared_by": pr["prepared_by"], "checked_by": pr["checked_by"],
-        }]
+        history = pr.get("revisions") or [
+            {
+                "revision": pr["revision"] or "—",
+                "date": pr["date"],
+                "description": "Issued for checking" if preliminary else "Issued",
+                "prepared_by": pr["prepared_by"],
+                "checked_by": pr["checked_by"],
+            }
+        ]
         revisions = [["Rev.", "Date", "Description", "Prepared", "Checked"]] + [
-            [text(row[key]) for key in ("revision", "date", "description", "prepared_by",
-                                        "checked_by")]
+            [
+                text(row[key])
+                for key in ("revision", "date", "description", "prepared_by", "checked_by")
+            ]
             for row in history
         ]
         stamp = Table(
