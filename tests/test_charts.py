@@ -307,7 +307,8 @@ def test_other_cases_with_their_own_curve_are_drawn(traces) -> None:
     t["cases"].append({"id": "C2", "title": "Low source level"})
     fig = charts.system_curve(t)
     legend = [x.get_text() for x in fig.figure.axes[0].get_legend().get_texts()]
-    assert "system curve, Low source level" in legend
+    assert "system curve, C2" in legend
+    assert "C2: Low source level" in fig.title
 
 
 def test_missing_required_results_say_what_is_missing(traces) -> None:
