@@ -1,8 +1,9 @@
 """Draw a matplotlib figure onto the report's PDF canvas, as vectors.
 
 A small matplotlib renderer turns every path the figure draws (lines,
-markers, patches, and text laid out as glyph outlines) into PDF path
-operators. The operators are recorded once per figure and replayed on
+markers, patches) into PDF path operators, and its text into text in the
+report's embedded DejaVu fonts (the faces matplotlib lays it out with;
+mathtext falls back to glyph outlines). The operators are recorded once per figure and replayed on
 every pass of the document build, so charts stay sharp at any zoom, use
 the report's own font outlines, cost one drawing however many passes the
 contents page needs, and come out byte-identical from run to run.
@@ -17,6 +18,14 @@ from reportlab.platypus import Flowable
 __all__ = ["ChartFlowable"]
 
 _CAP = {"butt": 0, "round": 1, "projecting": 2}
+_BOLD = ("bold", "heavy", "extra bold", "black", "semibold", "demibold", 600, 700, 800, 900)
+# matplotlib's DejaVu faces drawn as text in the report's embedded DejaVu fonts (same files).
+_TEXT_FONTS = {
+    ("DejaVu Sans", False, False): "DejaVu",
+    ("DejaVu Sans", True, False): "DejaVu-Bold",
+    ("DejaVu Sans", False, True): "DejaVu-Oblique",
+    ("DejaVu Sans Mono", False, False): "DejaVuMono",
+}
 _JOIN = {"miter": 0, "round": 1, "bevel": 2}
 
 
@@ -40,6 +49,9 @@ def _record(figure: Any) -> list[Any]:
 
         def points_to_pixels(self, points: float) -> float:
             return points  # 72 dpi: one pixel is one point
+
+        def flipy(self) -> bool:
+            return False  # PDF's y grows upwards, as matplotlib's display coordinates
 
         def new_gc(self) -> Any:
             return GraphicsContextBase()
@@ -115,6 +127,17 @@ def _record(figure: Any) -> list[Any]:
             else:
                 ops.append(code)
 
+        def draw_text(self, gc: Any, x: float, y: float, s: str, prop: Any, angle: float,
+                      ismath: Any = False, mtext: Any = None) -> None:
+            font = _TEXT_FONTS.get((prop.get_name(), prop.get_weight() in _BOLD,
+                                    prop.get_style() != "normal"))
+            if ismath or font is None:  # mathtext, or a face the report does not embed
+                super().draw_text(gc, x, y, s, prop, angle, ismath, mtext)
+                return
+            r, g, b, a = gc.get_rgb()
+            ops.append(("text", x, y, angle, font, prop.get_size_in_points(), (r, g, b), s,
+                        self._clip(gc)))
+
         def draw_image(self, gc: Any, x: float, y: float, im: Any) -> None:
             height, width = im.shape[:2]
             ops.append(("image", x, y, width, height, im[::-1].copy(), self._clip(gc)))
@@ -155,8 +178,24 @@ class ChartFlowable(Flowable):
                 canvas.setFillAlpha(op[2])
                 canvas.addLiteral(op[3])
                 canvas.restoreState()
+            elif op[0] == "text":
+                self._text(*op[1:])
             else:
                 self._image(*op[1:])
+        canvas.restoreState()
+
+    def _text(self, x: float, y: float, angle: float, font: str, size: float,
+              rgb: tuple[float, float, float], string: str, clip: str) -> None:
+        canvas = self.canv
+        canvas.saveState()
+        if clip:
+            canvas.addLiteral(clip)
+        canvas.translate(x, y)
+        if angle:
+            canvas.rotate(angle)
+        canvas.setFillColorRGB(*rgb)
+        canvas.setFont(font, size)
+        canvas.drawString(0, 0, string)
         canvas.restoreState()
 
     def _image(
