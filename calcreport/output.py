@@ -40,6 +40,7 @@ def write_all(files: dict[Path, bytes], protect: Path | None = None) -> None:
             temporary[path] = name
             with os.fdopen(handle, "wb") as out:
                 out.write(content)
+            os.chmod(name, _mode())
         for path, name in temporary.items():
             os.replace(name, path)
         temporary.clear()
@@ -49,3 +50,10 @@ def write_all(files: dict[Path, bytes], protect: Path | None = None) -> None:
                 os.unlink(name)
             except FileNotFoundError:
                 pass
+
+
+def _mode() -> int:
+    """Permissions of a newly created file under the process umask (mkstemp uses 0600)."""
+    umask = os.umask(0)
+    os.umask(umask)
+    return 0o666 & ~umask

@@ -212,3 +212,16 @@ def test_selected_pump_report_shows_operating_point_and_motor(built):
     assert f"{motor:.2f} kW" in summary
     assert "NPSHr" in summary
     assert "pump.operating_flow" in " ".join("".join(pages).split())
+
+
+def test_output_files_get_ordinary_permissions(tmp_path):
+    import os
+
+    umask = os.umask(0o022)
+    try:
+        assert main(["build", str(EXAMPLES / "check_case.toml"), "-o", str(tmp_path)]) == 0
+    finally:
+        os.umask(umask)
+    for name in ("check_case.pdf", "check_case.trace.json"):
+        assert (tmp_path / name).stat().st_mode & 0o777 == 0o644
+    assert not list(tmp_path.glob(".*.part"))
