@@ -49,6 +49,8 @@ class Case:
     source_level: Given
     npsh_level: Given
     destination_level: Given
+    running: Given  # identical pumps running in this case
+    duty: bool = True  # the required flow must be met in this case
 
     def sid(self, step: str) -> str:
         """Step id within this case (the design case C1 has plain ids)."""
@@ -98,7 +100,7 @@ def solve(model: Model) -> Trace:
     curve = _pump_curve(b, model)
     notes: list[str] = []
     surfaces = (p_baro, p_source, p_dest, exit_head)
-    cases = _cases(model)
+    cases = _cases(b, model)
     by_case: dict[str, dict[str, Any]] = {}
     found: list[Check] = []
     for case in cases:
@@ -174,40 +176,63 @@ def _status(model: Model, results: dict[str, Any], found: list[Check]) -> dict[s
     }
 
 
-def _cases(model: Model) -> list[Case]:
-    """The design case, and the static-head extremes when level ranges are given."""
+def _cases(b: TraceBuilder, model: Model) -> list[Case]:
+    """The design case, the static-head extremes when level ranges are given, and with
+    several pumps the cases of every pump running and of one duty pump out."""
     src, dst = model.source, model.destination
     npsh_level = src.level_low or src.level
+    count, standby = model.pump.count, model.pump.standby
+    duty = count
+    if standby.value > 0:
+        duty = b.step(
+            "pump.duty_pumps",
+            "Duty pumps (standby out of service)",
+            pump.pumps_running,
+            n=count,
+            n_out=standby,
+        )
+    high = (src.level_low or src.level, dst.level_high or dst.level)
+    low = (src.level_high or src.level, dst.level_low or dst.level)
+    cases: list[Case] = []
 
-    def case(ident: str, title: str, source: Given, destination: Given) -> Case:
-        return Case(
-            id=ident,
-            title=title,
-            flow=model.flow,
-            source_level=source,
-            npsh_level=npsh_level,
-            destination_level=_destination_elevation(model, destination),
+    def case(title: str, levels: tuple[Given, Given], running: Given, needed: bool = True) -> None:
+        cases.append(
+            Case(
+                id=f"C{len(cases) + 1}",
+                title=title,
+                flow=model.flow,
+                source_level=levels[0],
+                npsh_level=npsh_level,
+                destination_level=_destination_elevation(model, levels[1]),
+                running=running,
+                duty=needed,
+            )
         )
 
-    cases = [case("C1", "Design: normal levels, new pipe", src.level, dst.level)]
+    pumps = "" if count.value == 1 else f", {duty.value:g} of {count.value:g} pumps running"
+    case(f"Design: normal levels, new pipe{pumps}", (src.level, dst.level), duty)
     if src.level_low or dst.level_high:
-        cases.append(
-            case(
-                "C2",
-                "Highest static head: source low, destination high",
-                src.level_low or src.level,
-                dst.level_high or dst.level,
-            )
-        )
+        case(f"Highest static head: source low, destination high{pumps}", high, duty)
     if src.level_high or dst.level_low:
-        cases.append(
-            case(
-                "C3",
-                "Lowest static head: source high, destination low",
-                src.level_high or src.level,
-                dst.level_low or dst.level,
-            )
+        case(f"Lowest static head: source high, destination low{pumps}", low, duty)
+    if standby.value > 0:
+        case(f"All {count.value:g} pumps running, highest static head", high, count, False)
+    if duty.value > 1:
+        out = b.assume(
+            "One duty pump is taken out of service in the reduced case "
+            "(the running pumps move to higher flows).",
+            1.0,
+            "",
         )
+        fewer = b.step(
+            f"C{len(cases) + 1}.pump.pumps_running",
+            "Pumps running, one duty pump out",
+            pump.pumps_running,
+            f"C{len(cases) + 1}",
+            n=duty,
+            n_out=out,
+        )
+        case(f"One duty pump out: {fewer.value:g} running, lowest static head", low, fewer, False)
     return cases
 
 
@@ -294,12 +319,24 @@ def _solve_case(
     results["profile"] = _profile(model, case, liquid, h, surfaces[1], surfaces[2])
     eta_pump = model.pump.efficiency
     if operating is not None and curve is not None:
-        point, eta_curve = _operating_point(b, case, curve, h)
+        point, eta_curve = _operating_point(b, model, case, curve, h)
         results["operating_point"] = point
         eta_pump = eta_curve or eta_pump
         if "bep_flow" in point:
             results["operating_region"] = _regions(model, point["bep_flow"]["value"])
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive, notes))
+    results["pumps_running"] = _q(case.running)
+    results["duty_case"] = case.duty
+    if case.running.value > 1 and "shaft_power" in results:
+        per_pump = b.step(
+            case.sid("power.shaft_per_pump"),
+            "Shaft power of each pump",
+            power.per_pump_power,
+            case.id,
+            P=Given(results["shaft_power"]["value"], "W", case.sid("power.shaft")),
+            n_run=case.running,
+        )
+        results["shaft_power_per_pump"] = _q(per_pump)
     results["system_curve"] = _system_curve(model, case, liquid, surfaces, curve)
     results["duty_point"] = _duty_point(model, case, liquid, surfaces)
     if curve is not None:
@@ -371,14 +408,18 @@ def _operating_flow(
     notes: list[str],
 ) -> Given | None:
     flows, heads = curve.values("flow"), curve.values("head")
+    n = case.running.value
+    parallel = model.pump.arrangement == "parallel"
+    share, lift = (n, 1.0) if parallel else (1.0, n)  # combined curve: Q x share, H x lift
 
     def difference(q: np.ndarray) -> np.ndarray:
         system = _hydraulics(
             _Sweep(), model, case, liquid, surfaces, flow=Given(q, "m^3/s", "solver")
         )  # type: ignore[arg-type]
-        return np.asarray(pump.monotone_cubic(flows, heads, q)) - np.asarray(system["tdh"].value)
+        pumps = lift * np.asarray(pump.monotone_cubic(flows, heads, q / share))
+        return pumps - np.asarray(system["tdh"].value)
 
-    Q = pump.operating_point(difference, flows[0], flows[-1])
+    Q = pump.operating_point(difference, flows[0] * share, flows[-1] * share)
     if Q is None:
         ends = difference(np.array([flows[0], flows[-1]]))
         why = (
@@ -406,28 +447,56 @@ def _operating_flow(
 
 
 def _operating_point(
-    b: TraceBuilder, case: Case, curve: CurvePoints, h: dict[str, Any]
+    b: TraceBuilder, model: Model, case: Case, curve: CurvePoints, h: dict[str, Any]
 ) -> tuple[dict[str, Any], Given | None]:
     sid = case.sid
+    several = case.running.value > 1
+    parallel = model.pump.arrangement == "parallel"
     Q = case.flow
+    if several and parallel:
+        Q = b.step(
+            sid("pump.flow_per_pump"),
+            "Flow of each pump (in parallel)",
+            pump.per_pump_flow,
+            case.id,
+            Q=case.flow,
+            n_run=case.running,
+        )
     H = b.step(
         sid("pump.head"),
-        "Pump head at the operating flow",
+        "Pump head at the operating flow" + (" (each pump)" if several else ""),
         pump.head_at,
         case.id,
         Q=Q,
         flow=curve.flow,
         head=curve.head,
     )
+    H_all = H
+    if several and not parallel:
+        H_all = b.step(
+            sid("pump.series_head"),
+            "Head of the pumps in series",
+            pump.series_head,
+            case.id,
+            H1=H,
+            n_run=case.running,
+        )
     b.step(
         sid("pump.head_balance"),
         "Head balance at the operating point (zero)",
         pump.head_balance,
         case.id,
-        H_pump=H,
+        H_pump=H_all,
         H_system=h["tdh"],
     )
-    point: dict[str, Any] = {"flow": _q(Q), "head": _q(H)}
+    point: dict[str, Any] = {
+        "flow": _q(case.flow),
+        "head": _q(H_all),
+        "pumps_running": _q(case.running),
+    }
+    if several:
+        point["flow_per_pump"] = _q(Q)
+        point["head_per_pump"] = _q(H)
     eta = None
     if curve.efficiency:
         eta = b.step(
@@ -527,7 +596,7 @@ def _motor(
     except ValueError:
         return {"peak_shaft_power": _q(peak)}
     loading = {
-        cid: quantity(r["shaft_power"]["value"] / rated.value, "")
+        cid: quantity(r.get("shaft_power_per_pump", r["shaft_power"])["value"] / rated.value, "")
         for cid, r in by_case.items()
         if "shaft_power" in r
     }

@@ -53,7 +53,8 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
             )
         )
         return found
-    found.append(_duty(model, point, case))
+    if results.get("duty_case", True):
+        found.append(_duty(model, point, case))
     if "npsh_required" in point:
         found.append(_npsh_margin(model, results, point, case))
     else:
@@ -62,7 +63,7 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         found += _operating_region(model, point, case)
     if model.pump.min_continuous_flow is not None:
         minimum = model.pump.min_continuous_flow.value
-        q = point["flow"]["value"]
+        q = point.get("flow_per_pump", point["flow"])["value"]
         found.append(
             Check(
                 id="min_continuous_flow",

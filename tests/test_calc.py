@@ -395,3 +395,53 @@ def test_level_ranges_make_cases_and_checks_name_the_governing_case():
     duty = next(c for c in t.checks if c.id == "duty_flow")
     assert duty.case == "C2"  # the highest static head governs the duty check
     assert [c.id for c in t.checks].count("duty_flow") == 1
+
+
+def test_parallel_pumps_share_the_flow_and_meet_the_system_curve():
+    # Two identical pumps in parallel: flows add at equal head (Karassik, Pump Handbook,
+    # 4th ed.). Independent check: bisection on 2 x pump flow against the system curve
+    # of this same case, built from the single-pump analytic curve.
+    text = CASE.replace("efficiency = 0.78\n", "count = 2\n") + _analytic_curve()
+    text = text.replace('flow = "20 L/s"', 'flow = "35 L/s"').replace(
+        'flow_range = ["0 L/s", "30 L/s"]', ""
+    )
+    t = solve(loads(text.encode()))
+    op = t.results["operating_point"]
+    q1 = op["flow_per_pump"]["value"]
+    assert op["flow"]["value"] == pytest.approx(2 * q1, rel=1e-12)
+    head = 42 + 0.2 * q1 * 1e3 - 0.02 * (q1 * 1e3) ** 2
+    assert op["head"]["value"] == pytest.approx(head, rel=1e-4)
+    assert t.results["total_dynamic_head"]["value"] == pytest.approx(op["head"]["value"], abs=1e-8)
+    eta = 0.78 * (1 - ((q1 * 1e3 - 22) / 22) ** 2)
+    assert op["efficiency"]["value"] == pytest.approx(eta, rel=2e-4)
+    per_pump = t.results["shaft_power_per_pump"]["value"]
+    assert per_pump == pytest.approx(t.results["shaft_power"]["value"] / 2, rel=1e-14)
+    # The reduced case runs one pump, further out on its curve.
+    reduced = next(c for c in t.cases if "One duty pump out" in c["title"])
+    single = t.results["cases"][reduced["id"]]["operating_point"]
+    assert single["pumps_running"]["value"] == 1
+    assert single["flow"]["value"] > q1
+    assert single["flow"]["value"] < op["flow"]["value"]
+
+
+def test_series_pumps_add_head():
+    text = CASE.replace("efficiency = 0.78\n", 'count = 2\narrangement = "series"\n')
+    text = text.replace('level = "25.0 m"', 'level = "60.0 m"') + _analytic_curve()
+    t = solve(loads(text.encode()))
+    op = t.results["operating_point"]
+    q = op["flow"]["value"] * 1e3
+    assert op["head"]["value"] == pytest.approx(2 * (42 + 0.2 * q - 0.02 * q * q), rel=1e-4)
+    assert t.step("pump.series_head").function == "pump.series_head"
+
+
+def test_standby_pump_gives_firm_capacity_and_all_running_cases():
+    text = CASE.replace("efficiency = 0.78\n", "count = 3\nstandby = 1\n") + _analytic_curve()
+    text = text.replace('flow = "20 L/s"', 'flow = "40 L/s"').replace(
+        'flow_range = ["0 L/s", "30 L/s"]', ""
+    )
+    t = solve(loads(text.encode()))
+    assert t.step("pump.duty_pumps").value == 2
+    running = {c["id"]: t.results["cases"][c["id"]]["pumps_running"]["value"] for c in t.cases}
+    assert running["C1"] == 2 and 3 in running.values() and 1 in running.values()
+    duty = next(c for c in t.checks if c.id == "duty_flow")
+    assert running[duty.case] == 2  # the required flow is asked of the duty pumps only

@@ -574,11 +574,25 @@ BAD: list[Bad] = [
         'cautions = "one"',
     ),
     Bad(
-        "pump-count-not-available",
+        "pump-count-without-curve",
         variant(("efficiency = 0.71\n", "efficiency = 0.71\ncount = 2\n")),
         "pump.count",
-        "not available in this version",
+        "need their curve",
         "count = 2",
+    ),
+    Bad(
+        "pump-count-not-whole",
+        variant(("efficiency = 0.71\n", "efficiency = 0.71\ncount = 1.5\n")),
+        "pump.count",
+        "whole number",
+        "count = 1.5",
+    ),
+    Bad(
+        "pump-speed-range-not-available",
+        variant(("efficiency = 0.71\n", 'efficiency = 0.71\nspeed_range = ["1 rpm", "2 rpm"]\n')),
+        "pump.speed_range",
+        "not available in this version",
+        "speed_range",
     ),
     Bad(
         "pump-curve-too-short",

@@ -110,7 +110,9 @@ _PIPE_KEYS = {
     "material",
 }
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow"}
-_PLANNED_PUMP_KEYS = ("count", "arrangement", "standby", "speed_range", "efficiency_basis")
+_PLANNED_PUMP_KEYS = ("speed_range", "efficiency_basis")
+ARRANGEMENTS = ("parallel", "series")
+MAX_PUMPS = 12
 _PROVENANCE_KEYS = (
     "manufacturer",
     "model",
@@ -127,6 +129,9 @@ _PUMP_KEYS = {
     "preferred_range",
     "allowable_range",
     "min_continuous_flow",
+    "count",
+    "standby",
+    "arrangement",
     *_PROVENANCE_KEYS,
     *_PLANNED_PUMP_KEYS,
 }
@@ -454,8 +459,8 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
         if key in data:
             r.problem(
                 f"pump.{key}",
-                f"The key pump.{key} (several pumps, speed ranges and "
-                "wire-to-water efficiency) is not available in this version.",
+                f"The key pump.{key} (speed ranges and wire-to-water efficiency) is not "
+                "available in this version.",
             )
     elevation = r.quantity(data, "elevation", "pump", "length", required=True)
     efficiency = r.quantity(data, "efficiency", "pump", "dimensionless", fraction=True)
@@ -478,9 +483,26 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
             ranges[key] = _fraction_pair(r, data[key], f"pump.{key}")
     provenance = {key: r.text(data, key, "pump", "") for key in _PROVENANCE_KEYS if key in data}
     minimum = r.quantity(data, "min_continuous_flow", "pump", "flow", positive=True)
+    count = _whole(r, data, "count", 1, MAX_PUMPS)
+    standby = _whole(r, data, "standby", 0, MAX_PUMPS - 1)
+    arrangement = r.text(data, "arrangement", "pump", "parallel", ARRANGEMENTS)
+    if count and standby and standby.value >= count.value:
+        r.problem(
+            "pump.standby",
+            "At least one pump must remain in service: pump.standby must be less than pump.count.",
+        )
+    if count and count.value > 1 and curve is None:
+        r.problem(
+            "pump.count",
+            "Several pumps need their curve: give [pump.curve] for one "
+            "pump, so the combined curve can be built.",
+        )
     if elevation is None:
         return None
     return Pump(
+        count=count or Given(1.0, "", "pump.count"),
+        standby=standby or Given(0.0, "", "pump.standby"),
+        arrangement=arrangement,
         elevation=elevation,
         efficiency=efficiency,
         speed=speed,
@@ -490,6 +512,18 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
         min_continuous_flow=minimum,
         provenance=provenance,
     )
+
+
+def _whole(r: _Reader, data: dict[str, Any], key: str, low: int, high: int) -> Given | None:
+    """A whole number of pumps between ``low`` and ``high``."""
+    where = f"pump.{key}"
+    if key not in data:
+        return None
+    raw = data[key]
+    if isinstance(raw, bool) or not isinstance(raw, int) or not low <= raw <= high:
+        r.problem(where, f"Expected a whole number from {low} to {high}; got {as_written(raw)}.")
+        return None
+    return Given(float(raw), "", where)
 
 
 def _fraction_pair(r: _Reader, raw: Any, path: str) -> tuple[Given, Given] | None:

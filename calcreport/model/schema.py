@@ -131,6 +131,9 @@ class Pump:
     allowable_range: tuple[Given, Given] | None = None
     min_continuous_flow: Given | None = None
     provenance: dict[str, str] = field(default_factory=dict)
+    count: Given = field(default_factory=lambda: Given(1.0, "", "pump.count"))
+    standby: Given = field(default_factory=lambda: Given(0.0, "", "pump.standby"))
+    arrangement: str = "parallel"
 
 
 @dataclass(frozen=True)

@@ -1,7 +1,7 @@
 """Power and energy of a pump: hydraulic, shaft and electrical; energy and cost.
 
 Power
-    hydraulic_power, shaft_power, electrical_power, peak_shaft_power
+    hydraulic_power, shaft_power, electrical_power, peak_shaft_power, per_pump_power
 Energy
     hours_to_seconds, annual_energy, annual_cost
 """
@@ -22,6 +22,7 @@ __all__ = [
     "hours_to_seconds",
     "hydraulic_power",
     "peak_shaft_power",
+    "per_pump_power",
     "shaft_power",
 ]
 
@@ -247,6 +248,42 @@ def annual_cost(E: Any, price: Any) -> Any:
        A Guide to Successful Applications, 2004.
     """
     return E / JOULES_PER_KWH * price
+
+
+@equation(
+    symbol="P_1",
+    text="P_1 = P/n_run",
+    latex=r"P_1 = \frac{P}{n_{run}}",
+    substitute="{P} / {n_run}",
+    reference="karassik_2008",
+)
+def per_pump_power(P: Any, n_run: Any) -> Any:
+    r"""Power of each of identical pumps sharing a duty.
+
+    .. math:: P_1 = \frac{P}{n_{run}}
+
+    Parameters
+    ----------
+    P : float
+        Power of all the pumps running [W]
+    n_run : float
+        Pumps running [-]
+
+    Returns
+    -------
+    P1 : float
+        Power of one pump [W]
+
+    Examples
+    --------
+    >>> per_pump_power(24e3, 2.0)
+    12000.0
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008.
+    """
+    return P / n_run
 
 
 PEAK_POINTS = 401

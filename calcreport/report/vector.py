@@ -127,16 +127,27 @@ def _record(figure: Any) -> list[Any]:
             else:
                 ops.append(code)
 
-        def draw_text(self, gc: Any, x: float, y: float, s: str, prop: Any, angle: float,
-                      ismath: Any = False, mtext: Any = None) -> None:
-            font = _TEXT_FONTS.get((prop.get_name(), prop.get_weight() in _BOLD,
-                                    prop.get_style() != "normal"))
+        def draw_text(
+            self,
+            gc: Any,
+            x: float,
+            y: float,
+            s: str,
+            prop: Any,
+            angle: float,
+            ismath: Any = False,
+            mtext: Any = None,
+        ) -> None:
+            font = _TEXT_FONTS.get(
+                (prop.get_name(), prop.get_weight() in _BOLD, prop.get_style() != "normal")
+            )
             if ismath or font is None:  # mathtext, or a face the report does not embed
                 super().draw_text(gc, x, y, s, prop, angle, ismath, mtext)
                 return
-            r, g, b, a = gc.get_rgb()
-            ops.append(("text", x, y, angle, font, prop.get_size_in_points(), (r, g, b), s,
-                        self._clip(gc)))
+            r, g, b, _ = gc.get_rgb()
+            ops.append(
+                ("text", x, y, angle, font, prop.get_size_in_points(), (r, g, b), s, self._clip(gc))
+            )
 
         def draw_image(self, gc: Any, x: float, y: float, im: Any) -> None:
             height, width = im.shape[:2]
@@ -184,8 +195,17 @@ class ChartFlowable(Flowable):
                 self._image(*op[1:])
         canvas.restoreState()
 
-    def _text(self, x: float, y: float, angle: float, font: str, size: float,
-              rgb: tuple[float, float, float], string: str, clip: str) -> None:
+    def _text(
+        self,
+        x: float,
+        y: float,
+        angle: float,
+        font: str,
+        size: float,
+        rgb: tuple[float, float, float],
+        string: str,
+        clip: str,
+    ) -> None:
         canvas = self.canv
         canvas.saveState()
         if clip:
