@@ -973,7 +973,15 @@ def _power(
     E = b.step(
         sid("energy.annual"), "Annual energy", power.annual_energy, case.id, P_e=P_e, t=hours
     )
-    energy = {"annual_energy": _q(E)}
+    e_v = b.step(
+        sid("energy.specific"),
+        "Specific energy (per volume pumped)",
+        power.specific_energy,
+        case.id,
+        P_e=P_e,
+        Q=case.flow,
+    )
+    energy = {"annual_energy": _q(E), "specific_energy": _q(e_v)}
     if op.energy_price is not None:
         C = b.step(
             sid("energy.annual_cost"),

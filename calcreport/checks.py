@@ -89,6 +89,8 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
     exit_check = _exit_item(model, "C1")
     if exit_check:
         found.append(exit_check)
+    if "pump_curve" in results:
+        found.append(_curve_stability(model, results))
     motor = results.get("motor", {})
     if "rated_power" in motor:
         rated = motor["rated_power"]["value"]
@@ -124,6 +126,43 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
             )
         )
     return found
+
+
+def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
+    """A head curve that rises from shutoff before falling can hunt between two flows."""
+    heads = results["pump_curve"]["head"]["value"]
+    shutoff, peak = heads[0], max(heads)
+    drooping = peak > shutoff * (1 + 1e-6)
+    static = results["static_head"]["value"] + results["pressure_head"]["value"]
+    parallel = model.pump.count.value > 1 and model.pump.arrangement == "parallel"
+    risky = drooping and (parallel or static > shutoff)
+    why = []
+    if parallel:
+        why.append("pumps run in parallel")
+    if static > shutoff:
+        why.append("the static head exceeds the shutoff head")
+    return Check(
+        id="curve_stability",
+        title="Head curve rises steadily to shutoff",
+        status="review" if risky else "pass",
+        value=peak - shutoff,
+        unit="m",
+        limit=0.0,
+        comparison="<=",
+        basis="A drooping curve (head at shutoff below the curve's peak) "
+        "can operate at two flows for one head: unstable in parallel operation and against a "
+        "high static head",
+        reference="karassik_2008",
+        case="C1",
+        message=("drooping curve; " + " and ".join(why))
+        if risky
+        else (
+            "drooping curve, acceptable here: single pump against a lower static head"
+            if drooping
+            else ""
+        ),
+        margin=shutoff - peak,
+    )
 
 
 def governing(checks: list[Check]) -> list[Check]:

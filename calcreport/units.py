@@ -61,6 +61,7 @@ KINDS: dict[str, Kind] = {
         Kind("power", "W", "kW", "hp", '"15 kW", "20 hp"'),
         Kind("energy", "J", "kWh", "kWh", '"1200 kWh"'),
         Kind("volume", "m^3", "m^3", "gallon", '"250000 m^3", "2 Mgallon"'),
+        Kind("specific_energy", "J/m^3", "kWh/m^3", "kWh/kgal", '"0.25 kWh/m^3"'),
         Kind("speed", "1/s", "rpm", "rpm", '"2950 rpm"'),
         Kind("time", "s", "s", "s", '"2 s"'),
         Kind("dimensionless", "", "", "", '0.72 or "72 %"'),
@@ -80,6 +81,7 @@ _DIMENSION_OF = {
     "power": "[length] ** 2 * [mass] / [time] ** 3",
     "energy": "[length] ** 2 * [mass] / [time] ** 2",
     "volume": "[length] ** 3",
+    "specific_energy": "[mass] / [length] / [time] ** 2",
     "speed": "1 / [time]",
     "time": "[time]",
     "dimensionless": "dimensionless",
@@ -153,6 +155,8 @@ _FAST: dict[str, tuple[str, float, float]] = {
     "m^3": ("volume", 1.0, 0.0),
     "kWh": ("energy", 3.6e6, 0.0),
     "J": ("energy", 1.0, 0.0),
+    "kWh/m^3": ("specific_energy", 3.6e6, 0.0),
+    "kWh/kgal": ("specific_energy", 3.6e6 / (1000.0 * _GALLON), 0.0),
     "s": ("time", 1.0, 0.0),
 }
 

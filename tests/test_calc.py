@@ -445,3 +445,24 @@ def test_standby_pump_gives_firm_capacity_and_all_running_cases():
     assert running["C1"] == 2 and 3 in running.values() and 1 in running.values()
     duty = next(c for c in t.checks if c.id == "duty_flow")
     assert running[duty.case] == 2  # the required flow is asked of the duty pumps only
+
+
+def test_specific_energy_is_electrical_power_over_flow():
+    t = solve(loads(CASE.encode()))
+    e = t.results["energy"]["specific_energy"]
+    expected = t.results["electrical_power"]["value"] / 0.020  # J/m^3
+    assert e["value"] == pytest.approx(expected, rel=1e-14) and e["unit"] == "J/m^3"
+
+
+def test_drooping_curve_flagged_for_parallel_service():
+    drooping = (
+        '\n[pump.curve]\nflow = ["0 L/s", "10 L/s", "20 L/s", "30 L/s", "40 L/s"]\n'
+        'head = ["38 m", "41 m", "40 m", "35 m", "26 m"]\n'
+        "efficiency = [0.0, 0.55, 0.74, 0.78, 0.70]\n"
+    )
+    single = solve(loads((CASE.replace("efficiency = 0.78\n", "") + drooping).encode()))
+    check = next(c for c in single.checks if c.id == "curve_stability")
+    assert check.status == "pass" and "drooping" in check.message
+    twin = solve(loads((CASE.replace("efficiency = 0.78\n", "count = 2\n") + drooping).encode()))
+    check = next(c for c in twin.checks if c.id == "curve_stability")
+    assert check.status == "review" and "parallel" in check.message

@@ -3,7 +3,7 @@
 Power
     hydraulic_power, shaft_power, electrical_power, peak_shaft_power, per_pump_power
 Energy
-    hours_to_seconds, annual_energy, annual_cost
+    hours_to_seconds, annual_energy, annual_cost, specific_energy
 """
 
 from __future__ import annotations
@@ -24,6 +24,7 @@ __all__ = [
     "peak_shaft_power",
     "per_pump_power",
     "shaft_power",
+    "specific_energy",
 ]
 
 JOULES_PER_KWH = 3.6e6
@@ -350,3 +351,40 @@ def peak_shaft_power(rho: Any, flow: Any, head: Any, efficiency: Any) -> Any:
     usable = eta >= 0.1 * np.max(eta)
     power = rho * G * q[usable] * monotone_cubic(flow, head, q[usable]) / eta[usable]
     return float(np.max(power))
+
+
+@equation(
+    symbol="e_V",
+    text="e_V = P_e/Q",
+    latex=r"e_V = \frac{P_e}{Q}",
+    substitute="{P_e} / {Q}",
+    reference="hi_power",
+)
+def specific_energy(P_e: Any, Q: Any) -> Any:
+    r"""Electrical energy per volume pumped.
+
+    .. math:: e_V = \frac{P_e}{Q}
+
+    Parameters
+    ----------
+    P_e : float
+        Electrical input power [W]
+    Q : float
+        Flow delivered [m^3/s]
+
+    Returns
+    -------
+    e_V : float
+        Specific energy; 1 kWh/m^3 = 3.6e6 J/m^3 [J/m^3]
+
+    Examples
+    --------
+    >>> specific_energy(3600.0, 0.01) / 3.6e6
+    0.1
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (specific energy).
+    """
+    return P_e / Q

@@ -66,6 +66,7 @@ _KIND_OF_UNIT = {
     "m/s": "velocity",
     "W": "power",
     "J": "energy",
+    "J/m^3": "specific_energy",
 }
 
 
@@ -407,6 +408,8 @@ class _Report:
         energy = self.r.get("energy", {})
         if energy:
             parts = [f"annual energy {self.q(energy['annual_energy'], 'energy', 5)}"]
+            if "specific_energy" in energy:
+                parts.append(f"specific energy {self.q(energy['specific_energy'])}")
             if "annual_cost" in energy:
                 cost = energy["annual_cost"]
                 parts.append(f"annual energy cost {cost['value']:,.0f} {text(cost['unit'])}")
