@@ -69,6 +69,38 @@ def _parser() -> argparse.ArgumentParser:
         metavar="DIR",
         help="folder for <input>.pdf and <input>.trace.json (default: beside the input)",
     )
+    from calcreport.recheck import SCOPE as RECHECK_SCOPE
+
+    recheck = commands.add_parser(
+        "recheck",
+        help="recompute every step of a trace JSON from its recorded arguments (exit 0, 1 or 2)",
+        description="Recompute every step of a trace JSON from its recorded arguments. "
+        f"{RECHECK_SCOPE} Exit status: 0 every step confirmed, 1 a step does not match, "
+        "2 the file is not a readable trace.",
+    )
+    recheck.add_argument("trace", metavar="TRACE.json", help="a trace JSON file")
+    recheck.add_argument(
+        "--tolerance",
+        metavar="REL",
+        type=_tolerance,
+        default=1e-9,
+        help="relative tolerance of each comparison (default 1e-9; values within 1e-12 of "
+        "each other always agree)",
+    )
+    recheck.add_argument(
+        "--json", action="store_true", help="print the structured report as JSON instead"
+    )
+    diff = commands.add_parser(
+        "diff",
+        help="compare two trace JSON files: inputs, results, checks, steps (exit 0, 1 or 2)",
+        description="Compare two trace JSON files of one system and list what changed: "
+        "inputs added, removed or changed; results that moved; checks whose status or value "
+        "changed; steps added or removed; project details such as the revision and date. "
+        "Exit status: 0 no differences, 1 differences, 2 a file is not a readable trace.",
+    )
+    diff.add_argument("old", metavar="OLD.trace.json", help="the earlier trace JSON")
+    diff.add_argument("new", metavar="NEW.trace.json", help="the later trace JSON")
+    diff.add_argument("--json", action="store_true", help="print the differences as JSON")
     return parser
 
 
@@ -152,7 +184,50 @@ def _build(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
-_COMMANDS = {"new": _new, "check": _check, "solve": _solve, "build": _build}
+def _tolerance(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number") from None
+    if not (0 <= value < 1):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a relative tolerance from 0 to 1")
+    return value
+
+
+def _recheck(args: argparse.Namespace) -> int:
+    import json
+
+    from calcreport.recheck import recheck_file, render_text
+
+    report = recheck_file(args.trace, args.tolerance)
+    if args.json:
+        sys.stdout.write(json.dumps(report.to_json(), indent=1, ensure_ascii=False) + "\n")
+    else:
+        sys.stdout.write(render_text(report))
+    return EXIT_OK if report.ok else EXIT_INTERNAL
+
+
+def _diff(args: argparse.Namespace) -> int:
+    import json
+
+    from calcreport.diff import diff_files, render_text
+
+    report = diff_files(args.old, args.new)
+    if args.json:
+        sys.stdout.write(json.dumps(report.to_json(), indent=1, ensure_ascii=False) + "\n")
+    else:
+        sys.stdout.write(render_text(report))
+    return EXIT_OK if report.identical else EXIT_INTERNAL
+
+
+_COMMANDS = {
+    "new": _new,
+    "check": _check,
+    "solve": _solve,
+    "build": _build,
+    "recheck": _recheck,
+    "diff": _diff,
+}
 
 # Result key → (label, kind of quantity for display).
 _SUMMARY_ROWS = (
