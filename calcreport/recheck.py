@@ -641,7 +641,21 @@ def _check_source(
 def _check_assumption(
     what: str, name: str, value: float, assumption: dict[str, Any]
 ) -> Finding | None:
-    """An assumption's printed value (``"0 m"``, ``"1.0000"``) must be the argument, rounded."""
+    """An assumption's value must be the argument: exactly where the trace records the
+    number (``quantity``), and to the printed digits (``"0 m"``, ``"1.0000"``)."""
+    recorded = assumption.get("quantity")
+    if (
+        isinstance(recorded, dict)
+        and isinstance(recorded.get("value"), int | float)
+        and not _close(value, float(recorded["value"]), 0.0)
+    ):
+        return Finding(
+            what,
+            value,
+            float(recorded["value"]),
+            f"The argument {name} is {value!r}, but assumption {assumption.get('id')} "
+            f"records {recorded['value']!r}.",
+        )
     text = assumption.get("value")
     if not isinstance(text, str):
         return None

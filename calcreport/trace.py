@@ -234,9 +234,10 @@ class TraceBuilder:
     def assume(self, text: str, value: float | None = None, unit: str = "") -> Given:
         """Number an assumption (A1, A2, …) and return its value as a source."""
         ident = f"A{len(self.assumptions) + 1}"
-        entry = {"id": ident, "text": text}
+        entry: dict[str, Any] = {"id": ident, "text": text}
         if value is not None:
             entry["value"] = f"{fmt(value)} {pretty_unit(unit)}".strip()
+            entry["quantity"] = quantity(value, unit)
         self.assumptions.append(entry)
         return Given(value if value is not None else math.nan, unit, ident)
 

@@ -251,7 +251,9 @@ def test_assumption_value_must_agree_with_its_printed_value(pump: dict[str, Any]
 
 
 def test_printed_value_rounding_is_accepted(pump: dict[str, Any]):
+    # A trace that records only the printed value: rounding to its digits is accepted.
     assumption = next(a for a in pump["assumptions"] if a.get("value") == "1.0000")
+    del assumption["quantity"]
     using = users(pump, assumption["id"])
     for ident in using:
         for arg in step(pump, ident)["arguments"].values():
@@ -470,3 +472,11 @@ def test_subprocess_exit_codes(pump: dict[str, Any], tmp_path: Path):
     assert done.returncode == 1, done.stderr
     assert done.stdout.rstrip().splitlines()[-1].endswith("(first: pipe.S1.velocity)")
     assert done.stderr == ""
+
+
+def test_tampered_assumption_number_is_caught(pump: dict[str, Any]):
+    # The trace records each assumption's number; the arguments that disagree are named.
+    assumption = next(a for a in pump["assumptions"] if a.get("value") == "1.0000")
+    assumption["quantity"]["value"] = 0.95
+    found = mismatched(recheck(pump))
+    assert set(found) == users(pump, assumption["id"])
