@@ -261,40 +261,21 @@ def _pump_curve(b: TraceBuilder, model: Model) -> CurvePoints | None:
             "(Q ∝ n, H ∝ n²); efficiency is taken unchanged at corresponding points; "
             "NPSH required ∝ n² is an approximation."
         )
-        n0 = curve.speed
-        flow = [
-            b.step(
-                f"pump.at_speed.flow[{i}]",
-                f"Curve flow {i} at the operating speed",
-                pump.affinity_flow,
-                Q0=q,
-                n=n,
-                n0=n0,
-            )
-            for i, q in enumerate(flow, 1)
-        ]
-        head = [
-            b.step(
-                f"pump.at_speed.head[{i}]",
-                f"Curve head {i} at the operating speed",
-                pump.affinity_head,
-                H0=h,
-                n=n,
-                n0=n0,
-            )
-            for i, h in enumerate(head, 1)
-        ]
-        npsh = [
-            b.step(
-                f"pump.at_speed.npsh_required[{i}]",
-                f"Curve NPSHr {i} at the operating speed",
-                pump.affinity_head,
-                H0=h,
-                n=n,
-                n0=n0,
-            )
-            for i, h in enumerate(npsh, 1)
-        ]
+
+        def scaled(points: list[Given], name: str, label: str, law: Any, arg: str) -> list[Given]:
+            return [
+                b.step(
+                    f"pump.at_speed.{name}[{i}]",
+                    f"Curve {label} {i} at the operating speed",
+                    law,
+                    **{arg: point, "n": n, "n0": curve.speed},
+                )
+                for i, point in enumerate(points, 1)
+            ]
+
+        flow = scaled(flow, "flow", "flow", pump.affinity_flow, "Q0")
+        head = scaled(head, "head", "head", pump.affinity_head, "H0")
+        npsh = scaled(npsh, "npsh_required", "NPSHr", pump.affinity_head, "H0")
     return CurvePoints(flow, head, list(curve.efficiency), npsh)
 
 
