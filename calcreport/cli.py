@@ -231,7 +231,7 @@ _COMMANDS = {
 
 # Result key → (label, kind of quantity for display).
 _SUMMARY_ROWS = (
-    ("flow", "Flow", "flow"),
+    ("flow", "Flow (operating point when a curve is given)", "flow"),
     ("static_head", "Static head", "length"),
     ("pressure_head", "Pressure head", "length"),
     ("friction_loss", "Friction loss", "length"),
@@ -258,6 +258,21 @@ def summary(trace: dict[str, Any]) -> str:
     for key, label, kind in _SUMMARY_ROWS:
         if key in results:
             lines.append(f"  {label:<{width}}{show(results[key], kind, system)}")
+    point = results.get("operating_point", {})
+    for key, label, kind in (
+        ("efficiency", "Pump efficiency", None),
+        ("npsh_required", "NPSH required", "length"),
+        ("npsh_margin_ratio", "NPSH margin ratio NPSHa/NPSHr", None),
+    ):
+        if key in point:
+            shown = show(point[key], kind, system) if kind else fmt(point[key]["value"], 4)
+            lines.append(f"  {label:<{width}}{shown}")
+    motor = results.get("motor", {})
+    if "rated_power" in motor:
+        lines.append(
+            f"  {'Motor rating (' + motor['series'] + ')':<{width}}"
+            f"{show(motor['rated_power'], 'power', system)}"
+        )
     energy = results.get("energy", {})
     if "annual_energy" in energy:
         lines.append(
