@@ -51,6 +51,7 @@ class Case:
     destination_level: Given
     running: Given  # identical pumps running in this case
     duty: bool = True  # the required flow must be met in this case
+    temperature: Given | None = None  # liquid temperature, when not the fluid's own
 
     def sid(self, step: str) -> str:
         """Step id within this case (the design case C1 has plain ids)."""
@@ -104,7 +105,17 @@ def solve(model: Model) -> Trace:
     by_case: dict[str, dict[str, Any]] = {}
     found: list[Check] = []
     for case in cases:
-        result = _solve_case(b, model, case, liquid, surfaces, curve, eta_drive, notes)
+        case_liquid, case_surfaces = liquid, surfaces
+        if case.temperature is not None:
+            prefix = f"{case.id}."
+            case_liquid = _liquid(b, model, p_baro, case.temperature, prefix)
+            case_surfaces = (
+                p_baro,
+                _surface_pressure(b, model.source, case_liquid, p_baro, prefix),
+                _surface_pressure(b, model.destination, case_liquid, p_baro, prefix),
+                exit_head,
+            )
+        result = _solve_case(b, model, case, case_liquid, case_surfaces, curve, eta_drive, notes)
         by_case[case.id] = result
         found += checks.evaluate(model, result, case.id)
     results = dict(by_case["C1"])
@@ -195,12 +206,20 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
     low = (src.level_high or src.level, dst.level_low or dst.level)
     cases: list[Case] = []
 
-    def case(title: str, levels: tuple[Given, Given], running: Given, needed: bool = True) -> None:
+    def case(
+        title: str,
+        levels: tuple[Given, Given],
+        running: Given,
+        needed: bool = True,
+        flow: Given | None = None,
+        temperature: Given | None = None,
+    ) -> None:
         cases.append(
             Case(
                 id=f"C{len(cases) + 1}",
                 title=title,
-                flow=model.flow,
+                flow=flow or model.flow,
+                temperature=temperature,
                 source_level=levels[0],
                 npsh_level=npsh_level,
                 destination_level=_destination_elevation(model, levels[1]),
@@ -215,6 +234,37 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
         case(f"Highest static head: source low, destination high{pumps}", high, duty)
     if src.level_high or dst.level_low:
         case(f"Lowest static head: source high, destination low{pumps}", low, duty)
+    flows = sorted(model.envelope.flows, key=lambda q: q.value)
+    if flows:
+        peak, least = flows[-1], flows[0]
+        case(
+            f"Peak required flow {peak.value * 1e3:.4g} L/s, highest static head{pumps}",
+            high,
+            duty,
+            flow=peak,
+        )
+        if model.pump.curve is None and least.value < model.flow.value:
+            case(
+                f"Least required flow {least.value * 1e3:.4g} L/s, lowest static head",
+                low,
+                duty,
+                flow=least,
+            )
+    temperatures = model.envelope.temperatures
+    if temperatures:
+        cold, hot = temperatures
+        case(
+            f"Coldest liquid {cold.value - 273.15:.4g} °C (most viscous), highest static head",
+            high,
+            duty,
+            temperature=cold,
+        )
+        case(
+            f"Warmest liquid {hot.value - 273.15:.4g} °C (least NPSH), lowest static head",
+            low,
+            duty,
+            temperature=hot,
+        )
     if standby.value > 0:
         case(f"All {count.value:g} pumps running, highest static head", high, count, False)
     if duty.value > 1:
@@ -290,6 +340,7 @@ def _solve_case(
     notes: list[str],
 ) -> dict[str, Any]:
     """Hydraulics, operating point, NPSH and power of one case."""
+    required = case.flow
     operating = None
     if curve is not None:
         operating = _operating_flow(b, model, case, liquid, surfaces, curve, notes)
@@ -306,6 +357,7 @@ def _solve_case(
         if "bep_flow" in point:
             results["operating_region"] = _regions(model, point["bep_flow"]["value"])
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive, notes))
+    results["required_flow"] = _q(required)
     results["pumps_running"] = _q(case.running)
     results["duty_case"] = case.duty
     if case.running.value > 1 and "shaft_power" in results:
@@ -622,30 +674,42 @@ def _barometric(b: TraceBuilder, model: Model) -> Given:
     )
 
 
-def _liquid(b: TraceBuilder, model: Model, p_baro: Given) -> Liquid:
+def _liquid(
+    b: TraceBuilder, model: Model, p_baro: Given, T: Given | None = None, prefix: str = ""
+) -> Liquid:
+    """Liquid properties at temperature ``T`` (default the fluid's), steps ids prefixed."""
     fluid = model.fluid
     if fluid.kind == "custom":
         assert fluid.density and fluid.viscosity and fluid.vapor_pressure
         return Liquid(fluid.density, fluid.viscosity, fluid.vapor_pressure)
-    T = fluid.temperature
-    p_v = b.step("fluid.vapor_pressure", "Vapour pressure of water", water.saturation_pressure, T=T)
+    T = T or fluid.temperature
+    at = f" at {T.value - 273.15:.4g} °C" if prefix else ""
+    p_v = b.step(
+        f"{prefix}fluid.vapor_pressure",
+        f"Vapour pressure of water{at}",
+        water.saturation_pressure,
+        T=T,
+    )
     if model.source.saturation:
         p = p_v
     else:
         assert model.source.pressure is not None
         p = b.step(
-            "fluid.pressure",
+            f"{prefix}fluid.pressure",
             "Absolute pressure on the source surface",
             head.absolute_pressure,
             p_baro=p_baro,
             p_g=model.source.pressure,
         )
-    rho = b.step("fluid.density", "Density of water", water.density, T=T, p=p)
-    mu = b.step("fluid.viscosity", "Dynamic viscosity of water", water.viscosity, T=T, rho=rho)
-    b.assume(
-        "Liquid properties are those at the source surface pressure and the stated "
-        "temperature throughout the system."
+    rho = b.step(f"{prefix}fluid.density", f"Density of water{at}", water.density, T=T, p=p)
+    mu = b.step(
+        f"{prefix}fluid.viscosity", f"Dynamic viscosity of water{at}", water.viscosity, T=T, rho=rho
     )
+    if not prefix:
+        b.assume(
+            "Liquid properties are those at the source surface pressure and the stated "
+            "temperature throughout the system."
+        )
     return Liquid(rho, mu, p_v)
 
 
@@ -666,10 +730,12 @@ def _exit_head(b: TraceBuilder, model: Model) -> Given | None:
     )
 
 
-def _surface_pressure(b: TraceBuilder, vessel: Vessel, liquid: Liquid, p_baro: Given) -> Given:
+def _surface_pressure(
+    b: TraceBuilder, vessel: Vessel, liquid: Liquid, p_baro: Given, prefix: str = ""
+) -> Given:
     if vessel.saturation:
         return b.step(
-            f"{vessel.role}.pressure",
+            f"{prefix}{vessel.role}.pressure",
             f"Gauge pressure on the boiling {vessel.role} surface",
             head.saturation_gauge_pressure,
             p_v=liquid.vapor_pressure,

@@ -54,7 +54,7 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         )
         return found
     if results.get("duty_case", True):
-        found.append(_duty(model, point, case))
+        found.append(_duty(results, point, case))
     if "npsh_required" in point:
         found.append(_npsh_margin(model, results, point, case))
     else:
@@ -336,8 +336,8 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], c
     )
 
 
-def _duty(model: Model, point: dict[str, Any], case: str) -> Check:
-    q, required = point["flow"]["value"], model.flow.value
+def _duty(results: dict[str, Any], point: dict[str, Any], case: str) -> Check:
+    q, required = point["flow"]["value"], results["required_flow"]["value"]
     ok = q >= required * (1 - 1e-9)
     return Check(
         id="duty_flow",
@@ -348,7 +348,8 @@ def _duty(model: Model, point: dict[str, Any], case: str) -> Check:
         limit=required,
         comparison=">=",
         basis="The operating flow of the selected pump is not below "
-        "duty.flow; the vendor's test tolerance (ISO 9906 acceptance grade) is not included",
+        "the case's required flow (duty.flow, or the peak of envelope.flow_required); "
+        "the vendor's test tolerance (ISO 9906 acceptance grade) is not included",
         reference="input",
         case=case,
         message=""

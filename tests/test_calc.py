@@ -466,3 +466,34 @@ def test_drooping_curve_flagged_for_parallel_service():
     twin = solve(loads((CASE.replace("efficiency = 0.78\n", "count = 2\n") + drooping).encode()))
     check = next(c for c in twin.checks if c.id == "curve_stability")
     assert check.status == "review" and "parallel" in check.message
+
+
+def test_temperature_range_gives_cold_and_warm_cases_with_their_own_properties():
+    # Water properties per case from IAPWS (iapws, test-only): the warm case has the
+    # higher vapour pressure and so less NPSH available; the cold one the higher viscosity.
+    iapws = pytest.importorskip("iapws")
+    text = CASE + '\n[envelope]\ntemperature = ["5 degC", "60 degC"]\n'
+    t = solve(loads(text.encode()))
+    titles = {c["id"]: c["title"] for c in t.cases}
+    cold = next(i for i, title in titles.items() if title.startswith("Coldest"))
+    warm = next(i for i, title in titles.items() if title.startswith("Warmest"))
+    mu_cold = t.step(f"{cold}.fluid.viscosity").value
+    assert mu_cold == pytest.approx(iapws.IAPWS97(T=278.15, P=0.101325).mu, rel=1e-6)
+    p_v_warm = t.step(f"{warm}.fluid.vapor_pressure").value
+    assert p_v_warm == pytest.approx(iapws.IAPWS97(T=333.15, x=0).P * 1e6, rel=1e-8)
+    cases = t.results["cases"]
+    assert cases[warm]["npsh_available"]["value"] < cases["C1"]["npsh_available"]["value"]
+    npsh = next(c for c in t.checks if c.id == "npsh_available")
+    assert npsh.case == warm  # the least NPSH governs
+
+
+def test_peak_required_flow_governs_the_duty_check():
+    text = (
+        CASE.replace("efficiency = 0.78\n", "")
+        + _analytic_curve()
+        + '\n[envelope]\nflow_required = ["15 L/s", "20 L/s", "25 L/s"]\n'
+    )
+    t = solve(loads(text.encode()))
+    duty = next(c for c in t.checks if c.id == "duty_flow")
+    assert duty.limit == pytest.approx(0.025)
+    assert duty.status == "fail"  # the pump gives about 23.3 L/s (CHECK-VALUES section 11)

@@ -567,6 +567,25 @@ BAD: list[Bad] = [
     ),
     # A key of the format that this version does not read yet: said so, not "unknown".
     Bad(
+        "envelope-temperature-reversed",
+        variant(
+            (
+                "efficiency = 0.71\n",
+                'efficiency = 0.71\n\n[envelope]\ntemperature = ["30 degC", "5 degC"]\n',
+            )
+        ),
+        "envelope.temperature",
+        "lowest temperature first",
+        "temperature = [",
+    ),
+    Bad(
+        "envelope-aged-pipe-not-available",
+        variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[envelope]\nroughness = "aged"\n')),
+        "envelope.roughness",
+        "not available in this version",
+        'roughness = "aged"',
+    ),
+    Bad(
         "report-cautions-not-a-list",
         variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[report]\ncautions = "one"\n')),
         "report.cautions",

@@ -22,6 +22,7 @@ import itertools
 import math
 import re
 import tomllib
+from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
@@ -29,6 +30,7 @@ from calcreport import catalog
 from calcreport.errors import InputError, Problem
 from calcreport.model.schema import (
     Criteria,
+    Envelope,
     Fitting,
     Fluid,
     Given,
@@ -72,7 +74,10 @@ _TOP_KEYS = {
     "criteria",
     "report",
     "revision",
+    "envelope",
 }
+_ENVELOPE_KEYS = {"temperature", "flow_required", "roughness", "strainer_dirty_dp"}
+_PLANNED_ENVELOPE_KEYS = ("roughness", "strainer_dirty_dp")
 _REPORT_KEYS = {"purpose", "exclusions", "cautions"}
 _REVISION_KEYS = {"revision", "date", "description", "prepared_by", "checked_by"}
 _PROJECT_KEYS = {
@@ -421,6 +426,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     operation = _operation(r, r.table(data, "operation", "operation", required=False) or {})
     pipes = _pipes(r, data.get("pipe"))
     criteria = _criteria(r, r.table(data, "criteria", "criteria", required=False) or {})
+    envelope = _envelope(r, r.table(data, "envelope", "envelope", required=False) or {}, fluid)
 
     motor_efficiency = r.quantity(motor, "efficiency", "motor", "dimensionless", fraction=True)
     drive_efficiency = r.quantity(drive, "efficiency", "drive", "dimensionless", fraction=True)
@@ -429,7 +435,8 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     # is checked when its surface pressure was read without one.
     vessels = [v for v in (source, destination) if v and r.count(f"{v.role}.pressure") == 0]
     if fluid and vessels and r.count("fluid") == 0 and r.count("site") == 0:
-        _physical_checks(r, fluid, site, vessels)
+        for temperature in (fluid.temperature, *envelope.temperatures):
+            _physical_checks(r, replace(fluid, temperature=temperature), site, vessels)
 
     if r.problems or None in (fluid, flow, source, destination, pump):
         return None
@@ -438,6 +445,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         sha256=sha,
         text=text,
         project=project,
+        envelope=envelope,
         fluid=fluid,  # type: ignore[arg-type]
         flow=flow,  # type: ignore[arg-type]
         flow_range=flow_range,
@@ -451,6 +459,45 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         pipes=pipes,
         criteria=criteria,
     )
+
+
+def _envelope(r: _Reader, data: dict[str, Any], fluid: Fluid | None) -> Envelope:
+    """Ranges the operating cases are built from: liquid temperature and required flow."""
+    r.known_keys(data, "envelope", _ENVELOPE_KEYS)
+    for key in _PLANNED_ENVELOPE_KEYS:
+        if key in data:
+            r.problem(
+                f"envelope.{key}",
+                f"The key envelope.{key} (aged pipe and dirty "
+                "strainer cases) is not available in this version.",
+            )
+    temperatures = _quantity_list(r, data, "temperature", "envelope", "temperature") or ()
+    if temperatures and len(temperatures) != 2:
+        r.problem(
+            "envelope.temperature",
+            "Expected the lowest and the highest liquid "
+            'temperature, such as ["5 degC", "30 degC"].',
+        )
+        temperatures = ()
+    if temperatures and temperatures[0].value > temperatures[1].value:
+        r.problem("envelope.temperature", "Give the lowest temperature first.")
+        temperatures = ()
+    if temperatures and fluid is not None and fluid.kind == "custom":
+        r.problem(
+            "envelope.temperature",
+            "A custom liquid has fixed properties; a temperature range needs water.",
+        )
+        temperatures = ()
+    if temperatures and fluid is not None and fluid.kind == "water":
+        for t in temperatures:
+            if not WATER_T_MIN <= t.value <= WATER_T_MAX:
+                r.problem(t.key, "Liquid water is computed from 0.01 degC to 350 degC.")
+                temperatures = ()
+    flows = _quantity_list(r, data, "flow_required", "envelope", "flow") or ()
+    if any(q.value <= 0.0 for q in flows):
+        r.problem("envelope.flow_required", "Every required flow must be greater than zero.")
+        flows = ()
+    return Envelope(temperatures=tuple(temperatures), flows=tuple(flows))
 
 
 def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:

@@ -11,6 +11,7 @@ from dataclasses import dataclass, field
 
 __all__ = [
     "Criteria",
+    "Envelope",
     "Fitting",
     "Fluid",
     "Given",
@@ -151,6 +152,14 @@ class Criteria:
 
 
 @dataclass(frozen=True)
+class Envelope:
+    """Ranges the operating cases are built from (empty: none given)."""
+
+    temperatures: tuple[Given, ...] = ()
+    flows: tuple[Given, ...] = ()
+
+
+@dataclass(frozen=True)
 class Model:
     path: str
     sha256: str
@@ -168,6 +177,7 @@ class Model:
     operation: Operation
     pipes: tuple[Pipe, ...]
     criteria: Criteria
+    envelope: Envelope = field(default_factory=Envelope)
 
     @property
     def suction_pipes(self) -> tuple[Pipe, ...]:
