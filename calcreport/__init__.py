@@ -4,7 +4,7 @@ The pipeline, one function a stage::
 
     model = calcreport.load("system.toml")     # input TOML → validated model
     trace = calcreport.solve(model)            # model → Trace (steps, results, checks)
-    pdf = calcreport.render(trace.to_json(), model.text)   # trace → PDF bytes
+    pdf = calcreport.render(trace.to_json(), model.text).pdf   # trace → PDF
 
 Each stage imports its libraries on first use, so ``import calcreport`` is
 cheap and solving never loads the report stack.
@@ -39,8 +39,9 @@ def solve(model: Model) -> Trace:
     return _solve(model)
 
 
-def render(trace: dict[str, Any], input_text: str) -> bytes:
-    """The PDF report of a trace (its JSON form) and the input text it echoes."""
+def render(trace: dict[str, Any], input_text: str, previous: dict[str, Any] | None = None) -> Any:
+    """The PDF report of a trace (its JSON form) and the input text it echoes: a
+    ``Rendered`` with ``.pdf`` bytes and ``.step_pages`` (step id → pages)."""
     from calcreport.report import render as _render
 
-    return _render(trace, input_text)
+    return _render(trace, input_text, previous)

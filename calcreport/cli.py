@@ -7,6 +7,8 @@ module prints and exits; everything below it raises.
 from __future__ import annotations
 
 import argparse
+import hashlib
+import json
 import os
 import sys
 from collections.abc import Sequence
@@ -67,7 +69,14 @@ def _parser() -> argparse.ArgumentParser:
         "-o",
         "--output",
         metavar="DIR",
-        help="folder for <input>.pdf and <input>.trace.json (default: beside the input)",
+        help="folder for <input>.pdf, <input>.trace.json and <input>.pages.json (default: "
+        "beside the input)",
+    )
+    build.add_argument(
+        "--previous",
+        metavar="TRACE",
+        help="the previous revision's trace: adds a page of changes and marks every step "
+        "whose value moved",
     )
     from calcreport.recheck import SCOPE as RECHECK_SCOPE
 
@@ -176,12 +185,36 @@ def _build(args: argparse.Namespace) -> int:
     if folder.exists() and not folder.is_dir():
         sys.stderr.write(f"calcreport: the output {folder} exists and is not a folder\n")
         return EXIT_INPUT
+    previous = None
+    if args.previous:
+        from calcreport.recheck import read_trace
+
+        previous = read_trace(args.previous)
     pdf = folder / f"{source.stem}.pdf"
     trace_file = folder / f"{source.stem}.trace.json"
-    content = trace.dumps().encode("utf-8")
-    write_all({pdf: render(trace.to_json(), model.text), trace_file: content}, protect=source)
-    print(f"wrote {pdf} and {trace_file}")
+    pages_file = folder / f"{source.stem}.pages.json"
+    data = trace.to_json()
+    rendered = render(data, model.text, previous)
+    pages = {
+        "format": "calcreport-pages/1",
+        "trace_sha256": _sha256(trace.dumps()),
+        "pdf_sha256": hashlib.sha256(rendered.pdf).hexdigest(),
+        "steps": rendered.step_pages,
+    }
+    write_all(
+        {
+            pdf: rendered.pdf,
+            trace_file: trace.dumps().encode("utf-8"),
+            pages_file: (json.dumps(pages, indent=1) + "\n").encode("utf-8"),
+        },
+        protect=source,
+    )
+    print(f"wrote {pdf}, {trace_file} and {pages_file}")
     return EXIT_OK
+
+
+def _sha256(text: str) -> str:
+    return hashlib.sha256(text.encode("utf-8")).hexdigest()
 
 
 def _tolerance(text: str) -> float:

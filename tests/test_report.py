@@ -225,3 +225,46 @@ def test_output_files_get_ordinary_permissions(tmp_path):
     for name in ("check_case.pdf", "check_case.trace.json"):
         assert (tmp_path / name).stat().st_mode & 0o777 == 0o644
     assert not list(tmp_path.glob(".*.part"))
+
+
+def test_step_page_map_points_at_pages_printing_each_step(built):
+    for stem, (pdf, trace, pages) in built.items():
+        sidecar = json.loads((pdf.parent / f"{stem}.pages.json").read_text(encoding="utf-8"))
+        assert sidecar["format"] == "calcreport-pages/1"
+        assert sidecar["pdf_sha256"] == hashlib.sha256(pdf.read_bytes()).hexdigest()
+        assert set(sidecar["steps"]) == {s["id"] for s in trace["steps"]}
+        for step_id, numbers in sidecar["steps"].items():
+            for n in numbers:
+                assert f"[{step_id}]" in pages[n - 1].replace("\n", ""), (stem, step_id, n)
+
+
+def test_previous_revision_adds_changes_page_and_marks(built, tmp_path):
+    _, trace, _ = built["check_case"]
+    previous = tmp_path / "previous.trace.json"
+    previous.write_text(json.dumps(trace), encoding="utf-8")
+    source = (EXAMPLES / "check_case.toml").read_text(encoding="utf-8")
+    revised = tmp_path / "revised.toml"
+    revised.write_text(source.replace('length = "150 m"', 'length = "175 m"'), encoding="utf-8")
+    assert main(["build", str(revised), "--previous", str(previous)]) == 0
+    pages = [p.extract_text() for p in pypdf.PdfReader(tmp_path / "revised.pdf").pages]
+    text = "\n".join(pages)
+    changes = next(p for p in pages if "Changes since the previous revision" in p)
+    assert "pipe[2].length" in changes and "total_dynamic_head" in changes
+    assert "Δ changed" in text
+    assert "[pipe.S1.velocity]" in text  # unchanged steps are printed too, unmarked
+
+
+def test_missing_previous_trace_is_a_clear_error(tmp_path, capsys):
+    code = main(
+        [
+            "build",
+            str(EXAMPLES / "check_case.toml"),
+            "-o",
+            str(tmp_path),
+            "--previous",
+            str(tmp_path / "none.trace.json"),
+        ]
+    )
+    assert code == 2
+    assert "none.trace.json" in capsys.readouterr().err
+    assert list(tmp_path.iterdir()) == []

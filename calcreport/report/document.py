@@ -91,6 +91,19 @@ def _lines(name: str, **values: Any) -> list[str]:
     return [line.strip() for line in _template(name, **values).splitlines() if line.strip()]
 
 
+def _short(value: Any, unit: str = "") -> str:
+    """A changed value as the changes page prints it (SI, as in the trace)."""
+    if isinstance(value, dict) and "value" in value:
+        return _short(value["value"], value.get("unit", unit))
+    if isinstance(value, list):
+        return f"{len(value)} values"
+    if isinstance(value, dict):
+        return "changed"
+    if isinstance(value, int | float) and not isinstance(value, bool):
+        return f"{fmt(float(value), 5)} {pretty_unit(unit)}".strip()
+    return "—" if value is None else str(value)
+
+
 def text(value: Any) -> str:
     """Text from the input, escaped so it prints literally (no markup, no control chars)."""
     cleaned = "".join(ch if ch >= " " or ch in "\t" else " " for ch in str(value))
@@ -100,7 +113,18 @@ def text(value: Any) -> str:
 class _Report:
     """Builds the story of one report from a trace."""
 
-    def __init__(self, trace: dict[str, Any], input_text: str, figures: dict[str, Any]) -> None:
+    def __init__(
+        self,
+        trace: dict[str, Any],
+        input_text: str,
+        figures: dict[str, Any],
+        changes: Any = None,
+    ) -> None:
+        self.changes = changes
+        self.marks: dict[str, str] = {}
+        if changes is not None:
+            self.marks = {i: "<b>Δ changed</b> " for i in changes.steps_changed}
+            self.marks.update({i: "<b>Δ new</b> " for i in changes.steps_added})
         self.t = trace
         self.r = trace["results"]
         self.system = trace["project"]["units"]
@@ -216,6 +240,8 @@ class _Report:
         story += self.cover()
         story += [NextPageTemplate("body"), PageBreak()]
         story += self.summary()
+        if self.changes is not None:
+            story += [PageBreak()] + self.changes_page()
         story += [PageBreak()] + self.contents()
         story += [PageBreak()] + self.at_a_glance()
         story += [PageBreak()] + self.basis()
@@ -481,6 +507,65 @@ class _Report:
             text_motor = " <b>Motor:</b> not given."
         return pump + text_motor
 
+    def changes_page(self) -> list[Flowable]:
+        """What moved since the previous revision's trace (given with build --previous)."""
+        c = self.changes
+        out: list[Flowable] = [self.heading("Changes since the previous revision")]
+        old = c.old
+        digest = str(old.get("input", {}).get("sha256", ""))[:16]
+        out.append(
+            self.p(
+                f"Compared with the trace of revision {text(old.get('revision') or '—')} "
+                f"(input SHA-256 {text(digest)}…). "
+                f"Steps whose value moved are marked Δ in the calculation and in Appendix A: "
+                f"{len(c.steps_changed)} changed, {len(c.steps_added)} new, "
+                f"{len(c.steps_removed)} removed."
+            )
+        )
+
+        def rows(changes: Any, limit: int) -> list[list[str]]:
+            out_rows = [["Item", "Previous", "Now", "Change"]]
+            for ch in list(changes)[:limit]:
+                pct = "—" if ch.change_percent is None else f"{ch.change_percent:+.3g} %"
+                unit = getattr(ch, "unit", "") or ""
+                out_rows.append(
+                    [text(ch.key), text(_short(ch.old, unit)), text(_short(ch.new, unit)), pct]
+                )
+            return out_rows
+
+        w = self.width
+        widths = [w * 0.46, w * 0.2, w * 0.2, w * 0.14]
+        for title, items in (
+            ("Inputs", c.inputs),
+            ("Project", c.project),
+            (
+                "Results",
+                [
+                    r
+                    for r in c.results
+                    if "." not in r.key.split("[")[0]
+                    or r.key.startswith(("energy.", "motor.", "operating_point."))
+                ],
+            ),
+        ):
+            if items:
+                out.append(self.heading(title, 2))
+                out.append(self.table(rows(items, 40), widths))
+        if c.checks:
+            out.append(self.heading("Design checks", 2))
+            check_rows = [["Check", "Case", "Previous", "Now"]]
+            for ch in c.checks:
+                check_rows.append(
+                    [
+                        text(ch.id),
+                        text(ch.case),
+                        text(ch.old_status or "—"),
+                        text(ch.new_status or "—"),
+                    ]
+                )
+            out.append(self.table(check_rows, [w * 0.5, w * 0.14, w * 0.18, w * 0.18]))
+        return out
+
     def conclusion(self) -> str:
         fails = [c for c in self.t["checks"] if c["status"] == "fail"]
         tdh = self.q(self.r["total_dynamic_head"], "length")
@@ -616,11 +701,14 @@ class _Report:
 
     def step_block(self, st: dict[str, Any]) -> list[Flowable]:
         s = self.s
+        mark = self.marks.get(st["id"], "")
         head = (
-            f"{text(st['title'])} <font name='DejaVuMono' size='7.5'>[{text(st['id'])}]"
+            f"{mark}{text(st['title'])} <font name='DejaVuMono' size='7.5'>[{text(st['id'])}]"
             f"</font>  {self.ref(st['reference'])}"
         )
-        parts: list[Flowable] = [self.p(head, s.step_head), Equation(st["latex"], 10.5)]
+        title = self.p(head, s.step_head)
+        title._step = st["id"]  # type: ignore[attr-defined]
+        parts: list[Flowable] = [title, Equation(st["latex"], 10.5)]
         parts.append(self.p(text(st["substituted"]), s.substituted))
         result = {"value": st["value"], "unit": st["unit"]}
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
@@ -871,8 +959,14 @@ class _Doc(BaseDocTemplate):
     def __init__(self, *args: Any, **kwargs: Any) -> None:
         super().__init__(*args, **kwargs)
         self.headings: list[tuple[int, str, int, str]] = []
+        self.step_pages: dict[str, list[int]] = {}
 
     def afterFlowable(self, flowable: Flowable) -> None:
+        step = getattr(flowable, "_step", None)
+        if step is not None:
+            pages = self.step_pages.setdefault(step, [])
+            if self.page not in pages:
+                pages.append(self.page)
         toc = getattr(flowable, "_toc", None)
         if toc is not None:
             level, label = toc
@@ -978,9 +1072,11 @@ def _canvas_maker(
     return TitleBlockCanvas
 
 
-def render_pdf(trace: dict[str, Any], input_text: str, figures: dict[str, Any]) -> bytes:
-    """The PDF report of ``trace`` as bytes (deterministic for the same inputs)."""
-    report = _Report(trace, input_text, figures)
+def render_pdf(
+    trace: dict[str, Any], input_text: str, figures: dict[str, Any], changes: Any = None
+) -> tuple[bytes, dict[str, list[int]]]:
+    """The PDF report of ``trace`` (deterministic bytes) and the pages of every step."""
+    report = _Report(trace, input_text, figures, changes)
     project = trace["project"]
     size = style.page_size(report.system)
     buffer = io.BytesIO()
@@ -1002,4 +1098,4 @@ def render_pdf(trace: dict[str, Any], input_text: str, figures: dict[str, Any]) 
     doc.build(
         report.story(), canvasmaker=_canvas_maker(project, trace["status"]["value"], doc.headings)
     )
-    return buffer.getvalue()
+    return buffer.getvalue(), doc.step_pages
