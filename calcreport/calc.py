@@ -163,7 +163,11 @@ def solve(model: Model) -> Trace:
         given=b.given,
         solutions=b.solutions,
         cases=[{"id": c.id, "title": c.title} for c in cases],
-        software={"name": "calcreport", "version": __version__},
+        software={
+            "name": "calcreport",
+            "version": __version__,
+            "catalog_sha256": catalog.fingerprint(),
+        },
     )
 
 

@@ -497,3 +497,13 @@ def test_peak_required_flow_governs_the_duty_check():
     duty = next(c for c in t.checks if c.id == "duty_flow")
     assert duty.limit == pytest.approx(0.025)
     assert duty.status == "fail"  # the pump gives about 23.3 L/s (CHECK-VALUES section 11)
+
+
+def test_trace_records_software_and_catalog_versions():
+    import calcreport
+    from calcreport import catalog
+
+    t = solve(loads(CASE.encode())).to_json()
+    assert t["software"]["version"] == calcreport.__version__
+    assert t["software"]["catalog_sha256"] == catalog.fingerprint()
+    assert len(t["software"]["catalog_sha256"]) == 64

@@ -13,7 +13,7 @@ from functools import cache
 from pathlib import Path
 from typing import Any
 
-__all__ = ["criteria", "motor_ratings", "references"]
+__all__ = ["criteria", "fingerprint", "motor_ratings", "references"]
 
 _HERE = Path(__file__).parent
 
@@ -47,3 +47,15 @@ def motor_ratings(series: str) -> tuple[float, ...]:
             if row["series"] == series
         ]
     return tuple(sorted(values))
+
+
+@cache
+def fingerprint() -> str:
+    """SHA-256 over every data file of the catalogue, by name: the catalog data version."""
+    import hashlib
+
+    digest = hashlib.sha256()
+    for path in sorted(_HERE.iterdir()):
+        if path.suffix in (".toml", ".csv"):
+            digest.update(path.name.encode() + b"\0" + path.read_bytes() + b"\0")
+    return digest.hexdigest()
