@@ -268,3 +268,11 @@ def test_missing_previous_trace_is_a_clear_error(tmp_path, capsys):
     assert code == 2
     assert "none.trace.json" in capsys.readouterr().err
     assert list(tmp_path.iterdir()) == []
+
+
+def test_report_says_what_recheck_proves(built):
+    for _, trace, pages in built.values():
+        text = " ".join(" ".join(pages).split())
+        assert "calcreport recheck" in text
+        assert "does not prove that the method, the inputs or the model are right" in text
+        assert trace["software"]["catalog_sha256"] in text.replace(" ", "")

@@ -936,6 +936,17 @@ class _Report:
                 self.s.small,
             )
         )
+        from calcreport.recheck import SCOPE
+
+        out.append(
+            self.p(
+                f"<b>Checking this calculation by machine.</b> The trace file written beside this "
+                f"report can be rechecked with <font name='DejaVuMono'>calcreport recheck</font>. "
+                f"{text(SCOPE)} Catalog data version (SHA-256) "
+                f"{text(sw.get('catalog_sha256', '—'))}.",
+                self.s.small,
+            )
+        )
         out.append(self.p(f"Input echoed verbatim (SHA-256 {text(inp['sha256'])}):", self.s.small))
         for line in self.input_text.splitlines() or [""]:
             out.append(Paragraph(text(line).replace(" ", "&nbsp;") or "&nbsp;", self.s.mono))
