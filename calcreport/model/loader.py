@@ -142,6 +142,13 @@ _PUMP_KEYS = {
 }
 _CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required"}
 MIN_CURVE_POINTS = 3
+# Bounds on what one input may hold: far beyond any real system, small enough that a
+# pasted or generated file cannot make a run take minutes or the report thousands of pages.
+MAX_FILE_BYTES = 2_000_000
+MAX_TEXT = 2_000
+MAX_PIPES = 2_000
+MAX_FITTINGS = 200
+MAX_CURVE_POINTS = 200
 
 
 class _Lines:
@@ -317,6 +324,11 @@ class _Reader:
                 where, f"Expected text in double quotes, got {_type(value)} {as_written(value)}."
             )
             return default
+        if len(value) > MAX_TEXT:
+            self.problem(
+                where, f"The text has {len(value):,} characters; at most {MAX_TEXT:,} are accepted."
+            )
+            return default
         if choices is not None and value not in choices:
             close = difflib.get_close_matches(value, choices, n=1, cutoff=0.5)
             hint = f'; did you mean "{close[0]}"?' if close else "."
@@ -342,6 +354,17 @@ def load(path: str | Path) -> Model:
 
 def loads(raw: bytes, path: str = "<input>") -> Model:
     """Validate the bytes of an input file; ``path`` names it in messages."""
+    if len(raw) > MAX_FILE_BYTES:
+        raise InputError(
+            [
+                Problem(
+                    "<file>",
+                    f"The file has {len(raw):,} bytes; an input is "
+                    f"limited to {MAX_FILE_BYTES:,} bytes.",
+                )
+            ],
+            path,
+        )
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
@@ -646,6 +669,11 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
     if flow is None or head is None:
         return None
     count = len(flow)
+    if count > MAX_CURVE_POINTS:
+        r.problem(
+            f"{path}.flow", f"A pump curve is limited to {MAX_CURVE_POINTS} points; got {count}."
+        )
+        return None
     if count < MIN_CURVE_POINTS:
         r.problem(
             f"{path}.flow", f"A pump curve needs at least {MIN_CURVE_POINTS} points; got {count}."
@@ -862,6 +890,13 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
     if not raw:
         r.problem("pipe", "At least one [[pipe]] table is required.")
         return ()
+    if len(raw) > MAX_PIPES:
+        r.problem(
+            "pipe",
+            f"The input has {len(raw):,} pipes; at most {MAX_PIPES:,} are "
+            "accepted (join segments of the same size and material).",
+        )
+        return ()
     pipes = []
     seen: dict[str, str] = {}
     for index, data in enumerate(raw, start=1):
@@ -958,6 +993,13 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
             path,
             "Expected an array of inline tables, such as "
             f"[{{ K = 0.5, count = 1 }}]; got {_type(raw)} {as_written(raw)}.",
+        )
+        return ()
+    if len(raw) > MAX_FITTINGS:
+        r.problem(
+            path,
+            f"The pipe has {len(raw):,} fitting items; at most {MAX_FITTINGS} are "
+            "accepted (give repeated fittings once with a count).",
         )
         return ()
     items = []
