@@ -1011,16 +1011,29 @@ def _power(
     op = model.operation
     if case.id != "C1":  # the annual energy is that of the design case
         return out
-    if op.hours_per_year is None:
-        notes.append("Annual energy is not computed: operation.hours_per_year is not given.")
+    if op.hours_per_year is not None:
+        hours = b.step(
+            sid("energy.operating_time"),
+            "Operating time per year",
+            power.hours_to_seconds,
+            case.id,
+            hours=op.hours_per_year,
+        )
+    elif op.annual_volume is not None:
+        hours = b.step(
+            sid("energy.operating_time"),
+            "Operating time per year (fill duty)",
+            power.fill_time,
+            case.id,
+            V=op.annual_volume,
+            Q=case.flow,
+        )
+    else:
+        notes.append(
+            "Annual energy is not computed: give operation.hours_per_year "
+            "(continuous duty) or operation.annual_volume (fill duty)."
+        )
         return out
-    hours = b.step(
-        sid("energy.operating_time"),
-        "Operating time per year",
-        power.hours_to_seconds,
-        case.id,
-        hours=op.hours_per_year,
-    )
     E = b.step(
         sid("energy.annual"), "Annual energy", power.annual_energy, case.id, P_e=P_e, t=hours
     )
@@ -1032,7 +1045,12 @@ def _power(
         P_e=P_e,
         Q=case.flow,
     )
-    energy = {"annual_energy": _q(E), "specific_energy": _q(e_v)}
+    energy: dict[str, Any] = {
+        "annual_energy": _q(E),
+        "specific_energy": _q(e_v),
+        "operating_time": _q(hours),
+    }
+    costs = []
     if op.energy_price is not None:
         C = b.step(
             sid("energy.annual_cost"),
@@ -1042,7 +1060,42 @@ def _power(
             E=E,
             price=op.energy_price,
         )
-        energy["annual_cost"] = quantity(C.value, op.currency)
+        costs.append(C)
+    if op.demand_charge is not None:
+        D = b.step(
+            sid("energy.demand_cost"),
+            "Annual demand charge",
+            power.demand_cost,
+            case.id,
+            P_e=P_e,
+            rate=op.demand_charge,
+        )
+        energy["demand_cost"] = quantity(D.value, op.currency)
+        costs.append(D)
+    if costs:
+        total = (
+            costs[0]
+            if len(costs) == 1
+            else b.step(
+                sid("energy.total_cost"),
+                "Annual energy and demand cost",
+                power.cost_sum,
+                case.id,
+                costs=costs,
+            )
+        )
+        energy["annual_cost"] = quantity(total.value, op.currency)
+        if op.life_years is not None and op.discount_rate is not None:
+            pv = b.step(
+                sid("energy.life_cycle_cost"),
+                "Present value of the energy cost over the life",
+                power.present_value,
+                case.id,
+                C=total,
+                rate=op.discount_rate,
+                years=op.life_years,
+            )
+            energy["life_cycle_energy_cost"] = quantity(pv.value, op.currency)
     out["energy"] = energy
     return out
 

@@ -507,3 +507,30 @@ def test_trace_records_software_and_catalog_versions():
     assert t["software"]["version"] == calcreport.__version__
     assert t["software"]["catalog_sha256"] == catalog.fingerprint()
     assert len(t["software"]["catalog_sha256"]) == 64
+
+
+def test_fill_duty_energy_does_not_depend_on_assumed_hours():
+    # Fill duty: E = V rho g H / (eta_p eta_m), independent of the hours (issue 9).
+    text = CASE.replace("hours_per_year = 6000\n", 'annual_volume = "250000 m^3"\n')
+    t = solve(loads(text.encode()))
+    r = t.results
+    rho = r["fluid"]["density"]["value"]
+    expected = 250000 * rho * 9.80665 * r["total_dynamic_head"]["value"] / (0.78 * 0.92)
+    assert r["energy"]["annual_energy"]["value"] == pytest.approx(expected, rel=1e-12)
+    assert r["energy"]["operating_time"]["value"] == pytest.approx(250000 / 0.020, rel=1e-12)
+
+
+def test_demand_charge_and_life_cycle_present_value():
+    text = CASE.replace(
+        'currency = "USD"',
+        'currency = "USD"\ndemand_charge = 14.0\nlife_years = 20\ndiscount_rate = 0.05',
+    )
+    t = solve(loads(text.encode()))
+    e = t.results["energy"]
+    p_e_kw = t.results["electrical_power"]["value"] / 1e3
+    energy_cost = p_e_kw * 6000 * 0.10
+    assert e["demand_cost"]["value"] == pytest.approx(p_e_kw * 14.0 * 12, rel=1e-12)
+    total = energy_cost + p_e_kw * 14.0 * 12
+    assert e["annual_cost"]["value"] == pytest.approx(total, rel=1e-12)
+    # Annuity present-value factor at 5 % over 20 years: 12.46221 (standard tables).
+    assert e["life_cycle_energy_cost"]["value"] == pytest.approx(total * 12.46221, rel=1e-6)

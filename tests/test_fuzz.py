@@ -22,11 +22,39 @@ EXAMPLES = sorted((Path(__file__).parent.parent / "input_examples").glob("*.toml
 SOURCES = [p.read_text(encoding="utf-8") for p in EXAMPLES]
 
 HOSTILE = [
-    '"nan m"', '"inf m"', '"-inf L/s"', '"1e308 km"', '"1e-300 mm"', '""', '"\\u0000"',
-    "[]", "{}", "true", '"-1 m"', '"0 L/s"', '"0 mm"', f'"{"x" * 5000}"', "[[[[[1]]]]]",
-    '"3 furlong"', '"20 m/s/s"', "0", "-0.5", "1e999", '"12,5 m"', '"5 psia"', '"100 degC"',
-    '"-300 degC"', '"saturation"', '"<b>bold</b> &amp;"', '"a\\tb"', "1.0e-30", '"1 L/s"',
-    '"99999 L/s"', '"1e6 m"', '["1 m", "2 m"]', '{ unit = "m", values = [] }',
+    '"nan m"',
+    '"inf m"',
+    '"-inf L/s"',
+    '"1e308 km"',
+    '"1e-300 mm"',
+    '""',
+    '"\\u0000"',
+    "[]",
+    "{}",
+    "true",
+    '"-1 m"',
+    '"0 L/s"',
+    '"0 mm"',
+    f'"{"x" * 5000}"',
+    "[[[[[1]]]]]",
+    '"3 furlong"',
+    '"20 m/s/s"',
+    "0",
+    "-0.5",
+    "1e999",
+    '"12,5 m"',
+    '"5 psia"',
+    '"100 degC"',
+    '"-300 degC"',
+    '"saturation"',
+    '"<b>bold</b> &amp;"',
+    '"a\\tb"',
+    "1.0e-30",
+    '"1 L/s"',
+    '"99999 L/s"',
+    '"1e6 m"',
+    '["1 m", "2 m"]',
+    '{ unit = "m", values = [] }',
 ]
 
 _ASSIGN = re.compile(r"^(\s*[A-Za-z_][\w-]*\s*=\s*)(.+)$")
@@ -60,12 +88,19 @@ MESSAGES: set[str] = set()
 RUNS = [0]
 
 
-@settings(max_examples=250, deadline=None, derandomize=True,
-          suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow])
+@settings(
+    max_examples=250,
+    deadline=None,
+    derandomize=True,
+    suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow],
+)
 @given(
     source=st.integers(0, len(SOURCES) - 1),
-    edits=st.lists(st.tuples(st.integers(0, 4), st.integers(0, 10_000), st.integers(0, 10_000)),
-                   min_size=1, max_size=3),
+    edits=st.lists(
+        st.tuples(st.integers(0, 4), st.integers(0, 10_000), st.integers(0, 10_000)),
+        min_size=1,
+        max_size=3,
+    ),
 )
 def test_corrupted_inputs_never_crash(tmp_path_factory, capsys, source, edits):
     text = SOURCES[source]
@@ -83,7 +118,8 @@ def test_corrupted_inputs_never_crash(tmp_path_factory, capsys, source, edits):
             assert out.err.strip(), "exit 2 must say why"
             MESSAGES.update(
                 re.sub(r"\d", "#", line.split(":", 1)[-1].strip())
-                for line in out.err.splitlines() if line.startswith("  - ")
+                for line in out.err.splitlines()
+                if line.startswith("  - ")
             )
         if code != 0:
             break

@@ -281,14 +281,16 @@ def test_report_says_what_recheck_proves(built):
 def test_every_free_text_field_prints_literally(tmp_path):
     # Reportlab paragraph markup, XML entities and control characters in any free-text
     # field must print as typed and must not change the document's structure.
-    hostile = '<b>x</b> &amp; <font size=40>y</font> <para>z'
+    hostile = "<b>x</b> &amp; <font size=40>y</font> <para>z"
     source = (EXAMPLES / "cooling_water_selected_pump.toml").read_text(encoding="utf-8")
     for key in ("title", "client", "calc_id", "prepared_by", "checked_by"):
-        source = re.sub(rf'^{key} = ".*"$', f'{key} = "{key}: {hostile}"', source, count=1,
-                        flags=re.MULTILINE)
+        source = re.sub(
+            rf'^{key} = ".*"$', f'{key} = "{key}: {hostile}"', source, count=1, flags=re.MULTILINE
+        )
     source = source.replace('note = "swing check valve"', f'note = "note: {hostile}"')
-    source = source.replace('description = "Heat exchanger loss per vendor data"',
-                            f'description = "rev: {hostile}"')
+    source = source.replace(
+        'description = "Heat exchanger loss per vendor data"', f'description = "rev: {hostile}"'
+    )
     source = source.replace('cautions = ["', f'cautions = ["caution: {hostile} ', 1)
     source = source.replace('id = "D2"', 'id = "D2<i>"').replace("D2", "D2<i>")
     path = tmp_path / "hostile.toml"

@@ -866,18 +866,58 @@ def _vessel(r: _Reader, data: dict[str, Any] | None, role: str) -> Vessel | None
     )
 
 
+_OPERATION_KEYS = {
+    "hours_per_year",
+    "annual_volume",
+    "energy_price",
+    "currency",
+    "demand_charge",
+    "life_years",
+    "discount_rate",
+}
+
+
 def _operation(r: _Reader, data: dict[str, Any]) -> Operation:
-    r.known_keys(data, "operation", {"hours_per_year", "energy_price", "currency"})
+    r.known_keys(data, "operation", _OPERATION_KEYS)
     hours = r.quantity(data, "hours_per_year", "operation", "dimensionless", positive=True)
     if hours and hours.value > 8784.0:
         r.problem("operation.hours_per_year", "A year has at most 8784 hours.")
+    volume = r.quantity(data, "annual_volume", "operation", "volume", positive=True)
+    if hours and volume:
+        r.problem(
+            "operation.annual_volume",
+            "Give hours_per_year (continuous duty) or annual_volume (fill duty), not both.",
+        )
     price = r.quantity(data, "energy_price", "operation", "dimensionless")
     if price and price.value < 0.0:
         r.problem("operation.energy_price", "The energy price must not be negative.")
+    demand = r.quantity(data, "demand_charge", "operation", "dimensionless")
+    if demand and demand.value < 0.0:
+        r.problem("operation.demand_charge", "The demand charge must not be negative.")
+    life = r.quantity(data, "life_years", "operation", "dimensionless", positive=True)
+    rate = r.quantity(data, "discount_rate", "operation", "dimensionless")
+    if rate and not 0.0 <= rate.value < 1.0:
+        r.problem(
+            "operation.discount_rate",
+            'Give the discount rate as a fraction per year, such as 0.05 or "5 %".',
+        )
+    if (life is None) != (rate is None):
+        r.problem(
+            "operation.life_years",
+            "A life-cycle energy cost needs both life_years and discount_rate.",
+        )
     currency = r.text(data, "currency", "operation", "")
-    if price and not currency:
+    if (price or demand) and not currency:
         r.problem("operation.currency", 'Give the currency of energy_price, such as "USD".')
-    return Operation(hours_per_year=hours, energy_price=price, currency=currency)
+    return Operation(
+        hours_per_year=hours,
+        energy_price=price,
+        currency=currency,
+        annual_volume=volume,
+        demand_charge=demand,
+        life_years=life,
+        discount_rate=rate,
+    )
 
 
 def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:

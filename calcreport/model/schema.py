@@ -142,6 +142,10 @@ class Operation:
     hours_per_year: Given | None = None
     energy_price: Given | None = None
     currency: str = ""
+    annual_volume: Given | None = None  # fill duty: the hours follow from the flow
+    demand_charge: Given | None = None  # per kW of electrical demand per month
+    life_years: Given | None = None
+    discount_rate: Given | None = None
 
 
 @dataclass(frozen=True)

@@ -3,7 +3,9 @@
 Power
     hydraulic_power, shaft_power, electrical_power, peak_shaft_power, per_pump_power
 Energy
-    hours_to_seconds, annual_energy, annual_cost, specific_energy
+    hours_to_seconds, fill_time, annual_energy, specific_energy
+Cost
+    annual_cost, demand_cost, cost_sum, present_value
 """
 
 from __future__ import annotations
@@ -18,11 +20,15 @@ from calcreport.physics.losses import G
 __all__ = [
     "annual_cost",
     "annual_energy",
+    "cost_sum",
+    "demand_cost",
     "electrical_power",
+    "fill_time",
     "hours_to_seconds",
     "hydraulic_power",
     "peak_shaft_power",
     "per_pump_power",
+    "present_value",
     "shaft_power",
     "specific_energy",
 ]
@@ -388,3 +394,162 @@ def specific_energy(P_e: Any, Q: Any) -> Any:
        A Guide to Successful Applications, 2004 (specific energy).
     """
     return P_e / Q
+
+
+@equation(
+    symbol="t",
+    text="t = V/Q",
+    latex=r"t = \frac{V}{Q}",
+    substitute="{V} / {Q}",
+    reference="hi_power",
+)
+def fill_time(V: Any, Q: Any) -> Any:
+    r"""Pumping time per year of a fill duty: the annual volume at the operating flow.
+
+    .. math:: t = \frac{V}{Q}
+
+    Parameters
+    ----------
+    V : float
+        Volume to be pumped per year [m^3]
+    Q : float
+        Operating flow [m^3/s]
+
+    Returns
+    -------
+    t : float
+        Operating time per year [s]
+
+    Notes
+    -----
+    The energy of a fill duty, V ρ g H / η, then does not depend on an assumed
+    number of hours.
+
+    Examples
+    --------
+    >>> fill_time(3600.0, 0.02) / 3600.0
+    50.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004.
+    """
+    return V / Q
+
+
+@equation(
+    symbol="C_d",
+    text="C_d = P_e/(1000 W/kW)·c_d·12",
+    latex=r"C_d = \frac{P_e}{1000\ \mathrm{W/kW}}\, c_d \times 12",
+    substitute="{P_e} / (1000 W/kW) × {rate} /kW/month × 12 months",
+    reference="hi_power",
+)
+def demand_cost(P_e: Any, rate: Any) -> Any:
+    r"""Annual demand charge on the electrical input power, billed monthly.
+
+    .. math:: C_d = \frac{P_e}{1000\ \mathrm{W/kW}}\, c_d \times 12
+
+    Parameters
+    ----------
+    P_e : float
+        Electrical input power (the demand) [W]
+    rate : float
+        Demand charge per kW per month, in the project currency [-]
+
+    Returns
+    -------
+    C_d : float
+        Annual demand charge, in the project currency [-]
+
+    Examples
+    --------
+    >>> demand_cost(10e3, 14.0)
+    1680.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (demand charges).
+    """
+    return P_e / 1000.0 * rate * 12.0
+
+
+def _cost_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
+    return " + ".join(fmt(c) for c in values["costs"])
+
+
+@equation(
+    symbol="C",
+    text="C = ΣC_i",
+    latex=r"C = \sum_i C_i",
+    substitute=_cost_terms,
+    reference="hi_power",
+)
+def cost_sum(costs: Any) -> Any:
+    r"""Sum of annual cost items.
+
+    .. math:: C = \sum_i C_i
+
+    Parameters
+    ----------
+    costs : list of float
+        Annual costs, in the project currency [-]
+
+    Returns
+    -------
+    C : float
+        Their sum [-]
+
+    Examples
+    --------
+    >>> cost_sum([1200.0, 300.0])
+    1500.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004.
+    """
+    return sum(costs)
+
+
+@equation(
+    symbol="PV",
+    text="PV = C·[1 − (1 + i)^−n]/i",
+    latex=r"PV = C\, \frac{1 - (1 + i)^{-n}}{i}",
+    substitute="{C} × [1 − (1 + {rate})^−{years}] / {rate}",
+    reference="hi_lcc",
+)
+def present_value(C: Any, rate: Any, years: Any) -> Any:
+    r"""Present value of a constant annual cost over a life, at a discount rate.
+
+    .. math:: PV = C \frac{1 - (1 + i)^{-n}}{i}
+
+    Parameters
+    ----------
+    C : float
+        Annual cost, in the project currency [-]
+    rate : float
+        Discount rate per year; zero gives C·n [-]
+    years : float
+        Life in years [-]
+
+    Returns
+    -------
+    PV : float
+        Present value, in the project currency [-]
+
+    Examples
+    --------
+    >>> round(present_value(1000.0, 0.05, 20.0), 2)
+    12462.21
+
+    References
+    ----------
+    1. Hydraulic Institute and Europump, Pump Life Cycle Costs: A Guide to LCC
+       Analysis for Pumping Systems, 2001 (present value of energy cost).
+    """
+    if rate == 0:
+        return C * years
+    return C * (1.0 - (1.0 + rate) ** -years) / rate
