@@ -22,7 +22,17 @@ import numpy as np
 
 from calcreport import __version__, catalog, checks
 from calcreport.model.schema import Given, Model, Pipe, Vessel
-from calcreport.physics import atmosphere, friction, head, losses, motor, power, pump, water
+from calcreport.physics import (
+    atmosphere,
+    fittings,
+    friction,
+    head,
+    losses,
+    motor,
+    power,
+    pump,
+    water,
+)
 from calcreport.trace import Check, Trace, TraceBuilder, quantity
 
 __all__ = ["solve"]
@@ -68,7 +78,12 @@ class _Sweep:
         }
         if func is friction.colebrook:
             func = _friction_factor_array
+        if "Re" in values:  # at zero flow: the laminar terms vanish with the velocity head
+            values["Re"] = np.maximum(values["Re"], 1e-12)
         return Given(func(**values), "", step_id)
+
+    def datum(self, key: str, value: float, unit: str) -> Given:
+        return Given(value, unit, key)
 
 
 def _friction_factor_array(Re: Any, eD: Any) -> Any:
@@ -749,6 +764,26 @@ def _surface_pressure(
     return vessel.pressure
 
 
+def _catalog_k(
+    ev: Any, case: Case, pipe: Pipe, kind: str, label: str, index: int, Re: Given
+) -> Given:
+    """K of a named fitting: a catalogue constant, or Hooper's two-K at the pipe's Re."""
+    entry = catalog.fittings()[kind]
+    base = f"catalog.fittings.{kind}"
+    if entry["method"] == "constant":
+        return ev.datum(f"{base}.K", entry["K"], "")
+    return ev.step(
+        case.sid(f"pipe.{pipe.id}.fitting[{index}].K"),
+        f"Coefficient of {label} in {pipe.id} (two-K method)",
+        fittings.two_k,
+        case.id,
+        K1=ev.datum(f"{base}.K1", entry["K1"], ""),
+        K_inf=ev.datum(f"{base}.K_inf", entry["K_inf"], ""),
+        Re=Re,
+        D=pipe.inner_diameter,
+    )
+
+
 def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[str, Given]:
     sid = case.sid
     name = f"pipe.{pipe.id}"
@@ -814,14 +849,23 @@ def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[
         D=D,
         v=v,
     )
-    coefficients = [ft for ft in pipe.fittings if ft.K is not None]
+    coefficients: list[Given] = []
+    counts: list[Given] = []
+    for i, ft in enumerate(pipe.fittings, start=1):
+        if ft.K is not None:
+            coefficients.append(ft.K)
+        elif ft.kind:
+            coefficients.append(_catalog_k(ev, case, pipe, ft.kind, ft.label, i, Re))
+        else:
+            continue
+        counts.append(ft.count)
     K = ev.step(
         sid(f"{name}.k_total"),
         f"Sum of fitting coefficients of {pipe.id}",
         losses.k_total,
         case.id,
-        K=[ft.K for ft in coefficients],
-        count=[ft.count for ft in coefficients],
+        K=coefficients,
+        count=counts,
     )
     out["k_total"] = K
     out["fitting_loss"] = ev.step(

@@ -534,3 +534,39 @@ def test_demand_charge_and_life_cycle_present_value():
     assert e["annual_cost"]["value"] == pytest.approx(total, rel=1e-12)
     # Annuity present-value factor at 5 % over 20 years: 12.46221 (standard tables).
     assert e["life_cycle_energy_cost"]["value"] == pytest.approx(total * 12.46221, rel=1e-6)
+
+
+def test_named_fittings_resolve_to_catalog_coefficients():
+    # Hooper 2-K against fluids.fittings.Hooper2K (fluids 1.3.1, test-only) at the pipe's own
+    # Reynolds number and inner diameter in inches; entrance/exit constants from Crane TP-410
+    # as fluids implements them [V].
+    fluids = pytest.importorskip("fluids")
+    text = CASE.replace(
+        'fittings = [{ K = 0.5, note = "entrance" }, { K = 0.57 }]',
+        'fittings = [{ kind = "entrance_sharp" }, { kind = "gate_valve" }]',
+    )
+    text = text.replace("{ K = 3.0, count = 1 }", '{ kind = "swing_check_valve", count = 2 }')
+    t = solve(loads(text.encode()))
+    d1 = t.results["pipes"]["D1"]
+    re_d1 = d1["reynolds"]["value"]
+    swing = fluids.fittings.Hooper2K(Di=0.10226 / 0.0254, Re=re_d1, name="Valve, Check, Swing")
+    assert t.step("pipe.D1.fitting[2].K").value == pytest.approx(swing, rel=1e-12)
+    s1 = t.results["pipes"]["S1"]
+    gate = fluids.fittings.Hooper2K(
+        Di=0.154051 / 0.0254,
+        Re=s1["reynolds"]["value"],
+        name="Valve, Gate, Full line size, Beta = 1",
+    )
+    entrance = fluids.fittings.entrance_sharp(method="Crane")  # 0.5; Rennels gives 0.57
+    assert s1["k_total"]["value"] == pytest.approx(entrance + gate, rel=1e-12)
+    assert d1["k_total"]["value"] == pytest.approx(0.366 + 2 * swing + 1.0, rel=1e-12)
+
+
+def test_unknown_fitting_kind_suggests_close_names():
+    from calcreport.errors import InputError
+
+    text = CASE.replace("{ K = 0.57 }", '{ kind = "gate_valv" }')
+    with pytest.raises(InputError) as error:
+        loads(text.encode())
+    message = str(error.value)
+    assert "pipe[1].fittings[2].kind" in message and '"gate_valve"' in message

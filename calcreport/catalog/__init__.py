@@ -3,6 +3,8 @@
 ``references.toml``  citations by key, cited by steps and checks
 ``criteria.toml``    default design criteria with their basis
 ``motor_ratings.csv`` standard motor ratings, IEC kW and NEMA hp series
+``fittings_hooper_2k.csv``     two-K coefficients of fittings (Hooper 1981)
+``fittings_entrance_exit.csv`` entrance and exit coefficients (Crane TP-410)
 """
 
 from __future__ import annotations
@@ -13,7 +15,7 @@ from functools import cache
 from pathlib import Path
 from typing import Any
 
-__all__ = ["criteria", "fingerprint", "motor_ratings", "references"]
+__all__ = ["criteria", "fingerprint", "fittings", "motor_ratings", "references"]
 
 _HERE = Path(__file__).parent
 
@@ -59,3 +61,32 @@ def fingerprint() -> str:
         if path.suffix in (".toml", ".csv"):
             digest.update(path.name.encode() + b"\0" + path.read_bytes() + b"\0")
     return digest.hexdigest()
+
+
+def _rows(name: str) -> list[dict[str, str]]:
+    with (_HERE / name).open(encoding="utf-8") as handle:
+        return list(csv.DictReader(line for line in handle if not line.startswith("#")))
+
+
+@cache
+def fittings() -> dict[str, dict[str, Any]]:
+    """Named fittings: ``{"kind": {"method", "K" or "K1"/"K_inf", "description", "source"}}``."""
+    table: dict[str, dict[str, Any]] = {}
+    for row in _rows("fittings_hooper_2k.csv"):
+        table[row["kind"]] = {
+            "method": "hooper_2k",
+            "K1": float(row["K1"]),
+            "K_inf": float(row["K_inf"]),
+            "description": row["description"],
+            "source": row["source"],
+            "reference": "hooper_1981",
+        }
+    for row in _rows("fittings_entrance_exit.csv"):
+        table[row["kind"]] = {
+            "method": "constant",
+            "K": float(row["K"]),
+            "description": row["description"],
+            "source": row["source"],
+            "reference": "crane_tp410",
+        }
+    return table

@@ -1071,11 +1071,14 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
         if len(given) != 1:
             found = f"got {' and '.join(given)}" if given else "got none of them"
             r.problem(where, f"Give exactly one of K, kind, or dp with at_flow; {found}.")
-        elif kind:
+        elif kind and kind not in catalog.fittings():
+            names = sorted(catalog.fittings())
+            close = difflib.get_close_matches(kind, names, n=2, cutoff=0.5)
+            hint = f" Did you mean {_one_of(tuple(close))}?" if close else ""
             r.problem(
                 f"{where}.kind",
-                f'Named fittings ("{kind}") come from the fittings '
-                "catalog, which is not available in this version; give K.",
+                f'The fitting kind "{kind}" is not in the fittings catalog.{hint} Known '
+                f"kinds: {', '.join(names)}; or give K.",
             )
         if ("dp" in data) != ("at_flow" in data):
             r.problem(

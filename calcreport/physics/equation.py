@@ -159,6 +159,7 @@ def _import_all() -> None:
     from calcreport import physics  # noqa: F401
     from calcreport.physics import (  # noqa: F401
         atmosphere,
+        fittings,
         friction,
         head,
         losses,

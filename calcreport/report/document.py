@@ -618,12 +618,15 @@ class _Report:
     def fitting_list(self, ident: str) -> str:
         step = self.step(f"pipe.{ident}.k_total")
         parts = []
-        for source in step["arguments"]["K"]["from"]:
-            base = source.rsplit(".", 1)[0]
-            note = self.entered_value(f"{base}.note")
-            count = self.entered_value(f"{base}.count") or "1"
-            K = self.entered_value(f"{base}.K")
-            parts.append(f"{text(note) or 'item'}: {text(K)} × {text(count)}")
+        args = step["arguments"]
+        for K, count_source, count in zip(
+            args["K"]["value"], args["count"]["from"], args["count"]["value"], strict=True
+        ):
+            base = count_source.rsplit(".", 1)[0]
+            kind = self.entered_value(f"{base}.kind")
+            label = self.entered_value(f"{base}.note") or kind.replace("_", " ") or "item"
+            how = f" ({text(kind)}, catalog)" if kind else ""
+            parts.append(f"{text(label)}{how}: K {fmt(K, 3)} × {fmt(count, 3)}")
         for n in range(1, 100):
             rated = self.steps_by_id.get(f"pipe.{ident}.equipment[{n}]")
             if rated is None:

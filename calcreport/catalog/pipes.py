@@ -1,0 +1,605 @@
+"""Pipe dimensions and new-pipe roughness by name, each value with its source.
+
+Families (data files in this folder, described in ``sources.toml``):
+
+``steel``      ASME B36.10M welded and seamless wrought steel pipe, NPS 1/8-36
+``stainless``  ASME B36.19M stainless steel pipe, schedules 5S, 10S, 40S, 80S
+``copper``     ASTM B88 copper water tube, types K, L, M
+``pvc``        ASTM D1785 PVC pipe, schedules 40 and 80 (minimum walls)
+``pe``         ISO 4427-2 / EN 12201-2 polyethylene pipe, metric OD series by SDR
+
+>>> pipe = resolve("NPS 6", "Sch 40")
+>>> round(pipe.inner_diameter * 1000, 2), pipe.table
+(154.08, 'asme_b36_10m_steel.csv')
+>>> resolve("DN 50", "10S").family
+'stainless'
+>>> round(roughness("commercial steel").value * 1000, 3)
+0.045
+
+Lengths are returned in metres. Inner diameter is outside diameter minus twice the wall, computed
+here from the table's millimetre columns (the standard's own SI values for B36.10M/B36.19M, exact
+conversions of the inch values for B88 and D1785). Unknown names raise
+:class:`CatalogLookupError`, a :class:`LookupError` whose message is a full sentence naming the
+value, the close matches and the valid choices.
+"""
+
+from __future__ import annotations
+
+import csv
+import difflib
+import re
+from dataclasses import dataclass
+from fractions import Fraction
+from functools import cache
+from pathlib import Path
+
+__all__ = [
+    "CatalogLookupError",
+    "PipeSize",
+    "Roughness",
+    "families",
+    "materials",
+    "resolve",
+    "roughness",
+    "schedules",
+    "sizes",
+]
+
+_HERE = Path(__file__).parent
+ROUGHNESS_TABLE = "roughness_new_pipe.csv"
+
+
+class CatalogLookupError(LookupError):
+    """A family, nominal size, schedule or material the catalogs do not hold.
+
+    ``kind`` is ``"family"``, ``"nominal_size"``, ``"schedule"`` or ``"material"``; ``value``
+    is the text given; ``suggestions`` the close matches; ``choices`` the valid names.
+    """
+
+    def __init__(
+        self,
+        message: str,
+        *,
+        kind: str,
+        value: str,
+        suggestions: tuple[str, ...] = (),
+        choices: tuple[str, ...] = (),
+    ) -> None:
+        super().__init__(message)
+        self.kind = kind
+        self.value = value
+        self.suggestions = suggestions
+        self.choices = choices
+
+
+@dataclass(frozen=True)
+class PipeSize:
+    """One pipe size: lengths in metres, ``source`` the row's citation, ``table`` its data file."""
+
+    family: str
+    nominal_size: str
+    schedule: str
+    outside_diameter: float
+    wall_thickness: float
+    inner_diameter: float
+    source: str
+    table: str
+
+
+@dataclass(frozen=True)
+class Roughness:
+    """New-pipe absolute roughness in metres; ``range`` (low, high) where the source gives one."""
+
+    material: str
+    value: float
+    range: tuple[float, float] | None
+    description: str
+    source: str
+    table: str
+
+
+@dataclass(frozen=True)
+class _Family:
+    name: str
+    table: str
+    noun: str
+    size_column: str
+    size_kind: str  # "nps" (inch nominal, fractions) or "dn_mm" (metric nominal OD)
+    od_column: str
+    wall_column: str
+    schedule_column: str
+    dn_column: str | None = None
+    schedule_prefix: str = ""
+
+
+_FAMILIES: dict[str, _Family] = {
+    "steel": _Family(
+        "steel",
+        "asme_b36_10m_steel.csv",
+        "steel pipe (ASME B36.10M)",
+        "nps",
+        "nps",
+        "outside_diameter_mm",
+        "wall_thickness_mm",
+        "schedule",
+        dn_column="dn",
+    ),
+    "stainless": _Family(
+        "stainless",
+        "asme_b36_19m_stainless.csv",
+        "stainless steel pipe (ASME B36.19M)",
+        "nps",
+        "nps",
+        "outside_diameter_mm",
+        "wall_thickness_mm",
+        "schedule",
+        dn_column="dn",
+    ),
+    "copper": _Family(
+        "copper",
+        "astm_b88_copper.csv",
+        "copper tube (ASTM B88)",
+        "nominal_size_in",
+        "nps",
+        "outside_diameter_mm",
+        "wall_thickness_mm",
+        "type",
+    ),
+    "pvc": _Family(
+        "pvc",
+        "astm_d1785_pvc.csv",
+        "PVC pipe (ASTM D1785)",
+        "nps",
+        "nps",
+        "outside_diameter_mm",
+        "min_wall_thickness_mm",
+        "schedule",
+    ),
+    "pe": _Family(
+        "pe",
+        "hdpe_dr_iso4427.csv",
+        "PE pipe (ISO 4427-2 / EN 12201-2)",
+        "dn_mm",
+        "dn_mm",
+        "outside_diameter_mm",
+        "wall_thickness_mm",
+        "sdr",
+        schedule_prefix="SDR",
+    ),
+}
+
+_FAMILY_ALIASES = {
+    "steel": "steel",
+    "carbon steel": "steel",
+    "cs": "steel",
+    "b36.10m": "steel",
+    "asme b36.10m": "steel",
+    "stainless": "stainless",
+    "stainless steel": "stainless",
+    "ss": "stainless",
+    "b36.19m": "stainless",
+    "asme b36.19m": "stainless",
+    "copper": "copper",
+    "cu": "copper",
+    "b88": "copper",
+    "astm b88": "copper",
+    "pvc": "pvc",
+    "upvc": "pvc",
+    "d1785": "pvc",
+    "astm d1785": "pvc",
+    "pe": "pe",
+    "hdpe": "pe",
+    "polyethylene": "pe",
+    "pe100": "pe",
+    "pe 100": "pe",
+    "pe80": "pe",
+    "pe 80": "pe",
+    "iso 4427": "pe",
+    "en 12201": "pe",
+}
+
+_SCHEDULE_ALIASES = {
+    "STANDARD": "STD",
+    "STANDARDWEIGHT": "STD",
+    "STD.": "STD",
+    "XH": "XS",
+    "XSTRONG": "XS",
+    "EXTRASTRONG": "XS",
+    "XXH": "XXS",
+    "XXSTRONG": "XXS",
+    "DOUBLEEXTRASTRONG": "XXS",
+}
+
+_MATERIAL_ALIASES = {
+    "steel": "commercial_steel",
+    "carbon_steel": "commercial_steel",
+    "commercial_steel_new": "commercial_steel",
+    "galvanized": "galvanized_steel",
+    "galvanised": "galvanized_steel",
+    "galvanised_steel": "galvanized_steel",
+    "galvanized_iron": "galvanized_steel",
+    "galvanised_iron": "galvanized_steel",
+    "stainless": "stainless_steel",
+    "ss": "stainless_steel",
+    "ductile_iron_cement_mortar_lined": "ductile_iron_cement_lined",
+    "cement_lined_ductile_iron": "ductile_iron_cement_lined",
+    "asphalted_iron": "asphalted_cast_iron",
+    "pe": "hdpe",
+    "polyethylene": "hdpe",
+    "pe100": "hdpe",
+    "pe80": "hdpe",
+    "upvc": "pvc",
+}
+
+_UNICODE_FRACTIONS = {"½": "1/2", "¼": "1/4", "¾": "3/4", "⅛": "1/8", "⅜": "3/8", "⅝": "5/8"}
+_SIZE_PREFIX = re.compile(r"^(nps|dn|od)(?=[\s\d.])\s*", re.IGNORECASE)
+_SIZE_UNIT = re.compile(r"\s*(\"|''|in\.?|inch|inches|mm)$", re.IGNORECASE)
+_SIZE_NUMBER = re.compile(r"^(?:(\d+)(?:\s+|-))?(\d+)/(\d+)$|^(\d+(?:\.\d*)?|\.\d+)$")
+_SDR = re.compile(r"^S?DR\s*(\d+(?:\.\d+)?)$")
+
+
+# --- tables ---------------------------------------------------------------------------------
+
+
+@cache
+def _rows(table: str) -> tuple[dict[str, str], ...]:
+    with (_HERE / table).open(encoding="utf-8", newline="") as handle:
+        reader = csv.DictReader(line for line in handle if not line.startswith("#"))
+        return tuple(dict(row) for row in reader)
+
+
+@dataclass(frozen=True)
+class _Index:
+    rows: dict[tuple[str, str], dict[str, str]]  # (canonical size, canonical schedule) -> row
+    sizes: tuple[str, ...]  # canonical sizes in table order (ascending)
+    by_value: dict[Fraction, str]  # size value (inch or mm) -> canonical size
+    by_dn: dict[int, str]  # DN -> canonical size (B36 families only)
+    schedules: dict[str, tuple[str, ...]]  # canonical size -> schedules in table order
+
+
+@cache
+def _index(family: str) -> _Index:
+    fam = _FAMILIES[family]
+    rows: dict[tuple[str, str], dict[str, str]] = {}
+    sizes: list[str] = []
+    by_value: dict[Fraction, str] = {}
+    by_dn: dict[int, str] = {}
+    schedules: dict[str, list[str]] = {}
+    for row in _rows(fam.table):
+        size = row[fam.size_column]
+        schedule = fam.schedule_prefix + row[fam.schedule_column]
+        if size not in schedules:
+            sizes.append(size)
+            schedules[size] = []
+            by_value[_number(size)] = size
+            if fam.dn_column:
+                by_dn[int(row[fam.dn_column])] = size
+        schedules[size].append(schedule)
+        rows[(size, schedule)] = row
+    return _Index(rows, tuple(sizes), by_value, by_dn, {k: tuple(v) for k, v in schedules.items()})
+
+
+# --- parsing --------------------------------------------------------------------------------
+
+
+def _number(text: str) -> Fraction:
+    """Parse ``6``, ``1.5``, ``3/4``, ``1-1/2`` or ``1 1/2``; raise ValueError otherwise."""
+    match = _SIZE_NUMBER.match(text.strip())
+    if not match:
+        raise ValueError(text)
+    whole, num, den, plain = match.groups()
+    if plain is not None:
+        return Fraction(plain)
+    if int(den) == 0:
+        raise ValueError(text)
+    return Fraction(int(whole or 0)) + Fraction(int(num), int(den))
+
+
+def _split_size(text: str) -> tuple[str | None, str | None, Fraction]:
+    """(prefix, unit, value) of a nominal size; prefix ``nps``/``dn``/``od``, unit ``in``/``mm``."""
+    rest = str(text).strip()
+    for char, frac in _UNICODE_FRACTIONS.items():
+        rest = rest.replace(char, " " + frac)
+    rest = rest.strip()
+    prefix = None
+    match = _SIZE_PREFIX.match(rest)
+    if match:
+        prefix = match.group(1).lower()
+        rest = rest[match.end() :]
+    unit = None
+    match = _SIZE_UNIT.search(rest)
+    if match:
+        unit = "mm" if match.group(1).lower() == "mm" else "in"
+        rest = rest[: match.start()]
+    return prefix, unit, _number(rest)
+
+
+def _normalize_schedule(text: str) -> str:
+    """Upper-case schedule designation without ``Sch``/``Type`` and spaces; SDR as ``SDR11``."""
+    raw = str(text).strip().upper()
+    raw = re.sub(r"^(SCHEDULE|SCHED\.?|SCH\.?)\s*", "", raw)
+    raw = re.sub(r"^TYPE\s+", "", raw)
+    compact = re.sub(r"[\s_-]+", "", raw)
+    compact = _SCHEDULE_ALIASES.get(compact, compact)
+    if re.fullmatch(r"\d+\.0+", compact):  # 40.0 from a TOML float
+        compact = compact.split(".")[0]
+    match = _SDR.match(compact)
+    if match:
+        return "SDR" + _format_ratio(match.group(1))
+    return compact
+
+
+def _format_ratio(text: str) -> str:
+    value = Fraction(text)
+    return str(value.numerator) if value.denominator == 1 else str(float(value))
+
+
+def _normalize_family(text: str) -> str:
+    return re.sub(r"[\s_-]+", " ", str(text).strip().lower())
+
+
+# --- messages -------------------------------------------------------------------------------
+
+
+def _quote_list(items: tuple[str, ...] | list[str]) -> str:
+    quoted = [f"'{item}'" for item in items]
+    if len(quoted) <= 1:
+        return "".join(quoted)
+    return ", ".join(quoted[:-1]) + " or " + quoted[-1]
+
+
+def _as_number(text: str, prefix: str = "") -> float | None:
+    text = text.strip()
+    if prefix and text.upper().startswith(prefix):
+        text = text[len(prefix) :].strip()
+    try:
+        return float(_number(text))
+    except ValueError:
+        return None
+
+
+def _bracket(target: float | None, choices: tuple[str, ...], prefix: str = "") -> list[str]:
+    """The nearest numeric choices below and above ``target`` (the two nearest if at an end)."""
+    if target is None:
+        return []
+    numeric = [(value, c) for c in choices if (value := _as_number(c, prefix)) is not None]
+    below = [c for value, c in sorted(numeric) if value < target][-1:]
+    above = [c for value, c in sorted(numeric) if value > target][:1]
+    return below + above
+
+
+def _suggest(
+    value: str, choices: tuple[str, ...], target: float | None = None, prefix: str = ""
+) -> tuple[str, ...]:
+    found = _bracket(target, choices, prefix)
+    if not found:
+        for match in difflib.get_close_matches(value, choices, n=3, cutoff=0.5):
+            if match not in found:
+                found.append(match)
+    return tuple(found[:3])
+
+
+def _sentence(head: str, suggestions: tuple[str, ...], defined: str) -> str:
+    if suggestions:
+        return f"{head}; did you mean {_quote_list(suggestions)}? {defined}."
+    return f"{head}; {defined[0].lower()}{defined[1:]}."
+
+
+def _size_phrase(family: _Family, size: str) -> str:
+    if family.size_kind == "dn_mm":
+        return f"dn {size} mm"
+    if family.name == "copper":
+        return f"{size} in nominal"
+    return f"NPS {size}"
+
+
+def _metres(millimetres: Fraction) -> float:
+    """Millimetres (exact decimal from the table) to the nearest float in metres."""
+    return float(millimetres / 1000)
+
+
+# --- pipes ----------------------------------------------------------------------------------
+
+
+def families() -> tuple[str, ...]:
+    """Names of the pipe families, for messages and input validation."""
+    return tuple(_FAMILIES)
+
+
+def _family(name: str | None, schedule: str) -> _Family:
+    if name is None:
+        if re.fullmatch(r"\d+S", schedule):
+            return _FAMILIES["stainless"]
+        if schedule in ("K", "L", "M"):
+            return _FAMILIES["copper"]
+        if schedule.startswith("SDR"):
+            return _FAMILIES["pe"]
+        return _FAMILIES["steel"]
+    key = _FAMILY_ALIASES.get(_normalize_family(name))
+    if key is None:
+        choices = families()
+        suggestions = _suggest(_normalize_family(name), tuple(_FAMILY_ALIASES))
+        suggestions = tuple(dict.fromkeys(_FAMILY_ALIASES[s] for s in suggestions))
+        message = _sentence(
+            f"'{name}' is not a pipe family", suggestions, f"Defined: {', '.join(choices)}"
+        )
+        raise CatalogLookupError(
+            message, kind="family", value=str(name), suggestions=suggestions, choices=choices
+        )
+    return _FAMILIES[key]
+
+
+def sizes(family: str = "steel") -> tuple[str, ...]:
+    """Nominal sizes of ``family`` in ascending order (NPS as ``1-1/2``, PE as dn in mm)."""
+    return _index(_family(family, "").name).sizes
+
+
+def _size(fam: _Family, nominal_size: str) -> str:
+    index = _index(fam.name)
+    text = str(nominal_size)
+    try:
+        prefix, unit, value = _split_size(text)
+    except ValueError:
+        prefix, unit, value = None, None, None
+    if value is not None:
+        if fam.size_kind == "dn_mm":
+            if prefix in (None, "dn", "od") and unit in (None, "mm") and value in index.by_value:
+                return index.by_value[value]
+        elif prefix == "dn":
+            if value.denominator == 1 and int(value) in index.by_dn:
+                return index.by_dn[int(value)]
+            if fam.dn_column:
+                dns = tuple(f"DN {dn}" for dn in index.by_dn)
+                suggestions = _suggest(text, dns, float(value), prefix="DN")
+                message = _sentence(
+                    f"'{text}' is not a DN of {fam.noun}",
+                    suggestions,
+                    f"Defined: {', '.join(dns)}",
+                )
+                raise CatalogLookupError(
+                    message, kind="nominal_size", value=text, suggestions=suggestions, choices=dns
+                )
+        elif unit != "mm" and prefix != "od" and value in index.by_value:
+            return index.by_value[value]
+    choices = index.sizes
+    if prefix == "dn" and fam.size_kind == "nps":
+        message = (
+            f"'{text}' is not a nominal size of {fam.noun}: the table has no DN designations; "
+            f"give the nominal size in inches, one of {', '.join(choices)}."
+        )
+        raise CatalogLookupError(message, kind="nominal_size", value=text, choices=choices)
+    suggestions = _suggest(text.strip(), choices, None if value is None else float(value))
+    if fam.size_kind == "dn_mm":
+        defined = f"Defined (dn, mm): {', '.join(choices)}"
+        head = f"'{text}' is not a nominal outside diameter of {fam.noun}"
+    else:
+        defined = f"Defined (nominal inches): {', '.join(choices)}"
+        if fam.dn_column:
+            defined += f", or DN {next(iter(index.by_dn))} to DN {list(index.by_dn)[-1]}"
+        head = f"'{text}' is not a nominal size of {fam.noun}"
+    raise CatalogLookupError(
+        _sentence(head, suggestions, defined),
+        kind="nominal_size",
+        value=text,
+        suggestions=suggestions,
+        choices=choices,
+    )
+
+
+def schedules(family: str, nominal_size: str) -> tuple[str, ...]:
+    """Schedules (types, SDRs) defined at ``nominal_size`` in ``family``, in table order."""
+    fam = _family(family, "")
+    return _index(fam.name).schedules[_size(fam, nominal_size)]
+
+
+def resolve(nominal_size: str, schedule: str, family: str | None = None) -> PipeSize:
+    """Dimensions of one pipe: ``resolve("6", "40")``, ``resolve("DN 150", "Sch 80")``,
+    ``resolve("1-1/2", "10S")``, ``resolve("3/4", "L")``, ``resolve("4", "80", "pvc")``,
+    ``resolve("110", "SDR11", "pe")``.
+
+    Without ``family``: S schedules are stainless (ASME B36.19M), K/L/M copper, SDR/DR values
+    polyethylene, anything else steel (ASME B36.10M). PVC needs ``family="pvc"``. Numbers are
+    accepted as well as text (``resolve(6, 40)``, ``resolve(110, 11, "pe")``), as a TOML input
+    file gives them.
+    """
+    normalized = _normalize_schedule(schedule)
+    fam = _family(family, normalized)
+    if fam.schedule_prefix and re.fullmatch(r"\d+(\.\d+)?", normalized):
+        normalized = fam.schedule_prefix + _format_ratio(normalized)
+    size = _size(fam, nominal_size)
+    return _lookup(fam.name, size, normalized, str(schedule))
+
+
+@cache
+def _lookup(family: str, size: str, schedule: str, given: str) -> PipeSize:
+    fam = _FAMILIES[family]
+    index = _index(family)
+    row = index.rows.get((size, schedule))
+    if row is None:
+        raise _schedule_error(fam, size, schedule, given)
+    od_mm = Fraction(row[fam.od_column])
+    wall_mm = Fraction(row[fam.wall_column])
+    return PipeSize(
+        family=family,
+        nominal_size=size,
+        schedule=schedule,
+        outside_diameter=_metres(od_mm),
+        wall_thickness=_metres(wall_mm),
+        inner_diameter=_metres(od_mm - 2 * wall_mm),
+        source=row["source"],
+        table=fam.table,
+    )
+
+
+def _schedule_error(fam: _Family, size: str, schedule: str, given: str) -> CatalogLookupError:
+    index = _index(fam.name)
+    choices = index.schedules[size]
+    prefix = fam.schedule_prefix
+    suggestions = _suggest(schedule, choices, _as_number(schedule, prefix), prefix)
+    head = f"'{given}' is not a schedule of {_size_phrase(fam, size)} {fam.noun}"
+    elsewhere = [s for s in index.sizes if schedule in index.schedules[s]]
+    if elsewhere:
+        head += (
+            f" ({schedule} is tabulated for {_size_phrase(fam, elsewhere[0])} to "
+            f"{elsewhere[-1]} but not at this size)"
+        )
+    else:
+        others = [
+            other.noun
+            for other in _FAMILIES.values()
+            if other is not fam
+            and any(schedule in scheds for scheds in _index(other.name).schedules.values())
+        ]
+        if others:
+            head += f" ({schedule} is a designation of {' and '.join(others)})"
+    defined = f"Defined for {_size_phrase(fam, size)}: {', '.join(choices)}"
+    return CatalogLookupError(
+        _sentence(head, suggestions, defined),
+        kind="schedule",
+        value=given,
+        suggestions=suggestions,
+        choices=choices,
+    )
+
+
+# --- roughness ------------------------------------------------------------------------------
+
+
+@cache
+def _roughness_rows() -> dict[str, dict[str, str]]:
+    return {row["material"]: row for row in _rows(ROUGHNESS_TABLE)}
+
+
+def materials() -> tuple[str, ...]:
+    """Materials with a tabulated new-pipe roughness."""
+    return tuple(_roughness_rows())
+
+
+@cache
+def roughness(material: str) -> Roughness:
+    """Absolute roughness of new pipe of ``material`` (``"commercial_steel"``, ``"pvc"``, ...)."""
+    rows = _roughness_rows()
+    key = re.sub(r"[\s-]+", "_", str(material).strip().lower())
+    key = _MATERIAL_ALIASES.get(key, key)
+    row = rows.get(key)
+    if row is None:
+        choices = materials()
+        suggestions = _suggest(key, choices + tuple(_MATERIAL_ALIASES))
+        suggestions = tuple(dict.fromkeys(_MATERIAL_ALIASES.get(s, s) for s in suggestions))
+        message = _sentence(
+            f"'{material}' is not a pipe material with a tabulated roughness",
+            suggestions,
+            f"Defined: {', '.join(choices)}",
+        )
+        raise CatalogLookupError(
+            message, kind="material", value=str(material), suggestions=suggestions, choices=choices
+        )
+    low, high = row["range_low_mm"], row["range_high_mm"]
+    return Roughness(
+        material=key,
+        value=_metres(Fraction(row["roughness_mm"])),
+        range=(_metres(Fraction(low)), _metres(Fraction(high))) if low and high else None,
+        description=row["description"],
+        source=row["source"],
+        table=ROUGHNESS_TABLE,
+    )
