@@ -1158,6 +1158,8 @@ def _results(
             "regime": friction.flow_regime(values["reynolds"].value),
         }
         entry.update({key: _q(value) for key, value in values.items()})
+        if pipe.sources:
+            entry["sources"] = dict(pipe.sources)
         if pipe.elevation_start and pipe.elevation_end:
             entry["elevation_start"] = _q(pipe.elevation_start)
             entry["elevation_end"] = _q(pipe.elevation_end)

@@ -570,3 +570,25 @@ def test_unknown_fitting_kind_suggests_close_names():
         loads(text.encode())
     message = str(error.value)
     assert "pipe[1].fittings[2].kind" in message and '"gate_valve"' in message
+
+
+def test_catalog_pipe_sizes_and_materials_solve_without_explicit_values():
+    # Issue 5 "done when": NPS 6 schedule 40 resolves to 154.05 mm (6.065 in, ASME B36.10M,
+    # CHECK-VALUES section 2 [M✓]); commercial steel 0.045 mm (Moody 1944 / White Table 6.1 [S]).
+    text = CASE.replace(
+        'inner_diameter = "154.051 mm"\nroughness = "0.045 mm"',
+        'nominal_size = "NPS 6"\nschedule = "Sch 40"\nmaterial = "commercial_steel"',
+    )
+    text = text.replace(
+        'inner_diameter = "102.26 mm"\nroughness = "0.045 mm"',
+        'nominal_size = "4"\nschedule = "40"\nmaterial = "commercial_steel"',
+    )
+    t = solve(loads(text.encode()))
+    s1 = t.results["pipes"]["S1"]
+    assert s1["inner_diameter"]["value"] == pytest.approx(0.154051, abs=1e-9)
+    assert s1["roughness"]["value"] == pytest.approx(4.5e-5, rel=1e-12)
+    assert "B36.10M" in s1["sources"]["inner_diameter"]
+    # NPS 4 Sch 40 is 4.026 in = 102.2604 mm: the CHECK-VALUES section 11 case exactly,
+    # TDH 32.49768 m [V] (its stated tolerance 1e-4 covers IF97 against IAPWS-95).
+    assert t.results["total_dynamic_head"]["value"] == pytest.approx(32.49768, rel=1e-5)
+    assert "catalog.asme_b36_10m_steel[6 40].inner_diameter" in t.given

