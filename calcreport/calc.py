@@ -26,6 +26,7 @@ from calcreport.physics import (
     atmosphere,
     fittings,
     friction,
+    glycol,
     head,
     losses,
     motor,
@@ -702,6 +703,8 @@ def _liquid(
         assert fluid.density and fluid.viscosity and fluid.vapor_pressure
         return Liquid(fluid.density, fluid.viscosity, fluid.vapor_pressure)
     T = T or fluid.temperature
+    if fluid.kind != "water":
+        return _glycol(b, model, T, prefix)
     at = f" at {T.value - 273.15:.4g} °C" if prefix else ""
     p_v = b.step(
         f"{prefix}fluid.vapor_pressure",
@@ -728,6 +731,39 @@ def _liquid(
         b.assume(
             "Liquid properties are those at the source surface pressure and the stated "
             "temperature throughout the system."
+        )
+    return Liquid(rho, mu, p_v)
+
+
+def _glycol(b: TraceBuilder, model: Model, T: Given, prefix: str) -> Liquid:
+    """Properties of an aqueous glycol solution (CoolProp fits; Raoult's law for p_v)."""
+    fluid = model.fluid
+    assert fluid.mass_fraction is not None
+    w = fluid.mass_fraction
+    name = fluid.kind.replace("_", " ")
+    code = {"ethylene_glycol": "MEG", "propylene_glycol": "MPG"}[fluid.kind]
+    density, viscosity = {
+        "MEG": (glycol.ethylene_glycol_density, glycol.ethylene_glycol_viscosity),
+        "MPG": (glycol.propylene_glycol_density, glycol.propylene_glycol_viscosity),
+    }[code]
+    M = b.datum(f"catalog.glycol.{code}.molar_mass", glycol.MOLAR_MASS[code], "")
+    p_v = b.step(
+        f"{prefix}fluid.vapor_pressure",
+        f"Vapour pressure of the {name} solution (Raoult's law)",
+        glycol.raoult_vapor_pressure,
+        T=T,
+        w=w,
+        M_glycol=M,
+    )
+    rho = b.step(f"{prefix}fluid.density", f"Density of the {name} solution", density, T=T, w=w)
+    mu = b.step(
+        f"{prefix}fluid.viscosity", f"Dynamic viscosity of the {name} solution", viscosity, T=T, w=w
+    )
+    if not prefix:
+        b.assume(
+            f"The {name} solution's vapour pressure follows Raoult's law on the water "
+            "fraction (common practice, no published source); its properties are those "
+            "at atmospheric pressure."
         )
     return Liquid(rho, mu, p_v)
 

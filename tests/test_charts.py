@@ -194,13 +194,14 @@ def test_si_traces_print_si_units(drawn) -> None:
 
 
 def test_labels_carry_the_trace_values(traces, drawn) -> None:
-    # 28 L/s at TDH 50.26 m in the SI example; the chart prints 3 significant figures.
+    # 28 L/s in the SI example at the trace's TDH; the chart prints 3 significant figures.
     r = traces["si"]["results"]
     assert r["flow"]["value"] == pytest.approx(0.028)
+    tdh = f"{r['total_dynamic_head']['value']:.3g}"
     texts = " ".join(_texts(drawn["si", "system_curve"].figure))
-    assert "28.0 L/s, TDH 50.3 m" in texts
-    assert "TDH 50.3 m" in drawn["si", "system_curve"].title
-    assert "TDH = 50.3 m" in drawn["si", "loss_breakdown"].title
+    assert f"28.0 L/s, TDH {tdh} m" in texts
+    assert f"TDH {tdh} m" in drawn["si", "system_curve"].title
+    assert f"TDH = {tdh} m" in drawn["si", "loss_breakdown"].title
     assert "downstream end" in drawn["si", "profile"].title
 
 

@@ -780,13 +780,13 @@ def test_line_numbers_ignore_brackets_and_hashes_inside_strings():
 
 
 def test_line_of_a_key_in_the_starter_file():
-    """The shipped starter: its third suction fitting, with a misspelt key."""
+    """The shipped starter: its first suction fitting, with a misspelt key."""
     starter = STARTER.read_text(encoding="utf-8")
-    old = '{ K = 0.15, note = "gate valve, open" },\n]\n\n[[pipe]]'
-    text = variant((old, old.replace("K = 0.15", "Kk = 0.15")), base=starter)
+    old = '{ K = 0.5, note = "sharp-edged entrance" },'
+    text = variant((old, old.replace("K = 0.5", "Kk = 0.5")), base=starter)
     (problem,) = [p for p in problems(text) if p.key.endswith(".Kk")]
-    assert problem.key == "pipe[1].fittings[3].Kk"
-    assert problem.line == line_of(text, "Kk = 0.15")
+    assert problem.key == "pipe[1].fittings[1].Kk"
+    assert problem.line == line_of(text, "Kk = 0.5")
     assert 'did you mean "K"' in problem.message
 
 

@@ -48,8 +48,12 @@ from calcreport.units import KINDS, UnitProblem, as_written, expected, parse
 __all__ = ["load", "loads"]
 
 FORMAT = 1
-FLUID_KINDS = ("water", "custom")
-PLANNED_FLUIDS = ("ethylene_glycol", "propylene_glycol")
+GLYCOLS = ("ethylene_glycol", "propylene_glycol")
+FLUID_KINDS = ("water", *GLYCOLS, "custom")
+# Glycol solutions: the property fits' range, kept inside liquid and unfrozen service.
+_GLYCOL_CODE = {"ethylene_glycol": "MEG", "propylene_glycol": "MPG"}
+GLYCOL_T_MIN = 253.15
+GLYCOL_T_MAX = 373.15
 SIDES = ("suction", "discharge")
 INLETS = ("submerged", "free")
 UNIT_SYSTEMS = ("SI", "US")
@@ -746,14 +750,6 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
     if data is None:
         return None
     r.known_keys(data, "fluid", _FLUID_KEYS)
-    kind = data.get("kind", "water")
-    if kind in PLANNED_FLUIDS:
-        r.problem(
-            "fluid.kind",
-            f'The fluid "{kind}" is not available in this version; use '
-            '"water", or "custom" with density, viscosity and vapor_pressure.',
-        )
-        return None
     kind = r.text(data, "kind", "fluid", "water", FLUID_KINDS)
     temperature = r.quantity(data, "temperature", "fluid", "temperature", required=True)
     if temperature and kind == "water" and not WATER_T_MIN <= temperature.value <= WATER_T_MAX:
@@ -770,24 +766,45 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
             ("vapor_pressure", "pressure"),
         )
     }
-    if kind == "water":
+    if kind != "custom":
         for key in custom:
             if key in data:
                 r.problem(
                     f"fluid.{key}",
-                    "Water properties come from IAPWS; give fluid."
-                    f'{key} only with kind = "custom".',
+                    f"The properties of {kind.replace('_', ' ')} come from its formulation; "
+                    f'give fluid.{key} only with kind = "custom".',
                 )
-    if "mass_fraction" in data:
+    fraction = None
+    if kind in GLYCOLS:
+        fraction = r.quantity(
+            data, "mass_fraction", "fluid", "dimensionless", required=True, positive=True
+        )
+        if fraction and fraction.value > 0.6:
+            r.problem(
+                "fluid.mass_fraction",
+                "The glycol mass fraction must be at most 0.6 "
+                "(60 %), the range of the property fits.",
+            )
+            fraction = None
+        if temperature and not GLYCOL_T_MIN <= temperature.value <= GLYCOL_T_MAX:
+            r.problem(
+                "fluid.temperature",
+                "Glycol solutions are computed from -20 degC to "
+                f"100 degC; got {as_written(data['temperature'])}.",
+            )
+    elif "mass_fraction" in data:
         r.problem(
             "fluid.mass_fraction",
-            "The key mass_fraction applies to glycol solutions, "
-            "which are not available in this version.",
+            'The key mass_fraction applies to kind = "ethylene_glycol" or "propylene_glycol".',
         )
-    if temperature is None:
+    if temperature is None or (kind in GLYCOLS and fraction is None):
         return None
     return Fluid(
-        kind=kind, temperature=temperature, name=r.text(data, "name", "fluid", ""), **custom
+        kind=kind,
+        temperature=temperature,
+        name=r.text(data, "name", "fluid", ""),
+        mass_fraction=fraction,
+        **custom,
     )
 
 
@@ -1188,6 +1205,15 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
             return
     if fluid.kind == "water":
         p_v = water.saturation_pressure(fluid.temperature.value)
+    elif fluid.kind in GLYCOLS:
+        from calcreport.physics import glycol
+
+        assert fluid.mass_fraction is not None
+        p_v = glycol.raoult_vapor_pressure(
+            fluid.temperature.value,
+            fluid.mass_fraction.value,
+            glycol.MOLAR_MASS[_GLYCOL_CODE[fluid.kind]],
+        )
     else:
         assert fluid.vapor_pressure is not None
         p_v = fluid.vapor_pressure.value

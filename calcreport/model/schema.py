@@ -59,6 +59,7 @@ class Fluid:
     viscosity: Given | None = None
     vapor_pressure: Given | None = None
     name: str = ""
+    mass_fraction: Given | None = None  # glycol solutions
 
 
 @dataclass(frozen=True)

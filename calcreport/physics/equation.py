@@ -161,6 +161,7 @@ def _import_all() -> None:
         atmosphere,
         fittings,
         friction,
+        glycol,
         head,
         losses,
         motor,

@@ -1,0 +1,245 @@
+"""Aqueous ethylene- and propylene-glycol solutions: density, viscosity, vapour pressure.
+
+Properties
+    ethylene_glycol_density, ethylene_glycol_viscosity,
+    propylene_glycol_density, propylene_glycol_viscosity
+Vapour pressure
+    raoult_vapor_pressure
+
+Density and viscosity come from the incompressible-liquid fits of CoolProp
+(``INCOMP::MEG`` and ``INCOMP::MPG``, after Melinder, *Properties of Secondary
+Working Fluids for Indirect Systems*, IIR 2010), imported only when a glycol is
+pumped: CoolProp takes seconds to load. CoolProp gives no saturation pressure
+below 100 °C, so the vapour pressure is Raoult's law on the water's mole
+fraction (common practice, no published source: the glycol itself is far less
+volatile than water).
+"""
+
+from __future__ import annotations
+
+from functools import cache
+from typing import Any
+
+from calcreport.physics import water
+from calcreport.physics.equation import equation
+
+__all__ = [
+    "ethylene_glycol_density",
+    "ethylene_glycol_viscosity",
+    "propylene_glycol_density",
+    "propylene_glycol_viscosity",
+    "raoult_vapor_pressure",
+]
+
+M_WATER = 18.015  # g/mol
+MOLAR_MASS = {"MEG": 62.068, "MPG": 76.094}  # ethylene and propylene glycol, g/mol
+MAX_FRACTION = 0.6
+
+
+@cache
+def _props() -> Any:
+    from CoolProp.CoolProp import PropsSI
+
+    return PropsSI
+
+
+def _incomp(output: str, fluid: str, T: float, w: float) -> float:
+    if not 0.0 < w <= MAX_FRACTION:
+        raise ValueError(f"the glycol mass fraction {w:g} is outside 0 to {MAX_FRACTION:g}")
+    try:
+        return float(
+            _props()(
+                "D" if output == "D" else "V", "T", T, "P", 101325.0, f"INCOMP::{fluid}[{w:.6g}]"
+            )
+        )
+    except ValueError as exc:
+        raise ValueError(
+            f"{fluid} at {T - 273.15:.4g} °C and mass fraction {w:g} is outside "
+            f"the property fit: {exc}"
+        ) from exc
+
+
+@equation(
+    symbol="ρ",
+    text="ρ = ρ_MEG(T, w)",
+    latex=r"\rho = \rho_{MEG}(T, w)",
+    substitute="CoolProp INCOMP::MEG at T = {T}, mass fraction w = {w}",
+    reference="melinder_2010",
+)
+def ethylene_glycol_density(T: Any, w: Any) -> Any:
+    r"""Density of an aqueous ethylene-glycol solution at atmospheric pressure.
+
+    .. math:: \rho = \rho_{MEG}(T, w)
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    w : float
+        Mass fraction of glycol, 0 < w <= 0.6 [-]
+
+    Returns
+    -------
+    rho : float
+        Density [kg/m^3]
+
+    References
+    ----------
+    1. Melinder, Å., Properties of Secondary Working Fluids for Indirect
+       Systems, 2nd ed., International Institute of Refrigeration, 2010,
+       as fitted in CoolProp (INCOMP::MEG).
+    """
+    return _incomp("D", "MEG", T, w)
+
+
+@equation(
+    symbol="μ",
+    text="μ = μ_MEG(T, w)",
+    latex=r"\mu = \mu_{MEG}(T, w)",
+    substitute="CoolProp INCOMP::MEG at T = {T}, mass fraction w = {w}",
+    reference="melinder_2010",
+)
+def ethylene_glycol_viscosity(T: Any, w: Any) -> Any:
+    r"""Dynamic viscosity of an aqueous ethylene-glycol solution.
+
+    .. math:: \mu = \mu_{MEG}(T, w)
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    w : float
+        Mass fraction of glycol, 0 < w <= 0.6 [-]
+
+    Returns
+    -------
+    mu : float
+        Dynamic viscosity [Pa*s]
+
+    References
+    ----------
+    1. Melinder 2010, as fitted in CoolProp (INCOMP::MEG).
+    """
+    return _incomp("V", "MEG", T, w)
+
+
+@equation(
+    symbol="ρ",
+    text="ρ = ρ_MPG(T, w)",
+    latex=r"\rho = \rho_{MPG}(T, w)",
+    substitute="CoolProp INCOMP::MPG at T = {T}, mass fraction w = {w}",
+    reference="melinder_2010",
+)
+def propylene_glycol_density(T: Any, w: Any) -> Any:
+    r"""Density of an aqueous propylene-glycol solution at atmospheric pressure.
+
+    .. math:: \rho = \rho_{MPG}(T, w)
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    w : float
+        Mass fraction of glycol, 0 < w <= 0.6 [-]
+
+    Returns
+    -------
+    rho : float
+        Density [kg/m^3]
+
+    References
+    ----------
+    1. Melinder 2010, as fitted in CoolProp (INCOMP::MPG).
+    """
+    return _incomp("D", "MPG", T, w)
+
+
+@equation(
+    symbol="μ",
+    text="μ = μ_MPG(T, w)",
+    latex=r"\mu = \mu_{MPG}(T, w)",
+    substitute="CoolProp INCOMP::MPG at T = {T}, mass fraction w = {w}",
+    reference="melinder_2010",
+)
+def propylene_glycol_viscosity(T: Any, w: Any) -> Any:
+    r"""Dynamic viscosity of an aqueous propylene-glycol solution.
+
+    .. math:: \mu = \mu_{MPG}(T, w)
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    w : float
+        Mass fraction of glycol, 0 < w <= 0.6 [-]
+
+    Returns
+    -------
+    mu : float
+        Dynamic viscosity [Pa*s]
+
+    References
+    ----------
+    1. Melinder 2010, as fitted in CoolProp (INCOMP::MPG).
+    """
+    return _incomp("V", "MPG", T, w)
+
+
+def _raoult_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    T, w, M = values["T"], values["w"], values["M_glycol"]
+    x = _water_mole_fraction(w, M)
+    return (
+        f"x_w = ((1 − {fmt(w)})/{M_WATER}) / ((1 − {fmt(w)})/{M_WATER} + {fmt(w)}/{fmt(M)})"
+        f" = {fmt(x)}; p_v = {fmt(x)} × p_sat,water({fmt(T)} K) = {fmt(x)} × "
+        f"{fmt(water.saturation_pressure(T))} Pa"
+    )
+
+
+def _water_mole_fraction(w: float, M_glycol: float) -> float:
+    n_water = (1.0 - w) / M_WATER
+    return n_water / (n_water + w / M_glycol)
+
+
+@equation(
+    symbol="p_v",
+    text="p_v = x_w·p_sat,water(T)",
+    latex=r"p_v = x_w\, p_{sat,water}(T)",
+    substitute=_raoult_text,
+    reference="common_practice",
+)
+def raoult_vapor_pressure(T: Any, w: Any, M_glycol: Any) -> Any:
+    r"""Vapour pressure of an aqueous glycol solution by Raoult's law on the water.
+
+    .. math:: p_v = x_w\, p_{sat,water}(T)
+
+    Parameters
+    ----------
+    T : float
+        Temperature [K]
+    w : float
+        Mass fraction of glycol [-]
+    M_glycol : float
+        Molar mass of the glycol, g/mol (62.068 ethylene, 76.094 propylene) [-]
+
+    Returns
+    -------
+    p_v : float
+        Vapour pressure [Pa]
+
+    Notes
+    -----
+    Ideal-solution approximation (common practice, no published source):
+    the glycol's own vapour pressure is neglected, and aqueous glycols
+    deviate from Raoult's law by some per cent; the NPSH margin should
+    allow for it.
+
+    Examples
+    --------
+    >>> round(raoult_vapor_pressure(293.15, 0.3, 62.068))
+    2080
+
+    References
+    ----------
+    1. Raoult's law; water saturation pressure by IAPWS-IF97 region 4.
+    """
+    return _water_mole_fraction(w, M_glycol) * water.saturation_pressure(T)
