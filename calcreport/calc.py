@@ -392,6 +392,7 @@ def _solve_case(
         results["shaft_power_per_pump"] = _q(per_pump)
     results["system_curve"] = _system_curve(model, case, liquid, surfaces, curve)
     results["duty_point"] = _duty_point(model, case, liquid, surfaces)
+    results["commissioning"] = _commissioning(b, model, case, liquid, surfaces, h, curve)
     if curve is not None:
         results["pump_curve"] = {
             "flow": quantity(curve.values("flow"), "m^3/s"),
@@ -430,6 +431,91 @@ def _system_curve(
             np.broadcast_to(sweep["npsh_available"].value, shape).tolist(), "m"
         ),
     }
+
+
+def _commissioning(
+    b: TraceBuilder,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    h: dict[str, Any],
+    curve: CurvePoints | None,
+) -> dict[str, Any]:
+    """Gauge pressures expected at the pump flanges, at the operating point and shutoff."""
+    sid = case.sid
+    suction = model.suction_pipes
+    discharge = [p for p in model.pipes if p.side == "discharge"]
+    zero = b.assume(
+        "Commissioning gauges are at the pump datum; with no suction pipe, or at "
+        "shutoff, the velocity at a flange is zero.",
+        0.0,
+        "m/s",
+    )
+    v_in = h["pipes"][suction[-1].id]["velocity"] if suction else zero
+    v_out = h["pipes"][discharge[0].id]["velocity"] if discharge else v_in
+    p_in = b.step(
+        sid("commissioning.suction_pressure"),
+        "Suction flange pressure (gauge) at the operating point",
+        head.suction_flange_pressure,
+        case.id,
+        p_s=surfaces[1],
+        rho=liquid.density,
+        z_s=case.source_level,
+        z_p=model.pump.elevation,
+        h_L=h["suction_loss"],
+        v_in=v_in,
+    )
+    p_out = b.step(
+        sid("commissioning.discharge_pressure"),
+        "Discharge flange pressure (gauge) at the operating point",
+        head.discharge_flange_pressure,
+        case.id,
+        p_in=p_in,
+        rho=liquid.density,
+        H=h["tdh"],
+        v_in=v_in,
+        v_out=v_out,
+    )
+    out = {"suction_pressure": _q(p_in), "discharge_pressure": _q(p_out)}
+    if curve is not None and curve.flow[0].value == 0.0:
+        no_loss = b.assume("At shutoff there is no flow and so no suction loss.", 0.0, "m")
+        shutoff_head = curve.head[0]
+        if case.running.value > 1 and model.pump.arrangement == "series":
+            shutoff_head = b.step(
+                sid("commissioning.shutoff_head"),
+                "Shutoff head of the pumps in series",
+                pump.series_head,
+                case.id,
+                H1=curve.head[0],
+                n_run=case.running,
+            )
+        p_in0 = b.step(
+            sid("commissioning.shutoff_suction_pressure"),
+            "Suction flange pressure (gauge) at shutoff",
+            head.suction_flange_pressure,
+            case.id,
+            p_s=surfaces[1],
+            rho=liquid.density,
+            z_s=case.source_level,
+            z_p=model.pump.elevation,
+            h_L=no_loss,
+            v_in=zero,
+        )
+        p_out0 = b.step(
+            sid("commissioning.shutoff_discharge_pressure"),
+            "Discharge flange pressure (gauge) at shutoff",
+            head.discharge_flange_pressure,
+            case.id,
+            p_in=p_in0,
+            rho=liquid.density,
+            H=shutoff_head,
+            v_in=zero,
+            v_out=zero,
+        )
+        out["shutoff_suction_pressure"] = _q(p_in0)
+        out["shutoff_discharge_pressure"] = _q(p_out0)
+    return out
 
 
 def _duty_point(

@@ -232,7 +232,11 @@ class TraceBuilder:
         return Given(value, unit, key)
 
     def assume(self, text: str, value: float | None = None, unit: str = "") -> Given:
-        """Number an assumption (A1, A2, …) and return its value as a source."""
+        """Number an assumption (A1, A2, …) and return its value as a source; the same
+        assumption made again (same text and value) keeps its number."""
+        for entry in self.assumptions:
+            if entry["text"] == text and entry.get("quantity", {}).get("value") == value:
+                return Given(value if value is not None else math.nan, unit, entry["id"])
         ident = f"A{len(self.assumptions) + 1}"
         entry: dict[str, Any] = {"id": ident, "text": text}
         if value is not None:

@@ -592,3 +592,23 @@ def test_catalog_pipe_sizes_and_materials_solve_without_explicit_values():
     # TDH 32.49768 m [V] (its stated tolerance 1e-4 covers IF97 against IAPWS-95).
     assert t.results["total_dynamic_head"]["value"] == pytest.approx(32.49768, rel=1e-5)
     assert "catalog.asme_b36_10m_steel[6 40].inner_diameter" in t.given
+
+
+def test_commissioning_flange_pressures_by_the_energy_equation():
+    # Source surface to the suction flange, then the pump's total head between the flanges
+    # (White, Fluid Mechanics, eq. 3.73 and sec. 11.2), computed here by hand.
+    text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
+    t = solve(loads(text.encode()))
+    r = t.results
+    rho, g = r["fluid"]["density"]["value"], 9.80665
+    s1, d1 = r["pipes"]["S1"], r["pipes"]["D1"]
+    v_in, v_out = s1["velocity"]["value"], d1["velocity"]["value"]
+    p_in = rho * g * (2.0 - 0.0 - r["suction_loss"]["value"]) - rho * v_in**2 / 2
+    p_out = p_in + rho * g * r["total_dynamic_head"]["value"] - rho * (v_out**2 - v_in**2) / 2
+    c = r["commissioning"]
+    assert c["suction_pressure"]["value"] == pytest.approx(p_in, rel=1e-12)
+    assert c["discharge_pressure"]["value"] == pytest.approx(p_out, rel=1e-12)
+    # At shutoff: no flow, the curve's head at zero flow, 42 m for this curve.
+    assert c["shutoff_discharge_pressure"]["value"] == pytest.approx(
+        rho * g * 2.0 + rho * g * 42.0, rel=1e-12
+    )

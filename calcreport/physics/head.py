@@ -4,6 +4,8 @@ Heads
     static_head, pressure_head, total_dynamic_head, saturation_gauge_pressure
 NPSH
     npsh_available
+Commissioning
+    suction_flange_pressure, discharge_flange_pressure
 
 The energy equation is written from the source surface to the destination
 surface; velocities at large free surfaces are zero, entrance and exit
@@ -20,10 +22,12 @@ from calcreport.physics.losses import G
 
 __all__ = [
     "absolute_pressure",
+    "discharge_flange_pressure",
     "npsh_available",
     "pressure_head",
     "saturation_gauge_pressure",
     "static_head",
+    "suction_flange_pressure",
     "total_dynamic_head",
 ]
 
@@ -270,3 +274,96 @@ def absolute_pressure(p_baro: Any, p_g: Any) -> Any:
     1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, sec. 2.3.
     """
     return p_baro + p_g
+
+
+@equation(
+    symbol="p_in",
+    text="p_in = p_s + ρ·g·(z_s − z_p − h_L,s) − ρ·v_in²/2",
+    latex=r"p_{in} = p_s + \rho g (z_s - z_p - h_{L,s}) - \frac{\rho v_{in}^2}{2}",
+    substitute="{p_s} + {rho} × 9.80665 m/s² × ({z_s} − {z_p} − {h_L}) − {rho} × ({v_in})² / 2",
+    reference="white_fm",
+)
+def suction_flange_pressure(p_s: Any, rho: Any, z_s: Any, z_p: Any, h_L: Any, v_in: Any) -> Any:
+    r"""Gauge pressure expected at the pump suction flange (commissioning value).
+
+    .. math:: p_{in} = p_s + \rho g (z_s - z_p - h_{L,s}) - \frac{\rho v_{in}^2}{2}
+
+    Parameters
+    ----------
+    p_s : float
+        Gauge pressure on the source surface [Pa]
+    rho : float
+        Density of the liquid [kg/m^3]
+    z_s : float
+        Elevation of the source surface [m]
+    z_p : float
+        Elevation of the suction gauge (the pump datum) [m]
+    h_L : float
+        Head loss of the suction side [m]
+    v_in : float
+        Velocity in the suction pipe at the flange [m/s]
+
+    Returns
+    -------
+    p_in : float
+        Gauge pressure at the suction flange [Pa]
+
+    Examples
+    --------
+    >>> round(suction_flange_pressure(0.0, 998.2, 2.0, 0.0, 0.1318, 1.073))
+    17713
+
+    References
+    ----------
+    1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, eq. 3.73
+       (energy equation from the source surface to the suction flange).
+    """
+    return p_s + rho * G * (z_s - z_p - h_L) - rho * v_in**2 / 2.0
+
+
+@equation(
+    symbol="p_out",
+    text="p_out = p_in + ρ·g·H − ρ·(v_out² − v_in²)/2",
+    latex=r"p_{out} = p_{in} + \rho g H - \frac{\rho (v_{out}^2 - v_{in}^2)}{2}",
+    substitute="{p_in} + {rho} × 9.80665 m/s² × {H} − {rho} × (({v_out})² − ({v_in})²) / 2",
+    reference="white_fm",
+)
+def discharge_flange_pressure(p_in: Any, rho: Any, H: Any, v_in: Any, v_out: Any) -> Any:
+    r"""Gauge pressure expected at the pump discharge flange (commissioning value).
+
+    .. math:: p_{out} = p_{in} + \rho g H - \frac{\rho (v_{out}^2 - v_{in}^2)}{2}
+
+    Parameters
+    ----------
+    p_in : float
+        Gauge pressure at the suction flange [Pa]
+    rho : float
+        Density of the liquid [kg/m^3]
+    H : float
+        Pump total head (TDH) [m]
+    v_in : float
+        Velocity at the suction flange [m/s]
+    v_out : float
+        Velocity at the discharge flange [m/s]
+
+    Returns
+    -------
+    p_out : float
+        Gauge pressure at the discharge flange [Pa]
+
+    Notes
+    -----
+    The gauges are taken at the same elevation (the pump datum); a gauge
+    above it reads ρ g Δz less.
+
+    Examples
+    --------
+    >>> round(discharge_flange_pressure(17714.0, 998.2, 32.5, 1.073, 2.435))
+    333472
+
+    References
+    ----------
+    1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, sec. 11.2
+       (pump head from flange pressures and velocities).
+    """
+    return p_in + rho * G * H - rho * (v_out**2 - v_in**2) / 2.0

@@ -505,7 +505,21 @@ class _Report:
             )
         else:
             text_motor = " <b>Motor:</b> not given."
-        return pump + text_motor
+        c = self.r.get("commissioning", {})
+        gauges = ""
+        if c:
+            gauges = (
+                f" <b>Commissioning (C1, gauges at the pump datum):</b> suction "
+                f"{self.q(c['suction_pressure'], 'pressure')}(g), discharge "
+                f"{self.q(c['discharge_pressure'], 'pressure')}(g)"
+            )
+            if "shutoff_discharge_pressure" in c:
+                gauges += (
+                    f"; at shutoff {self.q(c['shutoff_discharge_pressure'], 'pressure')}"
+                    "(g) at the discharge"
+                )
+            gauges += "."
+        return pump + text_motor + gauges
 
     def changes_page(self) -> list[Flowable]:
         """What moved since the previous revision's trace (given with build --previous)."""
