@@ -15,13 +15,14 @@ through the recorded duty point.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, replace
 from typing import Any
 
 import numpy as np
 
 from calcreport import __version__, catalog, checks
-from calcreport.model.schema import Given, Model, Pipe, Vessel
+from calcreport.model.schema import Fitting, Given, Model, Pipe, Vessel
 from calcreport.physics import (
     atmosphere,
     fittings,
@@ -85,6 +86,9 @@ class _Sweep:
 
     def datum(self, key: str, value: float, unit: str) -> Given:
         return Given(value, unit, key)
+
+    def assume(self, text: str, value: float, unit: str) -> Given:
+        return Given(value, unit, "assumption")
 
 
 def _friction_factor_array(Re: Any, eD: Any) -> Any:
@@ -886,6 +890,38 @@ def _surface_pressure(
     return vessel.pressure
 
 
+def _diameter_change_k(ev: Any, case: Case, pipe: Pipe, ft: Fitting, index: int) -> Given:
+    """K of an expander or reducer (Crane TP-410), referred to this pipe's velocity."""
+    assert ft.other_diameter is not None
+    here, other = pipe.inner_diameter, ft.other_diameter
+    small, large = (here, other) if here.value <= other.value else (other, here)
+    angle = ft.angle or ev.assume(
+        "An expander or reducer without an angle is sudden (180 deg).", math.pi, "rad"
+    )
+    law = fittings.expansion if ft.kind == "expander" else fittings.contraction
+    sid = case.sid(f"pipe.{pipe.id}.fitting[{index}]")
+    K = ev.step(
+        f"{sid}.K_small",
+        f"Coefficient of the {ft.kind} in {pipe.id} (on the smaller diameter)",
+        law,
+        case.id,
+        d=small,
+        D=large,
+        angle=angle,
+    )
+    if here.value <= other.value:
+        return K
+    return ev.step(
+        f"{sid}.K",
+        f"Coefficient of the {ft.kind}, referred to {pipe.id}",
+        fittings.refer_to_pipe,
+        case.id,
+        K_d=K,
+        d=small,
+        D_pipe=here,
+    )
+
+
 def _catalog_k(
     ev: Any, case: Case, pipe: Pipe, kind: str, label: str, index: int, Re: Given
 ) -> Given:
@@ -976,6 +1012,8 @@ def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[
     for i, ft in enumerate(pipe.fittings, start=1):
         if ft.K is not None:
             coefficients.append(ft.K)
+        elif ft.other_diameter is not None:
+            coefficients.append(_diameter_change_k(ev, case, pipe, ft, i))
         elif ft.kind:
             coefficients.append(_catalog_k(ev, case, pipe, ft.kind, ft.label, i, Re))
         else:

@@ -64,6 +64,7 @@ KINDS: dict[str, Kind] = {
         Kind("specific_energy", "J/m^3", "kWh/m^3", "kWh/kgal", '"0.25 kWh/m^3"'),
         Kind("speed", "1/s", "rpm", "rpm", '"2950 rpm"'),
         Kind("time", "s", "s", "s", '"2 s"'),
+        Kind("angle", "rad", "deg", "deg", '"30 deg"'),
         Kind("dimensionless", "", "", "", '0.72 or "72 %"'),
     )
 }
@@ -84,6 +85,7 @@ _DIMENSION_OF = {
     "specific_energy": "[mass] / [length] / [time] ** 2",
     "speed": "1 / [time]",
     "time": "[time]",
+    "angle": "dimensionless",
     "dimensionless": "dimensionless",
 }
 
@@ -158,6 +160,7 @@ _FAST: dict[str, tuple[str, float, float]] = {
     "kWh/m^3": ("specific_energy", 3.6e6, 0.0),
     "kWh/kgal": ("specific_energy", 3.6e6 / (1000.0 * _GALLON), 0.0),
     "s": ("time", 1.0, 0.0),
+    "deg": ("angle", math.pi / 180.0, 0.0),
 }
 
 
@@ -300,7 +303,7 @@ def _article(kind: str) -> str:
 
 
 def _has_kind(quantity: Any, kind: str) -> bool:
-    if kind == "dimensionless":
+    if _DIMENSION_OF[kind] == "dimensionless":  # plain numbers and angles
         return bool(quantity.dimensionless)
     return bool(quantity.check(_DIMENSION_OF[kind]))
 

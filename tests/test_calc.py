@@ -612,3 +612,21 @@ def test_commissioning_flange_pressures_by_the_energy_equation():
     assert c["shutoff_discharge_pressure"]["value"] == pytest.approx(
         rho * g * 2.0 + rho * g * 42.0, rel=1e-12
     )
+
+
+def test_reducer_and_expander_coefficients_follow_crane():
+    # Crane TP-410 formulas as implemented in fluids 1.3.1 (contraction_sharp / diffuser_conical,
+    # method "Crane"), referred to the smaller pipe, then to this pipe by (D/d)^4.
+    fluids = pytest.importorskip("fluids")
+    text = CASE.replace("{ K = 0.57 }", '{ kind = "reducer", other_diameter = "102.26 mm" }')
+    text = text.replace(
+        "{ K = 0.366 }", '{ kind = "expander", other_diameter = "154.051 mm", angle = "30 deg" }'
+    )
+    t = solve(loads(text.encode()))
+    sharp = fluids.fittings.contraction_sharp(0.154051, 0.10226, method="Crane")
+    cone = fluids.fittings.diffuser_conical(0.10226, 0.154051, angle=30.0, method="Crane")
+    assert t.step("pipe.S1.fitting[2].K_small").value == pytest.approx(sharp, rel=1e-12)
+    assert t.step("pipe.S1.fitting[2].K").value == pytest.approx(
+        sharp * (0.154051 / 0.10226) ** 4, rel=1e-12
+    )
+    assert t.step("pipe.D1.fitting[1].K_small").value == pytest.approx(cone, rel=1e-12)

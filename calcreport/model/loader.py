@@ -118,7 +118,9 @@ _PIPE_KEYS = {
     "schedule",
     "material",
 }
-_FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow"}
+_FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle"}
+# Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
+DIAMETER_CHANGES = ("expander", "reducer")
 _PLANNED_PUMP_KEYS = ("speed_range", "efficiency_basis")
 ARRANGEMENTS = ("parallel", "series")
 MAX_PUMPS = 12
@@ -1150,8 +1152,13 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
         if len(given) != 1:
             found = f"got {' and '.join(given)}" if given else "got none of them"
             r.problem(where, f"Give exactly one of K, kind, or dp with at_flow; {found}.")
-        elif kind and kind not in catalog.fittings():
-            names = sorted(catalog.fittings())
+        elif kind in DIAMETER_CHANGES and "other_diameter" not in data:
+            r.problem(
+                f"{where}.other_diameter",
+                f'A "{kind}" needs other_diameter, the inner diameter on its other side.',
+            )
+        elif kind and kind not in catalog.fittings() and kind not in DIAMETER_CHANGES:
+            names = sorted([*catalog.fittings(), *DIAMETER_CHANGES])
             close = difflib.get_close_matches(kind, names, n=2, cutoff=0.5)
             hint = f" Did you mean {_one_of(tuple(close))}?" if close else ""
             r.problem(
@@ -1164,6 +1171,12 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
                 where,
                 "A rated loss needs both dp and at_flow (the flow at which the loss dp was rated).",
             )
+        other = r.quantity(data, "other_diameter", where, "diameter", positive=True)
+        angle = r.quantity(data, "angle", where, "angle", positive=True)
+        if (other or angle) and kind not in DIAMETER_CHANGES:
+            r.problem(where, 'other_diameter and angle apply to kind = "expander" or "reducer".')
+        if angle and angle.value > math.pi:
+            r.problem(f"{where}.angle", "The included angle is at most 180 deg (sudden).")
         items.append(
             Fitting(
                 key=where,
@@ -1173,6 +1186,8 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
                 at_flow=at_flow,
                 kind=kind,
                 note=r.text(data, "note", where, ""),
+                other_diameter=other,
+                angle=angle,
             )
         )
     return tuple(items)

@@ -93,6 +93,8 @@ class Fitting:
     at_flow: Given | None = None
     kind: str = ""
     note: str = ""
+    other_diameter: Given | None = None  # expander / reducer: the diameter on the other side
+    angle: Given | None = None  # expander / reducer: included cone angle (None: sudden)
 
     @property
     def label(self) -> str:

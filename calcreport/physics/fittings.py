@@ -2,6 +2,8 @@
 
 Two-K method
     two_k
+Reducers and enlargements
+    expansion, contraction, refer_to_pipe
 
 A fitting's coefficient applies to the velocity of its own pipe. Entrances and
 exits have constant coefficients (catalogue); valves, elbows and tees follow the
@@ -10,11 +12,12 @@ two-K method, which accounts for the Reynolds number and the size.
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["two_k"]
+__all__ = ["contraction", "expansion", "refer_to_pipe", "two_k"]
 
 INCH = 0.0254
 
@@ -63,3 +66,131 @@ def two_k(K1: Any, K_inf: Any, Re: Any, D: Any) -> Any:
        fittings", Chemical Engineering, 24 August 1981, 96-100.
     """
     return K1 / Re + K_inf * (1.0 + INCH / D)
+
+
+@equation(
+    symbol="K",
+    text="K = 2.6·sin(θ/2)·(1 − β²)² (θ ≤ 45°), (1 − β²)² (θ > 45°), β = d/D",
+    latex=r"K = 2.6 \sin\frac{\theta}{2}\,(1 - \beta^2)^2,\ \ \beta = \frac{d}{D}",
+    substitute="β = {d} / {D}, θ = {angle}",
+    reference="crane_tp410",
+)
+def expansion(d: Any, D: Any, angle: Any) -> Any:
+    r"""Resistance coefficient of an enlargement, referred to the smaller pipe's velocity.
+
+    .. math:: K = 2.6 \sin\frac{\theta}{2}(1 - \beta^2)^2 \quad (\theta \le 45^\circ),
+        \qquad K = (1 - \beta^2)^2 \quad (\theta > 45^\circ)
+
+    Parameters
+    ----------
+    d : float
+        Inner diameter of the smaller (upstream) pipe [m]
+    D : float
+        Inner diameter of the larger (downstream) pipe [m]
+    angle : float
+        Included angle of the cone; pi for a sudden enlargement [rad]
+
+    Returns
+    -------
+    K : float
+        Resistance coefficient referred to the smaller pipe [-]
+
+    Notes
+    -----
+    The sudden enlargement is the Borda-Carnot loss (1 - β²)².
+
+    Examples
+    --------
+    >>> round(expansion(0.1, 0.2, 3.141592653589793), 4)
+    0.5625
+
+    References
+    ----------
+    1. Crane Co., Technical Paper No. 410, "Sudden and gradual enlargement"
+       (formula 4 and 5), resistance coefficient K1 on the small diameter.
+    """
+    beta2 = (d / D) ** 2
+    if angle <= math.radians(45.0):
+        return 2.6 * math.sin(angle / 2.0) * (1.0 - beta2) ** 2
+    return (1.0 - beta2) ** 2
+
+
+@equation(
+    symbol="K",
+    text="K = 0.8·sin(θ/2)·(1 − β²) (θ ≤ 45°), 0.5·√sin(θ/2)·(1 − β²) (θ > 45°)",
+    latex=r"K = 0.8 \sin\frac{\theta}{2}\,(1 - \beta^2),\ \ \beta = \frac{d}{D}",
+    substitute="β = {d} / {D}, θ = {angle}",
+    reference="crane_tp410",
+)
+def contraction(d: Any, D: Any, angle: Any) -> Any:
+    r"""Resistance coefficient of a reduction, referred to the smaller pipe's velocity.
+
+    .. math:: K = 0.8 \sin\frac{\theta}{2}(1 - \beta^2) \quad (\theta \le 45^\circ),
+        \qquad K = 0.5 \sqrt{\sin\frac{\theta}{2}}(1 - \beta^2) \quad (\theta > 45^\circ)
+
+    Parameters
+    ----------
+    d : float
+        Inner diameter of the smaller (downstream) pipe [m]
+    D : float
+        Inner diameter of the larger (upstream) pipe [m]
+    angle : float
+        Included angle of the cone; pi for a sudden contraction [rad]
+
+    Returns
+    -------
+    K : float
+        Resistance coefficient referred to the smaller pipe [-]
+
+    Examples
+    --------
+    >>> round(contraction(0.1, 0.2, 3.141592653589793), 4)
+    0.375
+
+    References
+    ----------
+    1. Crane Co., Technical Paper No. 410, "Sudden and gradual contraction"
+       (formula 1 and 2), resistance coefficient K1 on the small diameter.
+    """
+    beta2 = (d / D) ** 2
+    if angle <= math.radians(45.0):
+        return 0.8 * math.sin(angle / 2.0) * (1.0 - beta2)
+    return 0.5 * math.sqrt(math.sin(angle / 2.0)) * (1.0 - beta2)
+
+
+@equation(
+    symbol="K_pipe",
+    text="K_pipe = K_d·(D_pipe/d)⁴",
+    latex=r"K_{pipe} = K_d \left(\frac{D_{pipe}}{d}\right)^4",
+    substitute="{K_d} × ({D_pipe} / {d})⁴",
+    reference="crane_tp410",
+)
+def refer_to_pipe(K_d: Any, d: Any, D_pipe: Any) -> Any:
+    r"""A coefficient referred to diameter d, referred to another pipe's velocity instead.
+
+    .. math:: K_{pipe} = K_d \left(\frac{D_{pipe}}{d}\right)^4
+
+    Parameters
+    ----------
+    K_d : float
+        Coefficient referred to the velocity in diameter d [-]
+    d : float
+        Diameter the coefficient refers to [m]
+    D_pipe : float
+        Inner diameter of the pipe whose velocity is used [m]
+
+    Returns
+    -------
+    K : float
+        Coefficient referred to the pipe's own velocity [-]
+
+    Examples
+    --------
+    >>> refer_to_pipe(0.5, 0.1, 0.2)
+    8.0
+
+    References
+    ----------
+    1. Crane Co., Technical Paper No. 410 (K2 = K1/β⁴).
+    """
+    return K_d * (D_pipe / d) ** 4
