@@ -942,7 +942,15 @@ def _catalog_k(
     )
 
 
-def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[str, Given]:
+def _pipe(
+    ev: Any,
+    case: Case,
+    pipe: Pipe,
+    flow: Given,
+    liquid: Liquid,
+    method: str = "darcy_weisbach",
+    water_liquid: bool = True,
+) -> dict[str, Given]:
     sid = case.sid
     name = f"pipe.{pipe.id}"
     D = pipe.inner_diameter
@@ -997,9 +1005,10 @@ def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[
             eD=eD,
         )
     out["friction_factor"] = f
+    hazen = method == "hazen_williams"
     out["friction_loss"] = ev.step(
-        sid(f"{name}.friction_loss"),
-        f"Friction loss in {pipe.id} (Darcy-Weisbach)",
+        sid(f"{name}.friction_loss_darcy_weisbach" if hazen else f"{name}.friction_loss"),
+        f"Friction loss in {pipe.id} (Darcy-Weisbach" + (", cross-check)" if hazen else ")"),
         losses.darcy_weisbach,
         case.id,
         f=f,
@@ -1007,6 +1016,21 @@ def _pipe(ev: Any, case: Case, pipe: Pipe, flow: Given, liquid: Liquid) -> dict[
         D=D,
         v=v,
     )
+    if pipe.hazen_williams_c is not None and water_liquid:
+        hw = ev.step(
+            sid(f"{name}.friction_loss" if hazen else f"{name}.friction_loss_hazen_williams"),
+            f"Friction loss in {pipe.id} (Hazen-Williams" + (")" if hazen else ", cross-check)"),
+            friction.hazen_williams,
+            case.id,
+            L=pipe.length,
+            Q=flow,
+            C=pipe.hazen_williams_c,
+            D=D,
+        )
+        out["friction_loss_hazen_williams"] = hw
+        if hazen:
+            out["friction_loss_darcy_weisbach"] = out["friction_loss"]
+            out["friction_loss"] = hw
     coefficients: list[Given] = []
     counts: list[Given] = []
     for i, ft in enumerate(pipe.fittings, start=1):
@@ -1087,7 +1111,11 @@ def _hydraulics(
     p_baro, p_source, p_dest, exit_head = surfaces
     Q = flow or case.flow
     sid = case.sid
-    pipes = {p.id: _pipe(ev, case, p, Q, liquid) for p in model.pipes}
+    water_liquid = model.fluid.kind == "water"
+    pipes = {
+        p.id: _pipe(ev, case, p, Q, liquid, model.friction_method, water_liquid)
+        for p in model.pipes
+    }
     out: dict[str, Any] = {"pipes": pipes}
     out["static_head"] = ev.step(
         sid("system.static_head"),

@@ -630,3 +630,35 @@ def test_reducer_and_expander_coefficients_follow_crane():
         sharp * (0.154051 / 0.10226) ** 4, rel=1e-12
     )
     assert t.step("pipe.D1.fitting[1].K_small").value == pytest.approx(cone, rel=1e-12)
+
+
+def test_hazen_williams_cross_check_and_method():
+    # h_f = 10.67 L Q^1.852 / (C^1.852 D^4.8704) (Williams & Hazen; SI form), by hand.
+    def hw(L, Q, C, D):
+        return 10.67 * L * Q**1.852 / (C**1.852 * D**4.8704)
+
+    text = CASE.replace(
+        'roughness = "0.045 mm"\nfittings = [{ K = 0.366 }',
+        'roughness = "0.045 mm"\nhazen_williams_c = 130\nfittings = [{ K = 0.366 }',
+    )
+    t = solve(loads(text.encode()))
+    d1 = t.results["pipes"]["D1"]
+    assert d1["friction_loss_hazen_williams"]["value"] == pytest.approx(
+        hw(150.0, 0.020, 130.0, 0.10226), rel=1e-12
+    )
+    assert t.step("pipe.D1.friction_loss").function == "losses.darcy_weisbach"
+    chosen = solve(
+        loads(
+            (
+                'friction_method = "hazen_williams"\n'
+                + text.replace(
+                    'roughness = "0.045 mm"\nfittings = [{ K = 0.5',
+                    'roughness = "0.045 mm"\nhazen_williams_c = 130\nfittings = [{ K = 0.5',
+                )
+            ).encode()
+        )
+    )
+    assert chosen.step("pipe.D1.friction_loss").function == "friction.hazen_williams"
+    assert chosen.results["pipes"]["D1"]["friction_loss"]["value"] == pytest.approx(
+        hw(150.0, 0.020, 130.0, 0.10226), rel=1e-12
+    )

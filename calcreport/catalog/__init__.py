@@ -5,6 +5,7 @@
 ``motor_ratings.csv`` standard motor ratings, IEC kW and NEMA hp series
 ``fittings_hooper_2k.csv``     two-K coefficients of fittings (Hooper 1981)
 ``fittings_entrance_exit.csv`` entrance and exit coefficients (Crane TP-410)
+``hazen_williams_c.csv``       Hazen-Williams C by material (typical values)
 """
 
 from __future__ import annotations
@@ -15,7 +16,14 @@ from functools import cache
 from pathlib import Path
 from typing import Any
 
-__all__ = ["criteria", "fingerprint", "fittings", "motor_ratings", "references"]
+__all__ = [
+    "criteria",
+    "fingerprint",
+    "fittings",
+    "hazen_williams_c",
+    "motor_ratings",
+    "references",
+]
 
 _HERE = Path(__file__).parent
 
@@ -90,3 +98,11 @@ def fittings() -> dict[str, dict[str, Any]]:
             "reference": "crane_tp410",
         }
     return table
+
+
+@cache
+def hazen_williams_c() -> dict[str, tuple[float, str]]:
+    """Hazen-Williams C of new pipe by material name, with its source."""
+    return {
+        row["material"]: (float(row["C"]), row["source"]) for row in _rows("hazen_williams_c.csv")
+    }

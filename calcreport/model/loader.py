@@ -79,6 +79,7 @@ _TOP_KEYS = {
     "report",
     "revision",
     "envelope",
+    "friction_method",
 }
 _ENVELOPE_KEYS = {"temperature", "flow_required", "roughness", "strainer_dirty_dp"}
 _PLANNED_ENVELOPE_KEYS = ("roughness", "strainer_dirty_dp")
@@ -117,7 +118,9 @@ _PIPE_KEYS = {
     "nominal_size",
     "schedule",
     "material",
+    "hazen_williams_c",
 }
+FRICTION_METHODS = ("darcy_weisbach", "hazen_williams")
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle"}
 # Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
 DIAMETER_CHANGES = ("expander", "reducer")
@@ -321,7 +324,7 @@ class _Reader:
         default: str,
         choices: tuple[str, ...] | None = None,
     ) -> str:
-        where = f"{path}.{key}"
+        where = f"{path}.{key}" if path else key
         value = data.get(key, default)
         if isinstance(value, dt.date | dt.time):
             value = value.isoformat()
@@ -456,6 +459,22 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     pipes = _pipes(r, data.get("pipe"))
     criteria = _criteria(r, r.table(data, "criteria", "criteria", required=False) or {})
     envelope = _envelope(r, r.table(data, "envelope", "envelope", required=False) or {}, fluid)
+    friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
+    if friction_method == "hazen_williams":
+        if fluid is not None and fluid.kind != "water":
+            r.problem(
+                "friction_method",
+                "The Hazen-Williams formula holds for water only; use "
+                '"darcy_weisbach" for this liquid.',
+            )
+        for pipe in pipes:
+            if pipe.hazen_williams_c is None:
+                r.problem(
+                    f"{pipe.key}.hazen_williams_c",
+                    "With friction_method = "
+                    '"hazen_williams" every pipe needs its C: give hazen_williams_c or a '
+                    "material with a tabulated C.",
+                )
 
     motor_efficiency = r.quantity(motor, "efficiency", "motor", "dimensionless", fraction=True)
     drive_efficiency = r.quantity(drive, "efficiency", "drive", "dimensionless", fraction=True)
@@ -475,6 +494,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         text=text,
         project=project,
         envelope=envelope,
+        friction_method=friction_method,
         fluid=fluid,  # type: ignore[arg-type]
         flow=flow,  # type: ignore[arg-type]
         flow_range=flow_range,
@@ -1001,6 +1021,19 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                 f"{roughness.value * 1e3:.6g} mm.",
             )
         fittings = _fittings(r, data.get("fittings", []), path)
+        hw_c = r.quantity(data, "hazen_williams_c", path, "dimensionless", positive=True)
+        if hw_c is None and isinstance(data.get("material"), str):
+            from calcreport.catalog.pipes import CatalogLookupError
+            from calcreport.catalog.pipes import roughness as _rough
+
+            try:
+                material = _rough(data["material"]).material
+            except CatalogLookupError:
+                material = ""
+            if material in catalog.hazen_williams_c():
+                value, source = catalog.hazen_williams_c()[material]
+                hw_c = Given(value, "", f"catalog.hazen_williams_c[{material}]")
+                sources["hazen_williams_c"] = f"C = {value:g} for {material}: {source}"
         start = r.quantity(data, "elevation_start", path, "length")
         end = r.quantity(data, "elevation_end", path, "length")
         if ("elevation_start" in data) != ("elevation_end" in data):
@@ -1021,6 +1054,7 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                     elevation_start=start,
                     elevation_end=end,
                     sources=sources,
+                    hazen_williams_c=hw_c,
                 )
             )
     sides = [p.side for p in pipes]

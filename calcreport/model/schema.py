@@ -113,6 +113,7 @@ class Pipe:
     elevation_start: Given | None = None
     elevation_end: Given | None = None
     sources: dict[str, str] = field(default_factory=dict)  # catalog values: their source
+    hazen_williams_c: Given | None = None
 
 
 @dataclass(frozen=True)
@@ -186,6 +187,7 @@ class Model:
     pipes: tuple[Pipe, ...]
     criteria: Criteria
     envelope: Envelope = field(default_factory=Envelope)
+    friction_method: str = "darcy_weisbach"
 
     @property
     def suction_pipes(self) -> tuple[Pipe, ...]:

@@ -4,6 +4,8 @@ Reynolds number and roughness
     reynolds, relative_roughness, flow_regime
 Darcy friction factor
     laminar, colebrook, swamee_jain
+Hazen-Williams (water only)
+    hazen_williams
 
 Regime rule used throughout calcreport: laminar below Re = 2000, turbulent
 above Re = 4000; between them the flow is in transition, the Colebrook
@@ -26,6 +28,7 @@ __all__ = [
     "TURBULENT_LIMIT",
     "colebrook",
     "flow_regime",
+    "hazen_williams",
     "laminar",
     "relative_roughness",
     "reynolds",
@@ -283,3 +286,50 @@ def colebrook(Re: Any, eD: Any) -> Any:
             f = 1.0 / x**2
             return float(f) if f.ndim == 0 else f
     raise ConvergenceError("Colebrook friction factor", _MAX_ITERATIONS, change)
+
+
+@equation(
+    symbol="h_f,HW",
+    text="h_f = 10.67·L·Q^1.852/(C^1.852·D^4.8704)",
+    latex=r"h_f = \frac{10.67\, L\, Q^{1.852}}{C^{1.852}\, D^{4.8704}}",
+    substitute="10.67 × {L} × ({Q})^1.852 / (({C})^1.852 × ({D})^4.8704)",
+    reference="hazen_williams_1920",
+)
+def hazen_williams(L: Any, Q: Any, C: Any, D: Any) -> Any:
+    r"""Friction head loss of water by the Hazen-Williams formula, SI form.
+
+    .. math:: h_f = \frac{10.67 L Q^{1.852}}{C^{1.852} D^{4.8704}}
+
+    Parameters
+    ----------
+    L : float
+        Pipe length [m]
+    Q : float
+        Flow [m^3/s]
+    C : float
+        Hazen-Williams coefficient of the pipe [-]
+    D : float
+        Inner diameter [m]
+
+    Returns
+    -------
+    h_f : float
+        Friction head loss [m]
+
+    Notes
+    -----
+    Empirical, for water at ordinary temperatures in turbulent flow; not
+    for other liquids. calcreport prints it beside Darcy-Weisbach as a
+    cross-check, or uses it where ``friction_method = "hazen_williams"``.
+
+    Examples
+    --------
+    >>> round(float(hazen_williams(150.0, 0.020, 120.0, 0.10226)), 3)
+    10.721
+
+    References
+    ----------
+    1. Williams, G. S., and Hazen, A., Hydraulic Tables, 3rd ed., Wiley,
+       New York, 1920 (SI constant 10.67 after conversion).
+    """
+    return 10.67 * L * Q**1.852 / (C**1.852 * D**4.8704)
