@@ -64,6 +64,7 @@ class Case:
     running: Given  # identical pumps running in this case
     duty: bool = True  # the required flow must be met in this case
     temperature: Given | None = None  # liquid temperature, when not the fluid's own
+    speed: Given | None = None  # pump speed, when not the operating speed
 
     def sid(self, step: str) -> str:
         """Step id within this case (the design case C1 has plain ids)."""
@@ -124,6 +125,7 @@ def solve(model: Model) -> Trace:
     cases = _cases(b, model)
     by_case: dict[str, dict[str, Any]] = {}
     found: list[Check] = []
+    curves_by_speed: dict[float, CurvePoints | None] = {}
     for case in cases:
         case_liquid, case_surfaces = liquid, surfaces
         if case.temperature is not None:
@@ -135,12 +137,20 @@ def solve(model: Model) -> Trace:
                 _surface_pressure(b, model.destination, case_liquid, p_baro, prefix),
                 exit_head,
             )
-        result = _solve_case(b, model, case, case_liquid, case_surfaces, curve, eta_drive, notes)
+        case_curve = curve
+        if case.speed is not None:
+            case_curve = _pump_curve(b, model, case.speed, f"{case.id}.")
+            curves_by_speed[case.speed.value] = case_curve
+        result = _solve_case(
+            b, model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes
+        )
         by_case[case.id] = result
         found += checks.evaluate(model, result, case.id)
     results = dict(by_case["C1"])
     if curve is not None:
-        motor = _motor(b, model, liquid, curve, by_case)
+        # Non-overloading at the top speed: the fastest curve of any case.
+        fastest = curves_by_speed[max(curves_by_speed)] if curves_by_speed else curve
+        motor = _motor(b, model, liquid, fastest or curve, by_case)
         if motor:
             results["motor"] = motor
     results["cases"] = by_case
@@ -237,6 +247,7 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
         needed: bool = True,
         flow: Given | None = None,
         temperature: Given | None = None,
+        speed: Given | None = None,
     ) -> None:
         cases.append(
             Case(
@@ -244,6 +255,7 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
                 title=title,
                 flow=flow or model.flow,
                 temperature=temperature,
+                speed=speed,
                 source_level=levels[0],
                 npsh_level=npsh_level,
                 destination_level=_destination_elevation(model, levels[1]),
@@ -289,6 +301,18 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
             duty,
             temperature=hot,
         )
+    if model.pump.speed_range:
+        slow, fast = model.pump.speed_range
+        case(
+            f"Top speed {fast.value * 60:.5g} rpm, lowest static head", low, duty, False, speed=fast
+        )
+        case(
+            f"Minimum speed {slow.value * 60:.5g} rpm, highest static head",
+            high,
+            duty,
+            False,
+            speed=slow,
+        )
     if standby.value > 0:
         case(f"All {count.value:g} pumps running, highest static head", high, count, False)
     if duty.value > 1:
@@ -323,12 +347,15 @@ class CurvePoints:
         return [float(g.value) for g in getattr(self, name)]
 
 
-def _pump_curve(b: TraceBuilder, model: Model) -> CurvePoints | None:
+def _pump_curve(
+    b: TraceBuilder, model: Model, speed: Given | None = None, prefix: str = ""
+) -> CurvePoints | None:
+    """The curve points at ``speed`` (default the operating speed), moved by affinity."""
     curve = model.pump.curve
     if curve is None:
         return None
     flow, head, npsh = list(curve.flow), list(curve.head), list(curve.npsh_required)
-    n = model.pump.speed
+    n = speed or model.pump.speed
     if n is not None and curve.speed is not None and n.value != curve.speed.value:
         b.assume(
             "The pump curve is moved to the operating speed by the affinity laws "
@@ -339,8 +366,8 @@ def _pump_curve(b: TraceBuilder, model: Model) -> CurvePoints | None:
         def scaled(points: list[Given], name: str, label: str, law: Any, arg: str) -> list[Given]:
             return [
                 b.step(
-                    f"pump.at_speed.{name}[{i}]",
-                    f"Curve {label} {i} at the operating speed",
+                    f"{prefix}pump.at_speed.{name}[{i}]",
+                    f"Curve {label} {i} at {n.value * 60:.5g} rpm",
                     law,
                     **{arg: point, "n": n, "n0": curve.speed},
                 )

@@ -662,3 +662,21 @@ def test_hazen_williams_cross_check_and_method():
     assert chosen.results["pipes"]["D1"]["friction_loss"]["value"] == pytest.approx(
         hw(150.0, 0.020, 130.0, 0.10226), rel=1e-12
     )
+
+
+def test_speed_range_cases_use_the_affinity_scaled_curve():
+    # CHECK-VALUES section 11 [V]: at 90 % speed the operating point is 18.0178 L/s, 30.7704 m
+    # (design levels; here the range cases run at the level extremes, which equal the design
+    # levels because no level range is given).
+    text = CASE.replace(
+        "efficiency = 0.78\n", 'speed_range = ["2700 rpm", "3000 rpm"]\n'
+    ) + _analytic_curve(speed='speed = "3000 rpm"\n')
+    t = solve(loads(text.encode()))
+    slow = next(c for c in t.cases if c["title"].startswith("Minimum speed"))
+    op = t.results["cases"][slow["id"]]["operating_point"]
+    assert op["flow"]["value"] == pytest.approx(0.0180178, rel=1e-4)
+    assert op["head"]["value"] == pytest.approx(30.7704, rel=1e-4)
+    fast = next(c for c in t.cases if c["title"].startswith("Top speed"))
+    assert t.results["cases"][fast["id"]]["operating_point"]["flow"]["value"] == pytest.approx(
+        t.results["operating_point"]["flow"]["value"], rel=1e-12
+    )

@@ -607,10 +607,10 @@ BAD: list[Bad] = [
         "count = 1.5",
     ),
     Bad(
-        "pump-speed-range-not-available",
+        "pump-speed-range-without-curve",
         variant(("efficiency = 0.71\n", 'efficiency = 0.71\nspeed_range = ["1 rpm", "2 rpm"]\n')),
         "pump.speed_range",
-        "not available in this version",
+        "moves the pump curve",
         "speed_range",
     ),
     Bad(

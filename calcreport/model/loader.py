@@ -124,7 +124,7 @@ FRICTION_METHODS = ("darcy_weisbach", "hazen_williams")
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle"}
 # Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
 DIAMETER_CHANGES = ("expander", "reducer")
-_PLANNED_PUMP_KEYS = ("speed_range", "efficiency_basis")
+_PLANNED_PUMP_KEYS = ("efficiency_basis",)
 ARRANGEMENTS = ("parallel", "series")
 MAX_PUMPS = 12
 _PROVENANCE_KEYS = (
@@ -143,6 +143,7 @@ _PUMP_KEYS = {
     "preferred_range",
     "allowable_range",
     "min_continuous_flow",
+    "speed_range",
     "count",
     "standby",
     "arrangement",
@@ -555,8 +556,7 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
         if key in data:
             r.problem(
                 f"pump.{key}",
-                f"The key pump.{key} (speed ranges and wire-to-water efficiency) is not "
-                "available in this version.",
+                f"The key pump.{key} (wire-to-water efficiency) is not available in this version.",
             )
     elevation = r.quantity(data, "elevation", "pump", "length", required=True)
     efficiency = r.quantity(data, "efficiency", "pump", "dimensionless", fraction=True)
@@ -579,6 +579,23 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
             ranges[key] = _fraction_pair(r, data[key], f"pump.{key}")
     provenance = {key: r.text(data, key, "pump", "") for key in _PROVENANCE_KEYS if key in data}
     minimum = r.quantity(data, "min_continuous_flow", "pump", "flow", positive=True)
+    speed_range = None
+    if "speed_range" in data:
+        speeds = _quantity_list(r, data, "speed_range", "pump", "speed")
+        if speeds is not None and len(speeds) != 2:
+            r.problem(
+                "pump.speed_range",
+                'Give the lowest and the highest speed, such as ["1800 rpm", "2950 rpm"].',
+            )
+        elif speeds is not None and speeds[0].value >= speeds[1].value:
+            r.problem("pump.speed_range", "Give the lowest speed first.")
+        elif speeds is not None:
+            speed_range = (speeds[0], speeds[1])
+            if curve is None or curve.speed is None:
+                r.problem(
+                    "pump.speed_range",
+                    "A speed range moves the pump curve: give [pump.curve] with its speed.",
+                )
     count = _whole(r, data, "count", 1, MAX_PUMPS)
     standby = _whole(r, data, "standby", 0, MAX_PUMPS - 1)
     arrangement = r.text(data, "arrangement", "pump", "parallel", ARRANGEMENTS)
@@ -599,6 +616,7 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
         count=count or Given(1.0, "", "pump.count"),
         standby=standby or Given(0.0, "", "pump.standby"),
         arrangement=arrangement,
+        speed_range=speed_range,
         elevation=elevation,
         efficiency=efficiency,
         speed=speed,

@@ -140,6 +140,7 @@ class Pump:
     count: Given = field(default_factory=lambda: Given(1.0, "", "pump.count"))
     standby: Given = field(default_factory=lambda: Given(0.0, "", "pump.standby"))
     arrangement: str = "parallel"
+    speed_range: tuple[Given, Given] | None = None
 
 
 @dataclass(frozen=True)
