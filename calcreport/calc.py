@@ -670,7 +670,7 @@ def _operating_point(
     eta = None
     if curve.efficiency:
         eta = b.step(
-            sid("pump.efficiency"),
+            sid("pump.operating_efficiency"),
             "Pump efficiency at the operating flow",
             pump.efficiency_at,
             case.id,

@@ -680,3 +680,11 @@ def test_speed_range_cases_use_the_affinity_scaled_curve():
     assert t.results["cases"][fast["id"]]["operating_point"]["flow"]["value"] == pytest.approx(
         t.results["operating_point"]["flow"]["value"], rel=1e-12
     )
+
+
+def test_pump_efficiency_input_and_curve_efficiency_together():
+    # Regression: the curve's efficiency step took the id of the input key pump.efficiency.
+    text = CASE + _analytic_curve()
+    t = solve(loads(text.encode()))
+    assert t.step("pump.operating_efficiency").function == "pump.efficiency_at"
+    assert t.results["operating_point"]["efficiency"]["value"] == pytest.approx(0.7772, rel=2e-4)
