@@ -20,6 +20,21 @@ from calcreport.cli import main
 
 EXAMPLES = sorted((Path(__file__).parent.parent / "input_examples").glob("*.toml"))
 SOURCES = [p.read_text(encoding="utf-8") for p in EXAMPLES]
+# Every optional block at once, so corruptions reach the interactions between them.
+SOURCES.append(
+    SOURCES[[p.stem for p in EXAMPLES].index("cooling_water_selected_pump")]
+    .replace(
+        'elevation = "85.1 m"',
+        'elevation = "85.1 m"\nefficiency = 0.75\n'
+        'speed = "1450 rpm"\nspeed_range = ["1200 rpm", "1480 rpm"]\ncount = 2\n'
+        "standby = 1",
+    )
+    .replace(
+        "[operation]",
+        '[envelope]\ntemperature = ["10 degC", "32 degC"]\n'
+        'flow_required = ["20 L/s", "30 L/s"]\n\n[operation]',
+    )
+)
 
 HOSTILE = [
     '"nan m"',

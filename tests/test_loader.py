@@ -593,6 +593,13 @@ BAD: list[Bad] = [
         'cautions = "one"',
     ),
     Bad(
+        "pump-standby-without-count",
+        variant(("efficiency = 0.71\n", "efficiency = 0.71\nstandby = 1\n")),
+        "pump.standby",
+        "must be less than pump.count",
+        "standby = 1",
+    ),
+    Bad(
         "pump-count-without-curve",
         variant(("efficiency = 0.71\n", "efficiency = 0.71\ncount = 2\n")),
         "pump.count",

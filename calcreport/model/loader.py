@@ -599,7 +599,7 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
     count = _whole(r, data, "count", 1, MAX_PUMPS)
     standby = _whole(r, data, "standby", 0, MAX_PUMPS - 1)
     arrangement = r.text(data, "arrangement", "pump", "parallel", ARRANGEMENTS)
-    if count and standby and standby.value >= count.value:
+    if standby and standby.value >= (count.value if count else 1.0):
         r.problem(
             "pump.standby",
             "At least one pump must remain in service: pump.standby must be less than pump.count.",
