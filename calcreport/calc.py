@@ -957,6 +957,15 @@ def _catalog_k(
     base = f"catalog.fittings.{kind}"
     if entry["method"] == "constant":
         return ev.datum(f"{base}.K", entry["K"], "")
+    if entry["method"] == "crane":
+        return ev.step(
+            case.sid(f"pipe.{pipe.id}.fitting[{index}].K"),
+            f"Coefficient of {label} in {pipe.id} (K = n·f_T)",
+            fittings.crane_k,
+            case.id,
+            n=ev.datum(f"{base}.n", entry["n"], ""),
+            D=pipe.inner_diameter,
+        )
     return ev.step(
         case.sid(f"pipe.{pipe.id}.fitting[{index}].K"),
         f"Coefficient of {label} in {pipe.id} (two-K method)",

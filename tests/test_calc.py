@@ -688,3 +688,13 @@ def test_pump_efficiency_input_and_curve_efficiency_together():
     t = solve(loads(text.encode()))
     assert t.step("pump.operating_efficiency").function == "pump.efficiency_at"
     assert t.results["operating_point"]["efficiency"]["value"] == pytest.approx(0.7772, rel=2e-4)
+
+
+def test_foot_valve_by_the_crane_friction_factor_multiple():
+    # Crane TP-410: K = 75 f_T for a hinged-disc foot valve with strainer (CHECK-VALUES
+    # section 4 [M✓]); f_T against fluids.friction.ft_Crane (a smooth fit, within 0.1 %).
+    fluids = pytest.importorskip("fluids")
+    text = CASE.replace('{ K = 0.5, note = "entrance" }', '{ kind = "foot_valve_strainer" }')
+    t = solve(loads(text.encode()))
+    K = t.step("pipe.S1.fitting[1].K").value
+    assert K == pytest.approx(75 * fluids.friction.ft_Crane(0.154051), rel=1e-3)

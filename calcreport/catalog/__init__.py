@@ -5,6 +5,7 @@
 ``motor_ratings.csv`` standard motor ratings, IEC kW and NEMA hp series
 ``fittings_hooper_2k.csv``     two-K coefficients of fittings (Hooper 1981)
 ``fittings_entrance_exit.csv`` entrance and exit coefficients (Crane TP-410)
+``fittings_crane_ft.csv``      fittings as multiples of f_T (Crane TP-410)
 ``hazen_williams_c.csv``       Hazen-Williams C by material (typical values)
 """
 
@@ -88,6 +89,14 @@ def fittings() -> dict[str, dict[str, Any]]:
             "description": row["description"],
             "source": row["source"],
             "reference": "hooper_1981",
+        }
+    for row in _rows("fittings_crane_ft.csv"):
+        table[row["kind"]] = {
+            "method": "crane",
+            "n": float(row["n"]),
+            "description": row["description"],
+            "source": row["source"],
+            "reference": "crane_tp410",
         }
     for row in _rows("fittings_entrance_exit.csv"):
         table[row["kind"]] = {

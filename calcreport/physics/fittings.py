@@ -2,6 +2,8 @@
 
 Two-K method
     two_k
+Friction-factor multiple (Crane)
+    crane_k
 Reducers and enlargements
     expansion, contraction, refer_to_pipe
 
@@ -17,7 +19,7 @@ from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["contraction", "expansion", "refer_to_pipe", "two_k"]
+__all__ = ["contraction", "crane_k", "expansion", "refer_to_pipe", "two_k"]
 
 INCH = 0.0254
 
@@ -194,3 +196,49 @@ def refer_to_pipe(K_d: Any, d: Any, D_pipe: Any) -> Any:
     1. Crane Co., Technical Paper No. 410 (K2 = K1/β⁴).
     """
     return K_d * (D_pipe / d) ** 4
+
+
+@equation(
+    symbol="K",
+    text="K = n·f_T, f_T = 0.25/[log10(ε_cs/(3.7·D))]², ε_cs = 0.045 mm",
+    latex=r"K = n\, f_T,\ \ f_T = \frac{0.25}"
+    r"{\left[\log_{10}\frac{\varepsilon_{cs}}{3.7 D}\right]^2}",
+    substitute="{n} × 0.25 / [log10(4.5e-05 m / (3.7 × {D}))]²",
+    reference="crane_tp410",
+)
+def crane_k(n: Any, D: Any) -> Any:
+    r"""Resistance coefficient by the friction-factor-multiple method of Crane TP-410.
+
+    .. math:: K = n f_T, \qquad f_T = \frac{0.25}{\left[\log_{10}
+        \frac{\varepsilon_{cs}}{3.7 D}\right]^2}
+
+    Parameters
+    ----------
+    n : float
+        Multiple of the fully turbulent friction factor for the fitting (Crane's
+        L/D) [-]
+    D : float
+        Inner diameter of the pipe [m]
+
+    Returns
+    -------
+    K : float
+        Resistance coefficient, referred to the pipe velocity [-]
+
+    Notes
+    -----
+    f_T is the fully rough Colebrook value of clean commercial steel
+    (ε = 0.045 mm) at the pipe's diameter, the basis of Crane's tabulated f_T.
+
+    Examples
+    --------
+    >>> round(crane_k(75.0, 0.1541), 3)
+    1.114
+
+    References
+    ----------
+    1. Crane Co., Flow of Fluids Through Valves, Fittings and Pipe,
+       Technical Paper No. 410, "Representative resistance coefficients K".
+    """
+    f_T = 0.25 / math.log10(4.5e-5 / (3.7 * D)) ** 2
+    return n * f_T
