@@ -153,6 +153,9 @@ def solve(model: Model) -> Trace:
         motor = _motor(b, model, liquid, fastest or curve, by_case)
         if motor:
             results["motor"] = motor
+    lift = _lift_speed(b, model, cases, by_case)
+    if lift is not None:
+        results["minimum_lift_speed"] = _q(lift)
     results["cases"] = by_case
     found = checks.governing(found) + checks.once(model, results)
     status = _status(model, results, found)
@@ -730,6 +733,54 @@ def _regions(model: Model, q_bep: float) -> dict[str, Any]:
     if model.pump.min_continuous_flow:
         out["min_continuous_flow"] = _q(model.pump.min_continuous_flow)
     return out
+
+
+def _lift_speed(
+    b: TraceBuilder, model: Model, cases: list[Case], by_case: dict[str, dict[str, Any]]
+) -> Given | None:
+    """The speed whose shutoff head just lifts the highest static head (with a speed range)."""
+    curve = model.pump.curve
+    if (
+        model.pump.speed_range is None
+        or curve is None
+        or curve.speed is None
+        or curve.flow[0].value != 0.0
+    ):
+        return None
+
+    def static(c: Case) -> float:
+        r = by_case[c.id]
+        return r["static_head"]["value"] + r["pressure_head"]["value"]
+
+    worst = max(cases, key=static)
+    H = b.step(
+        "pump.static_lift",
+        f"Highest static head (case {worst.id})",
+        losses.head_sum,
+        h=[
+            Given(by_case[worst.id]["static_head"]["value"], "m", worst.sid("system.static_head")),
+            Given(
+                by_case[worst.id]["pressure_head"]["value"], "m", worst.sid("system.pressure_head")
+            ),
+        ],
+    )
+    H0 = curve.head[0]
+    if model.pump.count.value > 1 and model.pump.arrangement == "series":
+        H0 = b.step(
+            "pump.shutoff_head_series",
+            "Shutoff head of the pumps in series",
+            pump.series_head,
+            H1=curve.head[0],
+            n_run=model.pump.count,
+        )
+    return b.step(
+        "pump.minimum_lift_speed",
+        "Speed that just lifts the static head",
+        pump.lift_speed,
+        n0=curve.speed,
+        H_static=H,
+        H0=H0,
+    )
 
 
 def _motor(

@@ -91,6 +91,26 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
         found.append(exit_check)
     if "pump_curve" in results:
         found.append(_curve_stability(model, results))
+    if "minimum_lift_speed" in results and model.pump.speed_range:
+        n_lift = results["minimum_lift_speed"]["value"]
+        n_min = model.pump.speed_range[0].value
+        found.append(
+            Check(
+                id="minimum_speed",
+                title="Minimum speed above the speed that lifts the static head",
+                status="pass" if n_min > n_lift else "fail",
+                value=n_min,
+                unit="1/s",
+                limit=n_lift,
+                comparison=">",
+                basis="Below this speed the shutoff head is less than the static "
+                "head and the pump delivers nothing (affinity laws)",
+                reference="karassik_2008",
+                case="all",
+                margin=n_min - n_lift,
+                message="" if n_min > n_lift else "the minimum speed delivers no flow",
+            )
+        )
     motor = results.get("motor", {})
     if "rated_power" in motor:
         rated = motor["rated_power"]["value"]

@@ -698,3 +698,17 @@ def test_foot_valve_by_the_crane_friction_factor_multiple():
     t = solve(loads(text.encode()))
     K = t.step("pipe.S1.fitting[1].K").value
     assert K == pytest.approx(75 * fluids.friction.ft_Crane(0.154051), rel=1e-3)
+
+
+def test_minimum_lift_speed_by_the_affinity_law():
+    # n_lift = n0 sqrt(H_static / H0): 3000 rpm x sqrt(23 m / 42 m) for this system and curve.
+    text = CASE.replace(
+        "efficiency = 0.78\n", 'speed_range = ["2000 rpm", "3000 rpm"]\n'
+    ) + _analytic_curve(speed='speed = "3000 rpm"\n')
+    t = solve(loads(text.encode()))
+    expected = 3000 / 60 * (23.0 / 42.0) ** 0.5
+    assert t.results["minimum_lift_speed"]["value"] == pytest.approx(expected, rel=1e-12)
+    # 2000 rpm is below the 2220 rpm that lifts 23 m: no flow at the minimum speed.
+    assert next(c for c in t.checks if c.id == "minimum_speed").status == "fail"
+    faster = solve(loads(text.replace('"2000 rpm"', '"2400 rpm"').encode()))
+    assert next(c for c in faster.checks if c.id == "minimum_speed").status == "pass"

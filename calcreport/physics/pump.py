@@ -3,7 +3,7 @@
 Curves
     head_at, efficiency_at, npsh_required_at, best_efficiency_point, monotone_cubic
 Speed
-    affinity_flow, affinity_head, specific_speed
+    affinity_flow, affinity_head, specific_speed, lift_speed
 Operating point
     operating_point, solved_flow, head_balance
 Several pumps
@@ -35,6 +35,7 @@ __all__ = [
     "efficiency_at",
     "head_at",
     "head_balance",
+    "lift_speed",
     "monotone_cubic",
     "npsh_margin",
     "npsh_margin_ratio",
@@ -744,3 +745,47 @@ def series_head(H1: Any, n_run: Any) -> Any:
        (identical pumps in series: heads add at equal flow).
     """
     return n_run * H1
+
+
+@equation(
+    symbol="n_lift",
+    text="n_lift = n_0·√(H_static/H_0)",
+    latex=r"n_{lift} = n_0 \sqrt{\frac{H_{static}}{H_0}}",
+    substitute="{n0} × √({H_static} / {H0})",
+    reference="karassik_2008",
+)
+def lift_speed(n0: Any, H_static: Any, H0: Any) -> Any:
+    r"""Speed at which the pump's shutoff head just equals the static head (affinity law).
+
+    .. math:: n_{lift} = n_0 \sqrt{\frac{H_{static}}{H_0}}
+
+    Parameters
+    ----------
+    n0 : float
+        Speed of the curve data [1/s]
+    H_static : float
+        Highest static head of the system, elevation plus pressure [m]
+    H0 : float
+        Shutoff head of the curve at n0 (per pump in series: of all of them) [m]
+
+    Returns
+    -------
+    n_lift : float
+        Speed below which the pump delivers no flow against the static head [1/s]
+
+    Notes
+    -----
+    A variable-speed pump should run well above this speed: near it the flow is
+    small and unstable.
+
+    Examples
+    --------
+    >>> round(lift_speed(50.0, 25.0, 36.0), 4)
+    41.6667
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (affinity laws; variable-speed operation against static head).
+    """
+    return n0 * math.sqrt(H_static / H0)
