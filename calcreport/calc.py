@@ -147,7 +147,12 @@ def solve(model: Model) -> Trace:
         by_case[case.id] = result
         found += checks.evaluate(model, result, case.id)
     results = dict(by_case["C1"])
-    if curve is not None:
+    if curve is not None and model.pump.efficiency_basis == "overall":
+        notes.append(
+            "The motor rating is not selected: with a wire-to-water efficiency the "
+            "shaft power is unknown; size the motor on the pump's own curve."
+        )
+    elif curve is not None:
         # Non-overloading at the top speed: the fastest curve of any case.
         fastest = curves_by_speed[max(curves_by_speed)] if curves_by_speed else curve
         motor = _motor(b, model, liquid, fastest or curve, by_case)
@@ -1306,26 +1311,38 @@ def _power(
     out["hydraulic_power"] = _q(P_h)
     if eta_pump is None:
         return out
-    P_s = b.step(
-        sid("power.shaft"),
-        "Shaft power",
-        power.shaft_power,
-        case.id,
-        P_h=P_h,
-        eta_p=eta_pump,
-    )
-    out["shaft_power"] = _q(P_s)
-    if model.motor_efficiency is None:
-        return out
-    P_e = b.step(
-        sid("power.electrical"),
-        "Electrical input power",
-        power.electrical_power,
-        case.id,
-        P_s=P_s,
-        eta_m=model.motor_efficiency,
-        eta_d=eta_drive,
-    )
+    if model.pump.efficiency_basis == "overall":
+        # Wire-to-water efficiency: electrical input directly; the shaft power is unknown,
+        # and no motor efficiency is applied (it is inside the overall value).
+        P_e = b.step(
+            sid("power.electrical"),
+            "Electrical input power (wire-to-water efficiency)",
+            power.wire_to_water_power,
+            case.id,
+            P_h=P_h,
+            eta_ww=eta_pump,
+        )
+    else:
+        P_s = b.step(
+            sid("power.shaft"),
+            "Shaft power",
+            power.shaft_power,
+            case.id,
+            P_h=P_h,
+            eta_p=eta_pump,
+        )
+        out["shaft_power"] = _q(P_s)
+        if model.motor_efficiency is None:
+            return out
+        P_e = b.step(
+            sid("power.electrical"),
+            "Electrical input power",
+            power.electrical_power,
+            case.id,
+            P_s=P_s,
+            eta_m=model.motor_efficiency,
+            eta_d=eta_drive,
+        )
     out["electrical_power"] = _q(P_e)
     op = model.operation
     if case.id != "C1":  # the annual energy is that of the design case

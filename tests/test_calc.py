@@ -712,3 +712,14 @@ def test_minimum_lift_speed_by_the_affinity_law():
     assert next(c for c in t.checks if c.id == "minimum_speed").status == "fail"
     faster = solve(loads(text.replace('"2000 rpm"', '"2400 rpm"').encode()))
     assert next(c for c in faster.checks if c.id == "minimum_speed").status == "pass"
+
+
+def test_overall_efficiency_basis_never_divides_by_the_motor_efficiency():
+    # efficiency_basis = "overall": P_e = rho g Q H / eta_overall, the motor efficiency unused.
+    text = CASE.replace("efficiency = 0.78\n", 'efficiency = 0.65\nefficiency_basis = "overall"\n')
+    t = solve(loads(text.encode()))
+    r = t.results
+    assert "shaft_power" not in r
+    assert r["electrical_power"]["value"] == pytest.approx(
+        r["hydraulic_power"]["value"] / 0.65, rel=1e-14
+    )

@@ -124,7 +124,7 @@ FRICTION_METHODS = ("darcy_weisbach", "hazen_williams")
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle"}
 # Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
 DIAMETER_CHANGES = ("expander", "reducer")
-_PLANNED_PUMP_KEYS = ("efficiency_basis",)
+EFFICIENCY_BASES = ("pump", "overall")
 ARRANGEMENTS = ("parallel", "series")
 MAX_PUMPS = 12
 _PROVENANCE_KEYS = (
@@ -144,11 +144,11 @@ _PUMP_KEYS = {
     "allowable_range",
     "min_continuous_flow",
     "speed_range",
+    "efficiency_basis",
     "count",
     "standby",
     "arrangement",
     *_PROVENANCE_KEYS,
-    *_PLANNED_PUMP_KEYS,
 }
 _CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required"}
 MIN_CURVE_POINTS = 3
@@ -552,12 +552,6 @@ def _envelope(r: _Reader, data: dict[str, Any], fluid: Fluid | None) -> Envelope
 
 def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
     r.known_keys(data, "pump", _PUMP_KEYS)
-    for key in _PLANNED_PUMP_KEYS:
-        if key in data:
-            r.problem(
-                f"pump.{key}",
-                f"The key pump.{key} (wire-to-water efficiency) is not available in this version.",
-            )
     elevation = r.quantity(data, "elevation", "pump", "length", required=True)
     efficiency = r.quantity(data, "efficiency", "pump", "dimensionless", fraction=True)
     speed = r.quantity(data, "speed", "pump", "speed", positive=True)
@@ -596,6 +590,7 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
                     "pump.speed_range",
                     "A speed range moves the pump curve: give [pump.curve] with its speed.",
                 )
+    basis = r.text(data, "efficiency_basis", "pump", "pump", EFFICIENCY_BASES)
     count = _whole(r, data, "count", 1, MAX_PUMPS)
     standby = _whole(r, data, "standby", 0, MAX_PUMPS - 1)
     arrangement = r.text(data, "arrangement", "pump", "parallel", ARRANGEMENTS)
@@ -617,6 +612,7 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
         standby=standby or Given(0.0, "", "pump.standby"),
         arrangement=arrangement,
         speed_range=speed_range,
+        efficiency_basis=basis,
         elevation=elevation,
         efficiency=efficiency,
         speed=speed,

@@ -141,6 +141,7 @@ class Pump:
     standby: Given = field(default_factory=lambda: Given(0.0, "", "pump.standby"))
     arrangement: str = "parallel"
     speed_range: tuple[Given, Given] | None = None
+    efficiency_basis: str = "pump"  # pump | overall (wire-to-water)
 
 
 @dataclass(frozen=True)

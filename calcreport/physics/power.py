@@ -1,7 +1,8 @@
 """Power and energy of a pump: hydraulic, shaft and electrical; energy and cost.
 
 Power
-    hydraulic_power, shaft_power, electrical_power, peak_shaft_power, per_pump_power
+    hydraulic_power, shaft_power, electrical_power, wire_to_water_power, peak_shaft_power,
+    per_pump_power
 Energy
     hours_to_seconds, fill_time, annual_energy, specific_energy
 Cost
@@ -31,6 +32,7 @@ __all__ = [
     "present_value",
     "shaft_power",
     "specific_energy",
+    "wire_to_water_power",
 ]
 
 JOULES_PER_KWH = 3.6e6
@@ -181,6 +183,43 @@ def hours_to_seconds(hours: Any) -> Any:
     1. NIST Special Publication 811, 2008, Appendix B (1 h = 3600 s).
     """
     return hours * 3600.0
+
+
+@equation(
+    symbol="P_e",
+    text="P_e = P_h/η_ww",
+    latex=r"P_e = \frac{P_h}{\eta_{ww}}",
+    substitute="{P_h} / {eta_ww}",
+    reference="hi_power",
+)
+def wire_to_water_power(P_h: Any, eta_ww: Any) -> Any:
+    r"""Electrical input power from an overall (wire-to-water) efficiency.
+
+    .. math:: P_e = \frac{P_h}{\eta_{ww}}
+
+    Parameters
+    ----------
+    P_h : float
+        Hydraulic power [W]
+    eta_ww : float
+        Overall efficiency of pump, motor and any drive together [-]
+
+    Returns
+    -------
+    P_e : float
+        Electrical input power [W]
+
+    Examples
+    --------
+    >>> round(wire_to_water_power(6362.44, 0.65), 1)
+    9788.4
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (wire-to-water efficiency).
+    """
+    return P_h / eta_ww
 
 
 @equation(
