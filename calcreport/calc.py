@@ -174,7 +174,7 @@ def solve(model: Model) -> Trace:
     used = {s.reference for s in b.steps} | {c.reference for c in found} | {"input"}
     references = {k: v for k, v in catalog.references().items() if k in used}
     return Trace(
-        input={"path": model.path, "sha256": model.sha256},
+        input={"path": model.path, "sha256": model.sha256, "files": list(model.files)},
         project={
             "title": model.project.title,
             "client": model.project.client,
@@ -849,7 +849,7 @@ def _record_inputs(b: TraceBuilder, model: Model) -> None:
                 walk(getattr(obj, name))
 
     for name in Model.__dataclass_fields__:
-        if name not in ("path", "sha256", "text"):
+        if name not in ("path", "sha256", "text", "files"):
             walk(getattr(model, name))
 
 

@@ -150,7 +150,9 @@ _PUMP_KEYS = {
     "arrangement",
     *_PROVENANCE_KEYS,
 }
-_CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required"}
+_CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required", "file"}
+_CURVE_COLUMNS = ("flow", "head", "efficiency", "npsh_required")
+MAX_CSV_BYTES = 200_000
 MIN_CURVE_POINTS = 3
 # Bounds on what one input may hold: far beyond any real system, small enough that a
 # pasted or generated file cannot make a run take minutes or the report thousands of pages.
@@ -229,9 +231,11 @@ class _Lines:
 class _Reader:
     """Reads values from parsed TOML, collecting every problem found."""
 
-    def __init__(self, lines: _Lines) -> None:
+    def __init__(self, lines: _Lines, folder: Path | None = None) -> None:
         self.lines = lines
         self.problems: list[Problem] = []
+        self.folder = folder or Path.cwd()
+        self.files: list[dict[str, str]] = []  # other files read: path and SHA-256
 
     def problem(self, key: str, message: str) -> None:
         self.problems.append(Problem(key, message, self.lines.line(key)))
@@ -400,7 +404,8 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
         raise InputError(
             [Problem("<toml>", f"The file is not valid TOML: {reason}.", line)], path
         ) from exc
-    reader = _Reader(_Lines(text))
+    folder = Path(path).parent if path and not path.startswith("<") else None
+    reader = _Reader(_Lines(text), folder)
     model = _build(reader, data, text, hashlib.sha256(raw).hexdigest(), path)
     if reader.problems:
         raise InputError(reader.problems, path)
@@ -493,6 +498,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         path=path,
         sha256=sha,
         text=text,
+        files=tuple(r.files),
         project=project,
         envelope=envelope,
         friction_method=friction_method,
@@ -548,6 +554,17 @@ def _envelope(r: _Reader, data: dict[str, Any], fluid: Fluid | None) -> Envelope
         r.problem("envelope.flow_required", "Every required flow must be greater than zero.")
         flows = ()
     return Envelope(temperatures=tuple(temperatures), flows=tuple(flows))
+
+
+def _numbers(cells: list[str]) -> list[Any]:
+    """CSV cells as TOML would give them: bare numbers as floats, quantities as text."""
+    out: list[Any] = []
+    for cell in cells:
+        try:
+            out.append(float(cell))
+        except ValueError:
+            out.append(cell)
+    return out
 
 
 def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
@@ -695,9 +712,99 @@ def _quantity_list(
     return tuple(values) if len(values) == len(raw) else None
 
 
+def _curve_file(r: _Reader, name: Any) -> dict[str, list[str]] | None:
+    """Curve columns from a CSV file named relative to the input (``flow [L/s]``, ...)."""
+    import csv
+
+    where = "pump.curve.file"
+    if not isinstance(name, str) or not name:
+        r.problem(where, f"Expected a file name in double quotes; got {as_written(name)}.")
+        return None
+    given = Path(name)
+    target = given if given.is_absolute() else (r.folder / given)
+    if not given.is_absolute():
+        try:
+            target.resolve().relative_to(r.folder.resolve())
+        except ValueError:
+            r.problem(
+                where,
+                f'The file "{name}" lies outside the input\'s folder; give a '
+                "path inside it, or an absolute path.",
+            )
+            return None
+    try:
+        raw = target.read_bytes()
+    except OSError as exc:
+        r.problem(where, f'The file "{name}" cannot be read: {(exc.strerror or str(exc)).lower()}.')
+        return None
+    if len(raw) > MAX_CSV_BYTES:
+        r.problem(where, f'The file "{name}" has {len(raw):,} bytes; at most {MAX_CSV_BYTES:,}.')
+        return None
+    try:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError:
+        r.problem(where, f'The file "{name}" is not UTF-8 text.')
+        return None
+    rows, lines = [], []
+    for line_number, row in enumerate(csv.reader(text.splitlines()), start=1):
+        if row and not row[0].startswith("#"):
+            rows.append(row)
+            lines.append(line_number)
+    if len(rows) < 2:
+        r.problem(where, f'The file "{name}" needs a header row and the curve points.')
+        return None
+    header = [re.match(r"^\s*([A-Za-z_]+)\s*(?:\[([^\]]*)\])?\s*$", h) for h in rows[0]]
+    if not all(header):
+        r.problem(
+            where,
+            f'The header of "{name}" must name its columns with units, such as '
+            '"flow [L/s],head [m],efficiency [-],npsh_required [m]".',
+        )
+        return None
+    names = [m.group(1) for m in header if m]
+    unknown = [n for n in names if n not in _CURVE_COLUMNS]
+    if unknown:
+        r.problem(
+            where,
+            f'The columns {", ".join(unknown)} of "{name}" are not curve columns '
+            f"({', '.join(_CURVE_COLUMNS)}).",
+        )
+        return None
+    units = [(m.group(2) or "").strip() for m in header if m]
+    columns: dict[str, list[str]] = {n: [] for n in names}
+    for number, row in zip(lines[1:], rows[1:], strict=True):
+        if len(row) != len(names):
+            r.problem(
+                where,
+                f'Line {number} of "{name}" has {len(row)} values; the header has {len(names)}.',
+            )
+            return None
+        for n, unit, cell in zip(names, units, row, strict=True):
+            columns[n].append(
+                f"{cell.strip()} {unit}".strip() if unit not in ("", "-") else cell.strip()
+            )
+    r.files.append(
+        {"path": str(name), "sha256": hashlib.sha256(raw).hexdigest(), "role": "pump curve"}
+    )
+    return columns
+
+
 def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
     path = "pump.curve"
     r.known_keys(data, path, _CURVE_KEYS)
+    if "file" in data:
+        inline = [key for key in _CURVE_COLUMNS if key in data]
+        if inline:
+            r.problem(
+                f"{path}.file",
+                "Give the curve points in the file or inline, not both "
+                f"(also given inline: {', '.join(inline)}).",
+            )
+            return None
+        columns = _curve_file(r, data["file"])
+        if columns is None:
+            return None
+        data = {**data, **{k: _numbers(v) for k, v in columns.items()}}
     speed = r.quantity(data, "speed", path, "speed", positive=True)
     flow = _quantity_list(r, data, "flow", path, "flow")
     head = _quantity_list(r, data, "head", path, "length")

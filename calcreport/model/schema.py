@@ -190,6 +190,7 @@ class Model:
     criteria: Criteria
     envelope: Envelope = field(default_factory=Envelope)
     friction_method: str = "darcy_weisbach"
+    files: tuple[dict[str, str], ...] = ()  # other files read (curve CSV): path, SHA-256
 
     @property
     def suction_pipes(self) -> tuple[Pipe, ...]:

@@ -952,7 +952,17 @@ class _Report:
         ]
         inp = self.t["input"]
         sw = self.t.get("software", {})
-        rows = [["File", "SHA-256"], [text(inp["path"]), self.p(text(inp["sha256"]), self.s.mono)]]
+        rows = [
+            ["File", "SHA-256"],
+            [f"{text(inp['path'])} (input)", self.p(text(inp["sha256"]), self.s.mono)],
+        ]
+        rows += [
+            [
+                f"{text(f['path'])} ({text(f.get('role', 'data'))})",
+                self.p(text(f["sha256"]), self.s.mono),
+            ]
+            for f in inp.get("files", [])
+        ]
         out.append(self.table(rows, [self.width * 0.4, self.width * 0.6]))
         out.append(
             self.p(
