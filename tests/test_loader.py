@@ -968,3 +968,49 @@ def test_input_error_lists_every_problem_in_its_text():
     first = line_of(text, 'length = "0 m"')
     assert f"pipe[1].length (line {first})" in message
     assert "pipe[2].length" in message
+
+
+# ---- bounds --------------------------------------------------------------------------------
+
+
+def test_file_size_bound():
+    from calcreport.model import loader
+
+    with pytest.raises(InputError, match="bytes; an input is limited"):
+        loads(b"#" * (loader.MAX_FILE_BYTES + 1))
+
+
+def test_text_length_bound():
+    text = variant(('title = "', f'title = "{"x" * 2001}'), base=STARTER.read_text("utf-8"))
+    assert any("at most 2,000" in p.message and p.key == "project.title" for p in problems(text))
+
+
+def test_pipe_and_fitting_count_bounds():
+    from calcreport.model import loader
+
+    base = STARTER.read_text("utf-8")
+    pipe = base[base.index("[[pipe]]") : base.index("[[pipe]]", base.index("[[pipe]]") + 1)]
+    many = base + "\n".join(
+        pipe.replace('id = "S1"', f'id = "X{i}"').replace('side = "suction"', 'side = "discharge"')
+        for i in range(loader.MAX_PIPES + 1)
+    )
+    assert any(p.key == "pipe" and "at most" in p.message for p in problems(many))
+    fittings = ", ".join(["{ K = 0.1 }"] * (loader.MAX_FITTINGS + 1))
+    crowded = base.replace(
+        'fittings = [\n  { K = 0.5, note = "sharp-edged entrance" },',
+        f"fittings = [{fittings},\n",
+        1,
+    )
+    assert any("fitting items; at most" in p.message for p in problems(crowded))
+
+
+def test_curve_point_bound():
+    from calcreport.model import loader
+
+    n = loader.MAX_CURVE_POINTS + 1
+    curve = (
+        f'\n[pump.curve]\nflow = {{ unit = "L/s", values = {list(range(n))} }}\n'
+        f'head = {{ unit = "m", values = {[40.0 - 0.01 * i for i in range(n)]} }}\n'
+    )
+    text = STARTER.read_text("utf-8").replace("[motor]", curve + "\n[motor]")
+    assert any(p.key == "pump.curve.flow" and "limited to" in p.message for p in problems(text))
