@@ -1102,9 +1102,13 @@ def _canvas_maker(
             )
             self.setFont("DejaVu-Bold", 8.5)
             self.drawString(col2 + 3, top - 6 * mm, f"Page {self._pageNumber} of {total}")
-            self.setFont("DejaVu", 7.2)
-            units = "SI units" if project["units"] == "SI" else "US customary units"
-            self.drawString(col2 + 3, top - 11 * mm, f"{units} · {status}")
+            units = "SI units" if project["units"] == "SI" else "US units"
+            basis = f"{units} · {status}"
+            size = 7.2  # shrunk, never clipped, to fit the block's last column
+            while self.stringWidth(basis, "DejaVu", size) > right - col2 - 6 and size > 5:
+                size -= 0.2
+            self.setFont("DejaVu", size)
+            self.drawString(col2 + 3, top - 11 * mm, basis)
             self.setFont("DejaVu", 6.5)
             self.setFillColor(style.RULE)
             self.drawString(
