@@ -493,25 +493,16 @@ def _commissioning(
     )
     v_in = h["pipes"][suction[-1].id]["velocity"] if suction else zero
     v_out = h["pipes"][discharge[0].id]["velocity"] if discharge else v_in
-    p_in = b.step(
-        sid("commissioning.suction_pressure"),
-        "Suction flange pressure (gauge) at the operating point",
-        head.suction_flange_pressure,
-        case.id,
-        p_s=surfaces[1],
-        rho=liquid.density,
-        z_s=case.source_level,
-        z_p=model.pump.elevation,
+    z_p = model.pump.elevation
+    p_in, p_out = _flange_pair(
+        b,
+        case,
+        liquid,
+        surfaces[1],
+        z_p,
+        "",
+        "at the operating point",
         h_L=h["suction_loss"],
-        v_in=v_in,
-    )
-    p_out = b.step(
-        sid("commissioning.discharge_pressure"),
-        "Discharge flange pressure (gauge) at the operating point",
-        head.discharge_flange_pressure,
-        case.id,
-        p_in=p_in,
-        rho=liquid.density,
         H=h["tdh"],
         v_in=v_in,
         v_out=v_out,
@@ -529,25 +520,15 @@ def _commissioning(
                 H1=curve.head[0],
                 n_run=case.running,
             )
-        p_in0 = b.step(
-            sid("commissioning.shutoff_suction_pressure"),
-            "Suction flange pressure (gauge) at shutoff",
-            head.suction_flange_pressure,
-            case.id,
-            p_s=surfaces[1],
-            rho=liquid.density,
-            z_s=case.source_level,
-            z_p=model.pump.elevation,
+        p_in0, p_out0 = _flange_pair(
+            b,
+            case,
+            liquid,
+            surfaces[1],
+            z_p,
+            "shutoff_",
+            "at shutoff",
             h_L=no_loss,
-            v_in=zero,
-        )
-        p_out0 = b.step(
-            sid("commissioning.shutoff_discharge_pressure"),
-            "Discharge flange pressure (gauge) at shutoff",
-            head.discharge_flange_pressure,
-            case.id,
-            p_in=p_in0,
-            rho=liquid.density,
             H=shutoff_head,
             v_in=zero,
             v_out=zero,
@@ -555,6 +536,47 @@ def _commissioning(
         out["shutoff_suction_pressure"] = _q(p_in0)
         out["shutoff_discharge_pressure"] = _q(p_out0)
     return out
+
+
+def _flange_pair(
+    b: TraceBuilder,
+    case: Case,
+    liquid: Liquid,
+    p_s: Given,
+    z_p: Given,
+    key: str,
+    when: str,
+    *,
+    h_L: Given,
+    H: Given,
+    v_in: Given,
+    v_out: Given,
+) -> tuple[Given, Given]:
+    """Suction and discharge flange gauge pressures for one flow state of a case."""
+    p_in = b.step(
+        case.sid(f"commissioning.{key}suction_pressure"),
+        f"Suction flange pressure (gauge) {when}",
+        head.suction_flange_pressure,
+        case.id,
+        p_s=p_s,
+        rho=liquid.density,
+        z_s=case.source_level,
+        z_p=z_p,
+        h_L=h_L,
+        v_in=v_in,
+    )
+    p_out = b.step(
+        case.sid(f"commissioning.{key}discharge_pressure"),
+        f"Discharge flange pressure (gauge) {when}",
+        head.discharge_flange_pressure,
+        case.id,
+        p_in=p_in,
+        rho=liquid.density,
+        H=H,
+        v_in=v_in,
+        v_out=v_out,
+    )
+    return p_in, p_out
 
 
 def _duty_point(
@@ -914,7 +936,7 @@ def _glycol(b: TraceBuilder, model: Model, T: Given, prefix: str) -> Liquid:
     assert fluid.mass_fraction is not None
     w = fluid.mass_fraction
     name = fluid.kind.replace("_", " ")
-    code = {"ethylene_glycol": "MEG", "propylene_glycol": "MPG"}[fluid.kind]
+    code = glycol.CODE[fluid.kind]
     density, viscosity = {
         "MEG": (glycol.ethylene_glycol_density, glycol.ethylene_glycol_viscosity),
         "MPG": (glycol.propylene_glycol_density, glycol.propylene_glycol_viscosity),

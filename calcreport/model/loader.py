@@ -51,7 +51,6 @@ FORMAT = 1
 GLYCOLS = ("ethylene_glycol", "propylene_glycol")
 FLUID_KINDS = ("water", *GLYCOLS, "custom")
 # Glycol solutions: the property fits' range, kept inside liquid and unfrozen service.
-_GLYCOL_CODE = {"ethylene_glycol": "MEG", "propylene_glycol": "MPG"}
 GLYCOL_T_MIN = 253.15
 GLYCOL_T_MAX = 373.15
 SIDES = ("suction", "discharge")
@@ -1382,7 +1381,7 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
         p_v = glycol.raoult_vapor_pressure(
             fluid.temperature.value,
             fluid.mass_fraction.value,
-            glycol.MOLAR_MASS[_GLYCOL_CODE[fluid.kind]],
+            glycol.MOLAR_MASS[glycol.CODE[fluid.kind]],
         )
     else:
         assert fluid.vapor_pressure is not None

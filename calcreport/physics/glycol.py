@@ -33,6 +33,7 @@ __all__ = [
 
 M_WATER = 18.015  # g/mol
 MOLAR_MASS = {"MEG": 62.068, "MPG": 76.094}  # ethylene and propylene glycol, g/mol
+CODE = {"ethylene_glycol": "MEG", "propylene_glycol": "MPG"}  # fluid.kind -> CoolProp name
 MAX_FRACTION = 0.6
 
 
