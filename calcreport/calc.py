@@ -21,7 +21,7 @@ from typing import Any
 
 import numpy as np
 
-from calcreport import __version__, catalog, checks
+from calcreport import __version__, catalog, checks, safety
 from calcreport.model.schema import Fitting, Given, Model, Pipe, Vessel
 from calcreport.physics import (
     atmosphere,
@@ -126,6 +126,8 @@ def solve(model: Model) -> Trace:
     by_case: dict[str, dict[str, Any]] = {}
     found: list[Check] = []
     curves_by_speed: dict[float, CurvePoints | None] = {}
+    route = safety.Route(b, model)
+    states: dict[str, safety.State] = {}
     for case in cases:
         case_liquid, case_surfaces = liquid, surfaces
         if case.temperature is not None:
@@ -142,11 +144,20 @@ def solve(model: Model) -> Trace:
             case_curve = _pump_curve(b, model, case.speed, f"{case.id}.")
             curves_by_speed[case.speed.value] = case_curve
         result = _solve_case(
-            b, model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes
+            b, model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
         )
+        case_route = route.case_route(states[case.id])
+        if case_route:
+            result["route"] = case_route
         by_case[case.id] = result
         found += checks.evaluate(model, result, case.id)
     results = dict(by_case["C1"])
+    # The highest pressures: the pump's highest head on its fastest curve.
+    fastest = curves_by_speed[max(curves_by_speed)] if curves_by_speed else curve
+    surge = route.surge_screening(states, notes)
+    if surge:
+        results["surge"] = surge
+    results["route"] = route.envelope(states, fastest, notes)
     if curve is not None and model.pump.efficiency_basis == "overall":
         notes.append(
             "The motor rating is not selected: with a wire-to-water efficiency the "
@@ -154,7 +165,6 @@ def solve(model: Model) -> Trace:
         )
     elif curve is not None:
         # Non-overloading at the top speed: the fastest curve of any case.
-        fastest = curves_by_speed[max(curves_by_speed)] if curves_by_speed else curve
         motor = _motor(b, model, liquid, fastest or curve, by_case)
         if motor:
             results["motor"] = motor
@@ -210,19 +220,19 @@ def solve(model: Model) -> Trace:
 
 
 def _status(model: Model, results: dict[str, Any], found: list[Check]) -> dict[str, str]:
-    if model.pump.curve is None:
-        return {
-            "value": "preliminary",
-            "reason": "pump not selected: no pump curve is given, so the operating point, "
-            "NPSH required and motor rating are not determined",
-        }
-    if "operating_point" not in results:
+    if model.pump.curve is not None and "operating_point" not in results:
         return {
             "value": "not feasible",
             "reason": "the pump curve does not meet the system curve in the design case",
         }
     if any(c.status == "fail" for c in found):
         return {"value": "does not comply", "reason": "one or more design checks fail"}
+    if model.pump.curve is None:
+        return {
+            "value": "preliminary",
+            "reason": "pump not selected: no pump curve is given, so the operating point, "
+            "NPSH required and motor rating are not determined",
+        }
     return {
         "value": "for checking",
         "reason": "pump curve given; every check is a pass or marked for review",
@@ -397,8 +407,9 @@ def _solve_case(
     curve: CurvePoints | None,
     eta_drive: Given,
     notes: list[str],
+    states: dict[str, safety.State],
 ) -> dict[str, Any]:
-    """Hydraulics, operating point, NPSH and power of one case."""
+    """Hydraulics, operating point, NPSH and power of one case (its state kept in ``states``)."""
     required = case.flow
     operating = None
     if curve is not None:
@@ -407,7 +418,8 @@ def _solve_case(
             case = replace(case, flow=operating)
     h = _hydraulics(b, model, case, liquid, surfaces)
     results = _results(h, liquid, surfaces[0], model, case.flow)
-    results["profile"] = _profile(model, case, liquid, h, surfaces[1], surfaces[2])
+    results["profile"] = safety.profile(model, case, liquid, h, surfaces[1], surfaces[2])
+    states[case.id] = safety.State(case, liquid, surfaces, h, results["profile"])
     eta_pump = model.pump.efficiency
     if operating is not None and curve is not None:
         point, eta_curve = _operating_point(b, model, case, curve, h)
@@ -1495,76 +1507,6 @@ def _results(
             "vapor_pressure": _q(liquid.vapor_pressure),
         },
         "pipes": pipes,
-    }
-
-
-def _profile(
-    model: Model, case: Case, liquid: Liquid, h: dict[str, Any], p_source: Given, p_dest: Given
-) -> dict[str, Any]:
-    """Energy and hydraulic grade lines at every pipe end, source to destination.
-
-    Friction is lost along each pipe and its minor losses are drawn at its
-    downstream end; the pump adds the TDH between the last suction pipe and
-    the first discharge pipe. Elevations in metres on the input's datum.
-    """
-    rho_g = liquid.density.value * losses.G
-    egl = case.source_level.value + p_source.value / rho_g
-    nodes = [
-        {
-            "name": "source surface",
-            "distance": 0.0,
-            "egl": egl,
-            "hgl": egl,
-            "elevation": case.source_level.value,
-        }
-    ]
-    distance = 0.0
-    pumped = False
-    for pipe in model.pipes:
-        values = h["pipes"][pipe.id]
-        if pipe.side == "discharge" and not pumped:
-            egl += h["tdh"].value
-            pumped = True
-        hv = float(losses.velocity_head(values["velocity"].value))
-        start = pipe.elevation_start.value if pipe.elevation_start else None
-        end = pipe.elevation_end.value if pipe.elevation_end else None
-        nodes.append(
-            {
-                "name": f"{pipe.id} start",
-                "distance": distance,
-                "egl": egl,
-                "hgl": egl - hv,
-                "elevation": start,
-            }
-        )
-        distance += pipe.length.value
-        egl -= values["friction_loss"].value
-        nodes.append(
-            {
-                "name": f"{pipe.id} end",
-                "distance": distance,
-                "egl": egl,
-                "hgl": egl - hv,
-                "elevation": end,
-            }
-        )
-        egl -= values["minor_loss"].value
-    if not pumped:
-        egl += h["tdh"].value
-    final = case.destination_level.value + p_dest.value / rho_g
-    nodes.append(
-        {
-            "name": "destination surface",
-            "distance": distance,
-            "egl": egl,
-            "hgl": final,
-            "elevation": case.destination_level.value,
-        }
-    )
-    return {
-        "nodes": nodes,
-        "unit": "m",
-        "pump_after": model.suction_pipes[-1].id if model.suction_pipes else "",
     }
 
 

@@ -31,6 +31,8 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         found += _velocity(model, results["pipes"][pipe.id], pipe.id, pipe.side, case)
         found.append(_regime(results["pipes"][pipe.id], pipe.id, case))
     found.append(_npsh_positive(results, case))
+    if "route" in results:
+        found.append(_min_pressure(model, results["route"], case))
     if model.pump.curve is None:
         found.append(_npsh_open_item(results, case))
         return found
@@ -111,6 +113,11 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
                 message="" if n_min > n_lift else "the minimum speed delivers no flow",
             )
         )
+    route = results.get("route", {})
+    if "rating_check" in route:
+        found.append(_pressure_rating(route))
+    if "surge" in results:
+        found.append(_surge(results["surge"]))
     motor = results.get("motor", {})
     if "rated_power" in motor:
         rated = motor["rated_power"]["value"]
@@ -458,4 +465,105 @@ def _exit_item(model: Model, case: str) -> Check | None:
         if has_exit
         else "no fitting item is noted as the exit; add "
         '{ K = 1.0, note = "exit" } to the last pipe if it discharges below the surface',
+    )
+
+
+def _min_pressure(model: Model, route: dict[str, Any], case: str) -> Check:
+    """The lowest pressure of the pressurised line: positive, and above the criterion."""
+    h = route["min_pressure_head"]["value"]
+    node = route["min_pressure_node"]
+    limit, basis, ref, project = _limit(model, "min_pressure_head")
+    if h <= route["vapour_head"]["value"]:
+        status, message = "fail", f"{node} at vapour pressure: the liquid column separates"
+    elif h < 0.0:
+        status = "fail"
+        message = (
+            f"sub-atmospheric at {node} ({h:.3g} m gauge): air and groundwater drawn in, or a "
+            "siphon the flow depends on"
+        )
+    else:
+        status = _status(h >= limit, project)
+        message = f"lowest at {node}" + ("" if h >= limit else f", below {limit:.3g} m")
+    return Check(
+        id="min_pressure",
+        title="Lowest pressure head in the discharge line",
+        status=status,
+        value=h,
+        unit="m",
+        limit=limit,
+        comparison=">=",
+        basis=basis,
+        reference=ref,
+        case=case,
+        message=message,
+        margin=h - limit,
+    )
+
+
+def _pressure_rating(route: dict[str, Any]) -> Check:
+    """The highest pressure against the least rating, at the point where they come closest."""
+    rc = route["rating_check"]
+    p, rating = rc["pressure"]["value"], rc["rating"]["value"]
+    within = p <= rating
+    when = {
+        "static": "with no flow and the pump at its highest head (shutoff, top speed, "
+        "highest source level)",
+        "surge": f"during the screened surge (case {rc['case']})",
+        "operating": "in operation (the shutoff pressure is unknown: pump not selected)",
+    }[rc["basis"]]
+    status = "fail" if not within else ("pass" if rc["shutoff_known"] else "review")
+    message = (
+        f"{rc['item']} at {rc['node']}: {p / 1e3:.4g} kPa(g) {when}, rating {rating / 1e3:.4g} kPa"
+    )
+    if within and not rc["shutoff_known"]:
+        message += "; confirm against the selected pump's shutoff head"
+    return Check(
+        id="pressure_rating",
+        title="Highest pressure within the pressure ratings",
+        status=status,
+        value=p,
+        unit="Pa",
+        limit=rating,
+        comparison="<=",
+        basis="The highest pressure each pipe, component and the pump casing can see, the "
+        "pump's highest head against a closed line or the screened surge, must not exceed its "
+        "rating (gauge, at the design temperature); ratings and test pressures per the "
+        "applicable piping code",
+        reference="input",
+        case=rc["case"],
+        message=message,
+        margin=rating - p,
+    )
+
+
+def _surge(result: dict[str, Any]) -> Check:
+    """The surge screening's verdict: a tripped screening asks for a transient analysis."""
+    verdict = result["verdict"]
+    if not result.get("screened", True):
+        status, value, limit, comparison = "review", None, None, "screened"
+    elif result["event"] == "valve_closure":
+        value, limit = result["closure_time"]["value"], result["line_period"]["value"]
+        comparison, status = ">", "pass" if value > limit else "review"
+    elif "min_transient_pressure_head" in result:
+        value = result["min_transient_pressure_head"]["value"]
+        limit = result["vapour_head"]["value"]
+        comparison = ">"
+        status = "fail" if value <= limit else ("review" if value < 0.0 else "pass")
+    else:
+        status, value, limit, comparison = "review", result["head_rise"]["value"], None, "known"
+    unit = "s" if result["event"] == "valve_closure" and value is not None else "m"
+    return Check(
+        id="surge",
+        title="Surge screening (" + result["event"].replace("_", " ") + ")",
+        status=status,
+        value=value,
+        unit=unit,
+        limit=limit,
+        comparison=comparison,
+        basis="Joukowsky head change a·Δv/g with the Korteweg wave speed; a screening that "
+        "trips (column separation, sub-atmospheric downsurge, closure within 2L/a) requires a "
+        "detailed transient analysis",
+        reference="wylie_streeter_1993",
+        case=result.get("case", "all"),
+        message=verdict,
     )

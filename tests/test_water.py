@@ -263,6 +263,7 @@ _DECORATED = {
     "water.density": ({"T": "K", "p": "Pa"}, "kg/m^3", "ρ", "iapws_if97"),
     "water.saturation_pressure": ({"T": "K"}, "Pa", "p_v", "iapws_if97"),
     "water.viscosity": ({"T": "K", "rho": "kg/m^3"}, "Pa*s", "μ", "iapws_2008_viscosity"),
+    "water.bulk_modulus": ({"T": "K", "p": "Pa"}, "Pa", "K", "iapws_if97"),
 }
 
 

@@ -7,6 +7,7 @@
 ``fittings_entrance_exit.csv`` entrance and exit coefficients (Crane TP-410)
 ``fittings_crane_ft.csv``      fittings as multiples of f_T (Crane TP-410)
 ``hazen_williams_c.csv``       Hazen-Williams C by material (typical values)
+``pipe_elastic_modulus.csv``   wall modulus and Poisson's ratio by material (surge)
 """
 
 from __future__ import annotations
@@ -19,6 +20,7 @@ from typing import Any
 
 __all__ = [
     "criteria",
+    "elastic_moduli",
     "fingerprint",
     "fittings",
     "hazen_williams_c",
@@ -114,4 +116,18 @@ def hazen_williams_c() -> dict[str, tuple[float, str]]:
     """Hazen-Williams C of new pipe by material name, with its source."""
     return {
         row["material"]: (float(row["C"]), row["source"]) for row in _rows("hazen_williams_c.csv")
+    }
+
+
+@cache
+def elastic_moduli() -> dict[str, dict[str, Any]]:
+    """Wall material by name: ``{"E": Pa, "nu": Poisson's ratio, "description", "source"}``."""
+    return {
+        row["material"]: {
+            "E": float(row["elastic_modulus_gpa"]) * 1e9,
+            "nu": float(row["poisson_ratio"]),
+            "description": row["description"],
+            "source": row["source"],
+        }
+        for row in _rows("pipe_elastic_modulus.csv")
     }

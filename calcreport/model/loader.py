@@ -29,6 +29,7 @@ from typing import Any
 from calcreport import catalog
 from calcreport.errors import InputError, Problem
 from calcreport.model.schema import (
+    Component,
     Criteria,
     Envelope,
     Fitting,
@@ -41,6 +42,7 @@ from calcreport.model.schema import (
     Pump,
     PumpCurve,
     Site,
+    Surge,
     Vessel,
 )
 from calcreport.units import KINDS, UnitProblem, as_written, expected, parse
@@ -79,6 +81,8 @@ _TOP_KEYS = {
     "revision",
     "envelope",
     "friction_method",
+    "component",
+    "surge",
 }
 _ENVELOPE_KEYS = {"temperature", "flow_required", "roughness", "strainer_dirty_dp"}
 _PLANNED_ENVELOPE_KEYS = ("roughness", "strainer_dirty_dp")
@@ -102,6 +106,7 @@ _FLUID_KEYS = {
     "viscosity",
     "vapor_pressure",
     "name",
+    "bulk_modulus",
 }
 _VESSEL_KEYS = {"level", "level_low", "level_high", "pressure"}
 _DESTINATION_KEYS = _VESSEL_KEYS | {"inlet", "outlet_elevation"}
@@ -118,7 +123,16 @@ _PIPE_KEYS = {
     "schedule",
     "material",
     "hazen_williams_c",
+    "wall_thickness",
+    "elastic_modulus",
+    "poisson_ratio",
+    "pressure_rating",
+    "restraint",
 }
+RESTRAINTS = ("anchored", "upstream_anchor", "expansion_joints")
+_COMPONENT_KEYS = {"id", "at", "pressure_rating", "note"}
+SURGE_EVENTS = ("pump_trip", "valve_closure")
+_SURGE_KEYS = {"event", "closure_time"}
 FRICTION_METHODS = ("darcy_weisbach", "hazen_williams")
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle"}
 # Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
@@ -147,6 +161,7 @@ _PUMP_KEYS = {
     "count",
     "standby",
     "arrangement",
+    "pressure_rating",
     *_PROVENANCE_KEYS,
 }
 _CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required", "file"}
@@ -464,6 +479,8 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     pipes = _pipes(r, data.get("pipe"))
     criteria = _criteria(r, r.table(data, "criteria", "criteria", required=False) or {})
     envelope = _envelope(r, r.table(data, "envelope", "envelope", required=False) or {}, fluid)
+    components = _components(r, data.get("component"), pipes)
+    surge = _surge(r, data)
     friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
     if friction_method == "hazen_williams":
         if fluid is not None and fluid.kind != "water":
@@ -513,6 +530,8 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         operation=operation,
         pipes=pipes,
         criteria=criteria,
+        components=components,
+        surge=surge,
     )
 
 
@@ -621,9 +640,11 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
             "Several pumps need their curve: give [pump.curve] for one "
             "pump, so the combined curve can be built.",
         )
+    rating = r.quantity(data, "pressure_rating", "pump", "pressure", positive=True)
     if elevation is None:
         return None
     return Pump(
+        pressure_rating=rating,
         count=count or Given(1.0, "", "pump.count"),
         standby=standby or Given(0.0, "", "pump.standby"),
         arrangement=arrangement,
@@ -939,9 +960,11 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
             "fluid.mass_fraction",
             'The key mass_fraction applies to kind = "ethylene_glycol" or "propylene_glycol".',
         )
+    bulk_modulus = r.quantity(data, "bulk_modulus", "fluid", "modulus", positive=True)
     if temperature is None or (kind in GLYCOLS and fraction is None):
         return None
     return Fluid(
+        bulk_modulus=bulk_modulus,
         kind=kind,
         temperature=temperature,
         name=r.text(data, "name", "fluid", ""),
@@ -1119,7 +1142,7 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
             )
         length = r.quantity(data, "length", path, "length", required=True, positive=True)
         sources: dict[str, str] = {}
-        diameter = _catalog_diameter(r, data, path, sources)
+        diameter, catalog_wall = _catalog_diameter(r, data, path, sources)
         if diameter is None and "nominal_size" not in data:
             diameter = r.quantity(
                 data, "inner_diameter", path, "diameter", required=True, positive=True
@@ -1154,6 +1177,15 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                 value, source = catalog.hazen_williams_c()[material]
                 hw_c = Given(value, "", f"catalog.hazen_williams_c[{material}]")
                 sources["hazen_williams_c"] = f"C = {value:g} for {material}: {source}"
+        wall, modulus, poisson = _wall(r, data, path, sources, diameter, catalog_wall)
+        rating = r.quantity(data, "pressure_rating", path, "pressure", positive=True)
+        restraint = r.text(data, "restraint", path, "", RESTRAINTS) if "restraint" in data else ""
+        if restraint in ("anchored", "upstream_anchor") and poisson is None:
+            r.problem(
+                f"{path}.poisson_ratio",
+                f"A restraint \"{restraint}\" needs the wall's Poisson's ratio: give "
+                "poisson_ratio, or a material from the catalog.",
+            )
         start = r.quantity(data, "elevation_start", path, "length")
         end = r.quantity(data, "elevation_end", path, "length")
         if ("elevation_start" in data) != ("elevation_end" in data):
@@ -1173,8 +1205,13 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                     fittings=fittings,
                     elevation_start=start,
                     elevation_end=end,
-                    sources=sources,
+                    sources={k: v for k, v in sources.items() if k != "family"},
                     hazen_williams_c=hw_c,
+                    wall_thickness=wall,
+                    elastic_modulus=modulus,
+                    poisson_ratio=poisson,
+                    pressure_rating=rating,
+                    restraint=restraint,
                 )
             )
     sides = [p.side for p in pipes]
@@ -1200,20 +1237,127 @@ _MATERIAL_FAMILY = {
 }
 
 
+def _components(r: _Reader, raw: Any, pipes: tuple[Pipe, ...]) -> tuple[Component, ...]:
+    """[[component]] tables: items on a pipe with their own pressure rating."""
+    if raw is None:
+        return ()
+    if not isinstance(raw, list) or not all(isinstance(c, dict) for c in raw):
+        r.problem("component", "Expected [[component]] tables, one for each rated item.")
+        return ()
+    ids = {p.id for p in pipes}
+    found = []
+    for index, data in enumerate(raw, start=1):
+        path = f"component[{index}]"
+        r.known_keys(data, path, _COMPONENT_KEYS)
+        ident = r.text(data, "id", path, f"item {index}")
+        at = r.text(data, "at", path, "")
+        if "at" not in data:
+            r.problem(f"{path}.at", 'Name the pipe the item is on, such as at = "D1".')
+        elif ids and at not in ids:
+            close = difflib.get_close_matches(at, sorted(ids), n=1)
+            known = ", ".join(f'"{p.id}"' for p in pipes[:12]) + (", …" if len(pipes) > 12 else "")
+            hint = f'; did you mean "{close[0]}"?' if close else f"; the pipes are {known}."
+            r.problem(f"{path}.at", f'No pipe has the id "{at}"{hint}')
+        rating = r.quantity(data, "pressure_rating", path, "pressure", required=True, positive=True)
+        note = r.text(data, "note", path, "")
+        if rating and at in ids:
+            found.append(Component(path, ident, at, rating, note))
+    return tuple(found)
+
+
+def _surge(r: _Reader, data: dict[str, Any]) -> Surge | None:
+    table = r.table(data, "surge", "surge", required=False)
+    if table is None:
+        return None
+    r.known_keys(table, "surge", _SURGE_KEYS)
+    event = r.text(table, "event", "surge", "pump_trip", SURGE_EVENTS)
+    closure = r.quantity(table, "closure_time", "surge", "time", positive=True)
+    if event == "valve_closure" and "closure_time" not in table:
+        r.problem(
+            "surge.closure_time",
+            'A valve closure needs its closing time, such as closure_time = "5 s".',
+        )
+    if event == "pump_trip" and "closure_time" in table:
+        r.problem(
+            "surge.closure_time",
+            'closure_time applies to event = "valve_closure"; a pump trip is screened '
+            "as a sudden stop.",
+        )
+    return Surge(event, closure)
+
+
+# Catalog families whose wall material follows from the family alone.
+_FAMILY_MATERIAL = {
+    "steel": "commercial_steel",
+    "stainless": "stainless_steel",
+    "copper": "copper",
+    "pvc": "pvc",
+    "pe": "hdpe",
+}
+
+
+def _wall(
+    r: _Reader,
+    data: dict[str, Any],
+    path: str,
+    sources: dict[str, str],
+    diameter: Given | None,
+    catalog_wall: Given | None,
+) -> tuple[Given | None, Given | None, Given | None]:
+    """Wall thickness, elastic modulus and Poisson's ratio: as given, else from the catalog."""
+    from calcreport.catalog.pipes import CatalogLookupError
+    from calcreport.catalog.pipes import roughness as _rough
+
+    wall = r.quantity(data, "wall_thickness", path, "diameter", positive=True)
+    if wall and catalog_wall:
+        r.problem(
+            f"{path}.wall_thickness",
+            "The catalog size sets the wall; give wall_thickness only with inner_diameter.",
+        )
+    wall = wall or catalog_wall
+    if wall and diameter and 2.0 * wall.value >= diameter.value:
+        r.problem(
+            f"{path}.wall_thickness",
+            f"The wall ({wall.value * 1e3:.4g} mm) is implausibly thick for an inner diameter "
+            f"of {diameter.value * 1e3:.4g} mm; give the wall thickness, not the outside diameter.",
+        )
+    modulus = r.quantity(data, "elastic_modulus", path, "modulus", positive=True)
+    poisson = r.quantity(data, "poisson_ratio", path, "dimensionless", positive=True)
+    if poisson and poisson.value >= 0.5:
+        r.problem(f"{path}.poisson_ratio", "Poisson's ratio of a solid is below 0.5.")
+    material = ""
+    if isinstance(data.get("material"), str):
+        try:
+            material = _rough(data["material"]).material
+        except CatalogLookupError:
+            material = ""
+    material = material or _FAMILY_MATERIAL.get(sources.get("family", ""), "")
+    entry = catalog.elastic_moduli().get(material)
+    if entry:
+        base = f"catalog.pipe_elastic_modulus[{material}]"
+        if modulus is None:
+            modulus = Given(entry["E"], "Pa", f"{base}.E")
+            sources["elastic_modulus"] = f"E = {entry['E'] / 1e9:g} GPa for {material}: "
+            sources["elastic_modulus"] += entry["source"]
+        if poisson is None:
+            poisson = Given(entry["nu"], "", f"{base}.nu")
+    return wall, modulus, poisson
+
+
 def _catalog_diameter(
     r: _Reader, data: dict[str, Any], path: str, sources: dict[str, str]
-) -> Given | None:
-    """Inner diameter from nominal_size + schedule (family from the material, if given)."""
+) -> tuple[Given | None, Given | None]:
+    """Inner diameter and wall from nominal_size + schedule (family from the material)."""
     from calcreport.catalog import pipes
 
     if "nominal_size" not in data and "schedule" not in data:
-        return None
+        return None, None
     if "inner_diameter" in data:
         r.problem(
             f"{path}.inner_diameter",
             "Give inner_diameter, or nominal_size with schedule, not both.",
         )
-        return None
+        return None, None
     if "nominal_size" not in data or "schedule" not in data:
         missing = "schedule" if "nominal_size" in data else "nominal_size"
         r.problem(
@@ -1221,21 +1365,25 @@ def _catalog_diameter(
             "A catalog pipe size needs both nominal_size and "
             'schedule, such as nominal_size = "6", schedule = "40".',
         )
-        return None
+        return None, None
     family = _MATERIAL_FAMILY.get(str(data.get("material", "")))
     try:
         size = pipes.resolve(data["nominal_size"], data["schedule"], family)
     except LookupError as exc:
         kind = getattr(exc, "kind", "nominal_size")
         r.problem(f"{path}.{'material' if kind == 'family' else kind}", str(exc))
-        return None
+        return None, None
     key = f"catalog.{size.table.removesuffix('.csv')}[{size.nominal_size} {size.schedule}]"
     sources["inner_diameter"] = (
         f"{size.family} pipe NPS/DN {size.nominal_size}, {size.schedule}: OD "
         f"{size.outside_diameter * 1e3:.2f} mm, wall {size.wall_thickness * 1e3:.2f} mm; "
         f"{size.source}"
     )
-    return Given(size.inner_diameter, "m", f"{key}.inner_diameter")
+    sources["family"] = size.family
+    return (
+        Given(size.inner_diameter, "m", f"{key}.inner_diameter"),
+        Given(size.wall_thickness, "m", f"{key}.wall_thickness"),
+    )
 
 
 def _catalog_roughness(

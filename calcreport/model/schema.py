@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 __all__ = [
+    "Component",
     "Criteria",
     "Envelope",
     "Fitting",
@@ -22,6 +23,7 @@ __all__ = [
     "Pump",
     "PumpCurve",
     "Site",
+    "Surge",
     "Vessel",
 ]
 
@@ -60,6 +62,7 @@ class Fluid:
     vapor_pressure: Given | None = None
     name: str = ""
     mass_fraction: Given | None = None  # glycol solutions
+    bulk_modulus: Given | None = None  # surge screening: overrides the formulation's
 
 
 @dataclass(frozen=True)
@@ -114,6 +117,31 @@ class Pipe:
     elevation_end: Given | None = None
     sources: dict[str, str] = field(default_factory=dict)  # catalog values: their source
     hazen_williams_c: Given | None = None
+    # Pressure safety and surge screening (None: not given and not in the catalog)
+    wall_thickness: Given | None = None
+    elastic_modulus: Given | None = None
+    poisson_ratio: Given | None = None
+    pressure_rating: Given | None = None  # gauge, at the design temperature
+    restraint: str = ""  # anchored | upstream_anchor | expansion_joints; "" not given
+
+
+@dataclass(frozen=True)
+class Component:
+    """An item on a pipe with its own pressure rating (a valve, a meter, a flange class)."""
+
+    key: str
+    id: str
+    at: str  # pipe id
+    pressure_rating: Given
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class Surge:
+    """The event screened for surge: a pump trip or a valve closure."""
+
+    event: str = "pump_trip"  # pump_trip | valve_closure
+    closure_time: Given | None = None
 
 
 @dataclass(frozen=True)
@@ -142,6 +170,7 @@ class Pump:
     arrangement: str = "parallel"
     speed_range: tuple[Given, Given] | None = None
     efficiency_basis: str = "pump"  # pump | overall (wire-to-water)
+    pressure_rating: Given | None = None  # casing allowable working pressure, gauge
 
 
 @dataclass(frozen=True)
@@ -191,6 +220,8 @@ class Model:
     envelope: Envelope = field(default_factory=Envelope)
     friction_method: str = "darcy_weisbach"
     files: tuple[dict[str, str], ...] = ()  # other files read (curve CSV): path, SHA-256
+    components: tuple[Component, ...] = ()
+    surge: Surge | None = None  # None: no surge screening asked for
 
     @property
     def suction_pipes(self) -> tuple[Pipe, ...]:

@@ -167,5 +167,7 @@ def _import_all() -> None:
         motor,
         power,
         pump,
+        route,
+        surge,
         water,
     )

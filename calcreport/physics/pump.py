@@ -32,6 +32,7 @@ __all__ = [
     "affinity_flow",
     "affinity_head",
     "best_efficiency_point",
+    "curve_max_head",
     "efficiency_at",
     "head_at",
     "head_balance",
@@ -708,6 +709,52 @@ def per_pump_flow(Q: Any, n_run: Any) -> Any:
        (identical pumps in parallel: flows add at equal head).
     """
     return Q / n_run
+
+
+def _max_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    return "max(" + ", ".join(f"{fmt(h)} m" for h in values["head"]) + ")"
+
+
+@equation(
+    symbol="H_max",
+    text="H_max = max_i H_i",
+    latex=r"H_{max} = \max_i H_i",
+    substitute=_max_text,
+    reference="fritsch_carlson_1980",
+)
+def curve_max_head(head: Any) -> Any:
+    r"""Highest head anywhere on a pump curve.
+
+    .. math:: H_{max} = \max_i H_i
+
+    Parameters
+    ----------
+    head : list of float
+        Heads of the curve points [m]
+
+    Returns
+    -------
+    H_max : float
+        Highest head on the curve [m]
+
+    Notes
+    -----
+    The monotone cubic through the points (:func:`monotone_cubic`) has no
+    extremum between points, so the largest point is the curve's maximum:
+    the shutoff head of a rising curve, the peak of a drooping one.
+
+    Examples
+    --------
+    >>> curve_max_head([48.0, 48.6, 45.2])
+    48.6
+
+    References
+    ----------
+    1. Fritsch, F. N., and Carlson, R. E., "Monotone piecewise cubic
+       interpolation", SIAM Journal on Numerical Analysis 17 (2), 238-246,
+       1980 (the interpolant stays within the data between points).
+    """
+    return max(head)
 
 
 @equation(

@@ -282,6 +282,13 @@ def speed_of_sound(T: float, p: float) -> float:
     return math.sqrt(w2)
 
 
+@equation(
+    symbol="K",
+    text="K = ρ·w², w from IAPWS-IF97 region 1",
+    latex=r"K = \rho\, w^2",
+    substitute="IAPWS-IF97 region 1 density and speed of sound at T = {T}, p = {p}",
+    reference="iapws_if97",
+)
 def bulk_modulus(T: float, p: float) -> float:
     r"""Isentropic bulk modulus of liquid water, ρ·w², from IAPWS-IF97 region 1.
 

@@ -1,0 +1,254 @@
+"""Pressure along the route, ratings at shutoff and surge screening, end to end.
+
+The hand values use the intermediate results of CHECK-VALUES.md section 11 [V]
+(water 20 degC, open tanks at sea level, Q 20 L/s): suction loss 0.13180 m,
+discharge friction 8.04585 m over 150 m of NPS 4 Sch 40 (D 0.102260 m),
+discharge minor loss 1.32003 m (sum K 4.3660), v 2.43515 m/s, TDH 32.49768 m.
+Here the discharge runs over a crest: D1 (100 m, all the fittings) rises to
+the crest, D2 (50 m, no fittings) falls to the outlet. Fitting losses are
+taken at each pipe's upstream end (the report's convention).
+"""
+
+import pytest
+
+from calcreport.calc import solve
+from calcreport.errors import InputError
+from calcreport.model.loader import loads
+
+G = 9.80665
+V = 2.43515
+HV = V**2 / (2 * G)
+TDH = 32.49768
+
+ROUTE = """
+format = 1
+[fluid]
+temperature = "20 degC"
+[duty]
+flow = "20 L/s"
+[source]
+level = "2.0 m"
+[destination]
+level = "25.0 m"
+[pump]
+elevation = "0 m"
+efficiency = 0.78
+[[pipe]]
+id = "S1"
+side = "suction"
+length = "10 m"
+inner_diameter = "154.051 mm"
+roughness = "0.045 mm"
+elevation_start = "0 m"
+elevation_end = "0 m"
+fittings = [{ K = 0.5, note = "entrance" }, { K = 0.57 }]
+[[pipe]]
+id = "D1"
+side = "discharge"
+length = "100 m"
+nominal_size = "4"
+schedule = "40"
+roughness = "0.045 mm"
+elevation_start = "0 m"
+elevation_end = "CREST m"
+fittings = [{ K = 0.366 }, { K = 3.0 }, { K = 1.0, note = "exit" }]
+[[pipe]]
+id = "D2"
+side = "discharge"
+length = "50 m"
+nominal_size = "4"
+schedule = "40"
+roughness = "0.045 mm"
+elevation_start = "CREST m"
+elevation_end = "24 m"
+"""
+
+
+def _solve(crest: float, extra: str = ""):
+    return solve(loads((ROUTE.replace("CREST", f"{crest}") + extra).encode()))
+
+
+def _crest_head(crest: float) -> float:
+    """Hand calculation: EGL after the pump, less every loss up to the crest, less v^2/2g."""
+    egl = 2.0 + TDH - 0.13180 - 1.32003 - 8.04585 * 100 / 150
+    return egl - HV - crest
+
+
+def _check(t, ident):
+    return next(c for c in t.checks if c.id == ident)
+
+
+def test_grade_line_at_the_crest_against_hand_calculation():
+    t = _solve(26.0)
+    r = t.results
+    assert r["total_dynamic_head"]["value"] == pytest.approx(TDH, rel=1e-5)
+    assert r["route"]["min_pressure_node"] == "D1 end"
+    assert r["route"]["min_pressure_head"]["value"] == pytest.approx(_crest_head(26.0), abs=2e-4)
+    # The step the check relies on is the same value, with its equation.
+    step = t.step("route.D1.end.pressure_head")
+    assert step.value == pytest.approx(r["route"]["min_pressure_head"]["value"], abs=1e-12)
+    assert step.function == "route.node_pressure_head"
+    # 1.38 m is positive but under the default 2 m: a review, naming the node.
+    check = _check(t, "min_pressure")
+    assert check.status == "review"
+    assert "D1 end" in check.message
+
+
+def test_pump_outlet_node_against_hand_calculation():
+    t = _solve(26.0)
+    nodes = {n["name"]: n for n in t.results["profile"]["nodes"]}
+    # Just after the pump, D1's fittings already taken: 2 + TDH - h_s - h_m,D1 - v^2/2g.
+    expected = 2.0 + TDH - 0.13180 - 1.32003 - HV
+    assert nodes["D1 start"]["pressure_head"] == pytest.approx(expected, abs=2e-4)
+
+
+def test_sub_atmospheric_crest_fails_naming_the_node():
+    t = _solve(30.0)
+    assert _crest_head(30.0) < 0
+    check = _check(t, "min_pressure")
+    assert check.status == "fail"
+    assert "D1 end" in check.message and "sub-atmospheric" in check.message
+    assert t.results["route"]["crest"]["node"] == "D1 end"
+    assert t.results["route"]["crest"]["above_destination"]["value"] == pytest.approx(5.0)
+    assert t.status["value"] == "does not comply"
+
+
+def test_high_point_is_listed():
+    t = _solve(26.0)
+    points = t.results["route"]["high_points"]
+    assert [p["node"] for p in points] == ["D1 end"]
+    assert points[0]["distance"]["value"] == pytest.approx(110.0)
+
+
+def test_project_criterion_fails_when_not_met():
+    t = _solve(26.0, '[criteria]\nmin_pressure_head = "1 m"\n')
+    assert _check(t, "min_pressure").status == "pass"
+    t = _solve(26.0, '[criteria]\nmin_pressure_head = "3 m"\n')
+    assert _check(t, "min_pressure").status == "fail"
+
+
+# CHECK-VALUES.md section 11 pump curve H = 42 + 0.2q - 0.02q^2 (q in L/s): it
+# droops, with its highest head 42.5 m at 5 L/s.
+CURVE = """
+[pump.curve]
+flow = { unit = "L/s", values = [0, 5, 10, 20, 30, 40] }
+head = { unit = "m", values = [42.0, 42.5, 42.0, 38.0, 30.0, 18.0] }
+"""
+
+
+def _with_curve(rating_text: str, crest: float = 26.0, extra: str = ""):
+    text = ROUTE.replace("CREST", f"{crest}").replace(
+        'elevation = "0 m"\nefficiency = 0.78\n',
+        'elevation = "0 m"\nefficiency = 0.78\n' + rating_text,
+    )
+    return solve(loads((text + CURVE + extra).encode()))
+
+
+def test_highest_pressure_is_the_curve_peak_over_the_highest_source_level():
+    t = _with_curve('pressure_rating = "500 kPa"\n')
+    r = t.results
+    rho = r["fluid"]["density"]["value"]
+    assert t.step("route.pump_max_head").value == pytest.approx(42.5)
+    # Pump discharge at z = 0: rho g (2.0 + 42.5); the casing rating is the only rating.
+    expected = rho * G * (2.0 + 42.5)
+    assert t.step("route.pump_discharge.max_static_pressure").value == pytest.approx(expected)
+    assert r["route"]["max_pressure_node"] == "pump discharge"
+    check = _check(t, "pressure_rating")
+    assert check.status == "pass"
+    assert check.value == pytest.approx(expected)
+    assert check.limit == 500e3
+
+
+def test_component_rating_failure_names_the_item_and_node():
+    extra = (
+        '[[component]]\nid = "V-2"\nat = "D1"\npressure_rating = "400 kPa"\nnote = "air valve"\n'
+    )
+    t = _with_curve("", extra=extra)
+    check = _check(t, "pressure_rating")
+    rho = t.results["fluid"]["density"]["value"]
+    assert check.status == "fail"
+    assert "V-2" in check.message and "D1 start" in check.message
+    assert check.value == pytest.approx(rho * G * (2.0 + 42.5))
+
+
+def test_no_curve_ratings_are_checked_on_operating_pressure_for_review():
+    t = _solve(26.0, "")
+    text = ROUTE.replace("CREST", "26.0").replace(
+        'id = "D1"\n', 'id = "D1"\npressure_rating = "1000 kPa"\n'
+    )
+    t = solve(loads(text.encode()))
+    check = _check(t, "pressure_rating")
+    assert check.status == "review"
+    assert "shutoff" in check.message
+
+
+SURGE = '[surge]\nevent = "pump_trip"\n'
+
+
+def test_surge_screening_of_a_pump_trip():
+    t = _with_curve("", extra=SURGE)
+    s = t.results["surge"]
+    rho = t.results["fluid"]["density"]["value"]
+    K = t.step(s["case"] + ".surge.bulk_modulus" if s["case"] != "C1" else "surge.bulk_modulus")
+    # Korteweg with the catalog wall of NPS 4 Sch 40 (0.237 in = 6.0198 mm), E 207 GPa
+    # (catalog), c1 = 1 (restraint not given).
+    D, e = 4.026 * 0.0254, 0.237 * 0.0254
+    a = (K.value / rho / (1 + K.value * D / (207e9 * e))) ** 0.5
+    assert s["pipes"]["D1"]["wave_speed"]["value"] == pytest.approx(a, rel=1e-9)
+    v = t.results["cases"][s["case"]]["pipes"]["D1"]["velocity"]["value"]
+    assert s["pipes"]["D1"]["joukowsky_head"]["value"] == pytest.approx(a * v / G, rel=1e-9)
+    # The suction pipe has no wall given: taken as rigid, the upper bound.
+    assert s["pipes"]["S1"]["wave_speed"]["value"] == pytest.approx((K.value / rho) ** 0.5)
+    assert s["line_period"]["value"] == pytest.approx(2 * 150 / a, rel=1e-9)
+    # A sudden stop from ~2.5 m/s in steel: about 350 m of downsurge, far below vapour.
+    check = _check(t, "surge")
+    assert check.status == "fail"
+    assert "transient analysis" in check.message
+    assert t.results["route"]["max_pressure_basis"] == "surge"
+
+
+def test_slow_valve_closure_passes_the_period_test():
+    extra = '[surge]\nevent = "valve_closure"\nclosure_time = "30 s"\n'
+    t = _with_curve("", extra=extra)
+    s = t.results["surge"]
+    assert s["closure_time"]["value"] == 30.0
+    T = s["line_period"]["value"]
+    jouk = s["pipes"]["D1"]["joukowsky_head"]["value"]
+    assert s["pipes"]["D1"]["head_change"]["value"] == pytest.approx(jouk * T / 30.0)
+    assert _check(t, "surge").status == "pass"
+    fast = _with_curve("", extra='[surge]\nevent = "valve_closure"\nclosure_time = "0.1 s"\n')
+    assert _check(fast, "surge").status == "review"
+    assert fast.results["surge"]["head_rise"]["value"] == pytest.approx(
+        fast.results["surge"]["pipes"]["D1"]["joukowsky_head"]["value"]
+    )
+
+
+def test_anchored_pipe_uses_the_catalog_poisson_ratio():
+    text = (
+        ROUTE.replace("CREST", "26.0")
+        .replace(
+            'id = "D1"\n', 'id = "D1"\nmaterial = "commercial_steel"\nrestraint = "anchored"\n'
+        )
+        .replace(
+            'roughness = "0.045 mm"\nelevation_start = "0 m"\nelevation_end = "26.0 m"',
+            'elevation_start = "0 m"\nelevation_end = "26.0 m"',
+        )
+    )
+    t = solve(loads((text + SURGE).encode()))
+    c1 = [s for s in t.steps if s.id.endswith("surge.D1.restraint_factor")]
+    assert len(c1) == 1 and c1[0].value == pytest.approx(1 - 0.30**2)
+
+
+def test_input_problems_of_the_route_keys():
+    text = ROUTE.replace("CREST", "26.0") + (
+        '[[component]]\nid = "V-9"\nat = "D9"\npressure_rating = "1 MPa"\n'
+        '[surge]\nevent = "valve_closure"\n'
+    )
+    text = text.replace('id = "D2"\n', 'id = "D2"\nrestraint = "anchord"\n')
+    with pytest.raises(InputError) as err:
+        loads(text.encode())
+    keys = {p.key for p in err.value.problems}
+    assert {"component[1].at", "surge.closure_time", "pipe[3].restraint"} <= keys
+    messages = " ".join(p.message for p in err.value.problems)
+    assert '"D1"' in messages or '"D2"' in messages  # a suggestion for the pipe id
+    assert '"anchored"' in messages
