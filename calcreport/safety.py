@@ -287,8 +287,12 @@ class Route:
             else "operating cases only (pump not selected)"
         )
 
+        recorded: dict[str, Given] = {}
+
         def record(point: dict[str, Any]) -> Given:
-            return self._pressure_step(states, point, H_max, rho, z_s, p_s)
+            if point["node"] not in recorded:
+                recorded[point["node"]] = self._pressure_step(states, point, H_max, rho, z_s, p_s)
+            return recorded[point["node"]]
 
         rated = [(p, item) for p in points for item in p["ratings"]]
         if rated:
@@ -302,8 +306,9 @@ class Route:
                 "case": self.surge_case if gov["basis"] == "surge" else "all",
                 "shutoff_known": basis == "shutoff",
             }
-        if not rated or top is not gov:
-            record(top)
+        record(top)
+        if H_max is not None and points[0]["basis"] == "static":
+            record(points[0])  # the pump discharge at shutoff: the casing's pressure
         out["nodes"] = [
             {
                 "node": p["node"],

@@ -190,7 +190,7 @@ def test_si_traces_print_si_units(drawn) -> None:
     text = _pdf_text(drawn["si", "system_curve"].pdf)
     assert "L/s" in text and "gpm" not in text
     sketch = " ".join(_texts(drawn["si", "sketch"].figure))
-    assert "ID 202.7 mm" in sketch and "L 1180 m" in sketch
+    assert "ID 202.7 mm" in sketch and "L 600 m" in sketch
 
 
 def test_labels_carry_the_trace_values(traces, drawn) -> None:

@@ -37,9 +37,9 @@ def old(base_text: str) -> dict[str, Any]:
 @pytest.fixture(scope="module")
 def longer(base_text: str) -> dict[str, Any]:
     """The same system with the long discharge pipe 70 m longer, as revision B."""
-    assert base_text.count('length = "1180 m"') == 1
+    assert base_text.count('length = "600 m"') == 1
     assert base_text.count('revision = "A"') == 1
-    text = base_text.replace('length = "1180 m"', 'length = "1250 m"')
+    text = base_text.replace('length = "600 m"', 'length = "670 m"')
     return solved(text.replace('revision = "A"', 'revision = "B"'))
 
 
@@ -60,9 +60,9 @@ def test_changed_pipe_length(old: dict[str, Any], longer: dict[str, Any]):
     report = diff(old, longer)
     assert not report.identical
     changed = {c.key: c for c in report.inputs}
-    length = next(c for c in changed.values() if c.key.endswith(".length") and c.old == 1180)
-    assert (length.kind, length.old, length.new, length.unit) == ("changed", 1180.0, 1250.0, "m")
-    assert length.change_percent == pytest.approx(70 / 1180 * 100)
+    length = next(c for c in changed.values() if c.key.endswith(".length") and c.old == 600)
+    assert (length.kind, length.old, length.new, length.unit) == ("changed", 600.0, 670.0, "m")
+    assert length.change_percent == pytest.approx(70 / 600 * 100)
     assert len(report.inputs) == 1
     moved = {c.key: c for c in report.results}
     tdh = moved["total_dynamic_head"]
@@ -190,7 +190,7 @@ def test_cli_differences(
     assert main(["diff", str(a), str(b)]) == 1
     out, err = capsys.readouterr()
     assert err == ""
-    assert "total_dynamic_head" in out and "1180" in out and "1250" in out
+    assert "total_dynamic_head" in out and "600" in out and "670" in out
     assert main(["diff", str(a), str(b), "--json"]) == 1
     data = json.loads(capsys.readouterr().out)
     assert data["identical"] is False

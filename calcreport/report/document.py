@@ -53,7 +53,16 @@ SECTIONS = (
     ("npsh", "NPSH available and margin", ("npsh.",)),
     ("power", "Power and energy", ("power.", "energy.")),
     ("motor", "Motor rating", ("motor.",)),
+    ("route", "Pressure along the route", ("route.",)),
+    ("surge", "Surge screening", ("surge.",)),
 )
+# Sections whose steps come from the cases that govern their checks, not only C1.
+_ANY_CASE = ("route", "surge")
+_CASE_PREFIX = re.compile(r"^C\d+\.")
+_ROUTE_CHECKS = ("min_pressure", "pressure_rating", "surge")
+# Longest node table printed in full; a longer route prints its governing nodes.
+MAX_NODE_ROWS = 60
+MAX_WORKED_STEPS = 30
 
 # Kind of quantity for display, by SI unit.
 _KIND_OF_UNIT = {
@@ -440,6 +449,22 @@ class _Report:
                 cost = energy["annual_cost"]
                 parts.append(f"annual energy cost {cost['value']:,.0f} {text(cost['unit'])}")
             out.append(self.p("<b>Energy:</b> " + "; ".join(parts) + "."))
+        route, surge = self.r.get("route", {}), self.r.get("surge", {})
+        parts = []
+        if "min_pressure_head" in route:
+            parts.append(
+                f"lowest pressure head {self.q(route['min_pressure_head'], 'length')} at "
+                f"{text(route['min_pressure_node'])} ({text(route['min_pressure_case'])})"
+            )
+        if "max_pressure" in route:
+            parts.append(
+                f"highest pressure {self.q(route['max_pressure'], 'pressure')}(g) at "
+                f"{text(route['max_pressure_node'])}"
+            )
+        if parts:
+            out.append(self.p("<b>Pressure along the route:</b> " + "; ".join(parts) + "."))
+        if surge:
+            out.append(self.p(f"<b>Surge:</b> {text(surge.get('verdict', ''))}"))
         out.append(self.heading("Checks that are not a pass", 2))
         open_checks = [c for c in self.t["checks"] if c["status"] != "pass"]
         if open_checks:
@@ -585,10 +610,15 @@ class _Report:
         tdh = self.q(self.r["total_dynamic_head"], "length")
         flow = self.q(self.r["flow"], "flow")
         if fails:
+            then = (
+                "before a pump is selected"
+                if "pump.curve.flow[1]" not in self.t["given"]
+                else "and rechecked"
+            )
             return (
                 f"The design does <b>not</b> meet {len(fails)} criteri"
                 f"{'on' if len(fails) == 1 else 'a'} (see Design checks): it must be revised "
-                "before a pump is selected."
+                f"{then}."
             )
         if self.t["status"]["value"] == "preliminary":
             return (
@@ -761,18 +791,184 @@ class _Report:
             )
         out.append(self.p(intro + "."))
         for key, title, prefixes in SECTIONS:
-            steps = [st for st in self.t["steps"] if st["id"].startswith(prefixes)]
-            if not steps:
+            if key in _ANY_CASE:
+                cases = self.governing_cases()
+                steps = [
+                    st
+                    for st in self.t["steps"]
+                    if _CASE_PREFIX.sub("", st["id"]).startswith(prefixes)
+                    and (st.get("case") or "C1") in cases
+                ]
+            else:
+                steps = [st for st in self.t["steps"] if st["id"].startswith(prefixes)]
+            if not steps and not (key == "route" and "route" in self.r):
                 continue
             out.append(self.heading(title, 2))
             if key == "pipes":
                 out += self.pipe_section(steps)
             elif key == "pump":
                 out += self.examples(steps)
+            elif key == "route":
+                out += self.route_section(steps)
+            elif key == "surge":
+                out += self.surge_section(steps)
             else:
                 for st in steps:
                     out += self.step_block(st)
         return out
+
+    def governing_cases(self) -> set[str]:
+        """C1 and the cases named by the route and surge checks and results."""
+        cases = {"C1", self.r.get("surge", {}).get("case", "C1")}
+        cases.add(self.r.get("route", {}).get("min_pressure_case", "C1"))
+        cases |= {c["case"] for c in self.t["checks"] if c["id"] in _ROUTE_CHECKS}
+        return cases
+
+    def route_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
+        """Node table, high points and crest, then the steps the pressure checks rely on."""
+        route = self.r.get("route", {})
+        out: list[Flowable] = []
+        nodes = route.get("nodes", [])
+        intro = (
+            "Pressure heads are gauge, from the hydraulic grade line less the pipe centreline "
+            "at each pipe end; a pipe's fitting losses are taken at its upstream end. The "
+            "highest pressure at a point is the greatest of the pump's highest head against "
+            f"a closed line ({text(route.get('pressure_case', ''))}), the operating "
+            "pressures of every case and, when surge is screened, the upsurge."
+        )
+        out.append(self.p(intro))
+        keep = {
+            route.get("min_pressure_node"),
+            route.get("max_pressure_node"),
+            route.get("rating_check", {}).get("node"),
+            *(h["node"] for h in route.get("high_points", [])),
+        }
+        shown = nodes if len(nodes) <= MAX_NODE_ROWS else [n for n in nodes if n["node"] in keep]
+        if shown:
+            length = pretty_unit(display_unit("length", self.system))
+            pressure = pretty_unit(display_unit("pressure", self.system))
+            rows = [
+                [
+                    "Point",
+                    f"Elevation [{length}]",
+                    f"Lowest pressure head [{length}]",
+                    f"Highest pressure [{pressure}(g)]",
+                    "Highest from",
+                    f"Rating [{pressure}(g)]",
+                ]
+            ]
+            basis = {"static": "no flow, pump at its highest head", "surge": "upsurge"}
+            for n in shown:
+                rows.append(
+                    [
+                        text(n["node"]),
+                        self.num(n["elevation"], "length"),
+                        self.num(n["min_pressure_head"], "length")
+                        if "min_pressure_head" in n
+                        else "—",
+                        self.num(n["max_pressure"], "pressure"),
+                        basis.get(n["basis"], "operation"),
+                        self.num(n["rating"], "pressure") if "rating" in n else "—",
+                    ]
+                )
+            w = self.width
+            out.append(
+                self.table(rows, [w * 0.2, w * 0.14, w * 0.17, w * 0.17, w * 0.18, w * 0.14])
+            )
+            if len(shown) < len(nodes):
+                out.append(
+                    self.p(
+                        f"{len(shown)} of {len(nodes)} points shown (the governing ones); the "
+                        "trace lists every point (results.route.nodes).",
+                        self.s.small,
+                    )
+                )
+        lines = []
+        if "min_pressure_head" in route:
+            lines.append(
+                f"Lowest pressure head in the discharge line: "
+                f"{self.q(route['min_pressure_head'], 'length')} at "
+                f"{text(route['min_pressure_node'])} (case {text(route['min_pressure_case'])})."
+            )
+        if "max_pressure" in route:
+            lines.append(
+                f"Highest pressure: {self.q(route['max_pressure'], 'pressure')}(g) at "
+                f"{text(route['max_pressure_node'])}."
+            )
+        highs = route.get("high_points", [])
+        if highs:
+            listed = ", ".join(
+                f"{text(h['node'])} ({self.q(h['elevation'], 'length')})" for h in highs
+            )
+            lines.append(f"High points (air-valve candidates): {listed}.")
+        if "crest" in route:
+            c = route["crest"]
+            lines.append(
+                f"The route rises {self.q(c['above_destination'], 'length')} above the "
+                f"destination at {text(c['node'])}: the pump must lift the liquid over this "
+                "crest, and beyond it the line flows full only while the grade line stays "
+                "above the pipe (otherwise it runs part-full or as a siphon)."
+            )
+        out += [self.p(line) for line in lines]
+        return out + self.worked(steps)
+
+    def surge_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
+        """Per-pipe wave speed, period and head change; the verdict; one step of each kind."""
+        result = self.r.get("surge", {})
+        out: list[Flowable] = []
+        if "pipes" in result:
+            length = pretty_unit(display_unit("length", self.system))
+            speed = pretty_unit(display_unit("velocity", self.system))
+            rows = [
+                [
+                    "Pipe",
+                    f"Wave speed a [{speed}]",
+                    "Period 2L/a [s]",
+                    f"Joukowsky a·v/g [{length}]",
+                    f"Head change [{length}]",
+                ]
+            ]
+            for ident, p in list(result["pipes"].items())[:MAX_NODE_ROWS]:
+                rows.append(
+                    [
+                        text(ident),
+                        self.num(p["wave_speed"], "velocity"),
+                        fmt(p["period"]["value"], 4),
+                        self.num(p["joukowsky_head"], "length"),
+                        self.num(p["head_change"], "length"),
+                    ]
+                )
+            w = self.width
+            out.append(self.table(rows, [w * 0.16, w * 0.21, w * 0.21, w * 0.21, w * 0.21]))
+        event = result.get("event", "").replace("_", " ")
+        out.append(
+            self.p(
+                f"<b>Event:</b> {text(event)}, case {text(result.get('case', ''))} (the "
+                f"highest flow). <b>Verdict:</b> {text(result.get('verdict', ''))}"
+            )
+        )
+        out.append(
+            self.p(
+                "The screening takes the flow to stop at once (a valve closing slower than the "
+                "line period: linearly over its closing time) and neglects friction, pump "
+                "inertia and wave reflections. It is not a transient analysis: where it trips "
+                "a limit, a detailed transient analysis is required before the design is "
+                "accepted.",
+                self.s.small,
+            )
+        )
+        return out + self.worked(steps)
+
+    def worked(self, steps: list[dict[str, Any]]) -> list[Flowable]:
+        """Every step when they are few, else one worked step of each equation."""
+        if len(steps) > MAX_WORKED_STEPS:
+            return self.examples(steps)
+        return [block for st in steps for block in self.step_block(st)]
+
+    def num(self, quantity: dict[str, Any], kind: str) -> str:
+        """A value in the report's display unit, without the unit (table cells)."""
+        unit = display_unit(kind, self.system)
+        return fmt(to_display(quantity["value"], quantity["unit"], unit), 4)
 
     def examples(self, steps: list[dict[str, Any]]) -> list[Flowable]:
         """One worked step of each equation; the rest are in Appendix A."""
@@ -843,11 +1039,12 @@ class _Report:
         for n, c in enumerate(checks, start=1):
             unit = (c["value"] or c["limit"] or {"unit": ""})["unit"]
             kind = _KIND_OF_UNIT.get(unit)
-            value = self.q(c["value"], kind) if c["value"] else "—"
+            gauge = "(g)" if kind == "pressure" else ""  # checked pressures are gauge
+            value = self.q(c["value"], kind) + gauge if c["value"] else "—"
             if c["value"] and not kind:
                 value = f"{c['value']['value']:.4g}"
             limit = (
-                f"{c['comparison']} {self.q(c['limit'], kind)}"
+                f"{c['comparison']} {self.q(c['limit'], kind)}{gauge}"
                 if c["limit"]
                 else text(c["comparison"])
             )
