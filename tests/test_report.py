@@ -301,3 +301,27 @@ def test_every_free_text_field_prints_literally(tmp_path):
     for label in ("title", "client", "prepared_by", "note", "rev", "caution"):
         assert f"{label}: {hostile}" in text, label
     assert "D2<i>" in text
+
+
+def test_route_pressures_and_surge_are_reported(built):
+    # The demo runs over a summit with ratings and a pump-trip screening: the reader finds
+    # the route section with its governing points, the surge verdict, and both on the summary.
+    _, trace, pages = built["reservoir_fill_si"]
+    text = "\n".join(pages)
+    route, surge = trace["results"]["route"], trace["results"]["surge"]
+    assert "Pressure along the route" in text and "Surge screening" in text
+    summary = next(p for p in pages if "Checks that are not a pass" in p)
+    assert "Pressure along the route:" in summary and "Surge:" in summary
+    assert route["min_pressure_node"] in summary
+    for point in route["nodes"]:
+        assert point["node"] in text
+    assert [h["node"] for h in route["high_points"]] == ["D2 end"]
+    assert "air-valve candidates" in text.replace("\n", " ")
+    assert "transient analysis" in text
+    # Every check the route and surge produced is printed with its status.
+    ids = {c["id"]: c for c in trace["checks"]}
+    assert {"min_pressure", "pressure_rating", "surge"} <= set(ids)
+    assert f"{surge['head_rise']['value']:.4g} m" in text
+    rating = ids["pressure_rating"]
+    assert rating["status"] == "fail" and "D1 start" in rating["message"]
+    assert rating["message"].split(":")[0] in text.replace("\n", " ")
