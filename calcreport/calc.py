@@ -427,7 +427,7 @@ def _solve_case(
         eta_pump = eta_curve or eta_pump
         if "bep_flow" in point:
             results["operating_region"] = _regions(model, point["bep_flow"]["value"])
-    results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive, notes))
+    results.update(_power(b, model, case, liquid, surfaces, curve, h, eta_pump, eta_drive, notes))
     results["required_flow"] = _q(required)
     results["pumps_running"] = _q(case.running)
     results["duty_case"] = case.duty
@@ -1321,11 +1321,58 @@ def _hydraulics(
     return out
 
 
+def _electrical(
+    b: TraceBuilder,
+    model: Model,
+    case: Case,
+    P_h: Given,
+    eta_pump: Given,
+    eta_drive: Given,
+    label: str = "",
+) -> tuple[Given | None, Given | None]:
+    """Shaft and electrical input power from the hydraulic power (None where not known)."""
+    sid = case.sid
+    if model.pump.efficiency_basis == "overall":
+        # Wire-to-water efficiency: electrical input directly; the shaft power is unknown,
+        # and no motor efficiency is applied (it is inside the overall value).
+        P_e = b.step(
+            sid("power.electrical"),
+            f"Electrical input power{label} (wire-to-water efficiency)",
+            power.wire_to_water_power,
+            case.id,
+            P_h=P_h,
+            eta_ww=eta_pump,
+        )
+        return None, P_e
+    P_s = b.step(
+        sid("power.shaft"),
+        f"Shaft power{label}",
+        power.shaft_power,
+        case.id,
+        P_h=P_h,
+        eta_p=eta_pump,
+    )
+    if model.motor_efficiency is None:
+        return P_s, None
+    P_e = b.step(
+        sid("power.electrical"),
+        f"Electrical input power{label}",
+        power.electrical_power,
+        case.id,
+        P_s=P_s,
+        eta_m=model.motor_efficiency,
+        eta_d=eta_drive,
+    )
+    return P_s, P_e
+
+
 def _power(
     b: TraceBuilder,
     model: Model,
     case: Case,
     liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    curve: CurvePoints | None,
     hydraulics: dict[str, Any],
     eta_pump: Given | None,
     eta_drive: Given,
@@ -1345,99 +1392,99 @@ def _power(
     out["hydraulic_power"] = _q(P_h)
     if eta_pump is None:
         return out
-    if model.pump.efficiency_basis == "overall":
-        # Wire-to-water efficiency: electrical input directly; the shaft power is unknown,
-        # and no motor efficiency is applied (it is inside the overall value).
-        P_e = b.step(
-            sid("power.electrical"),
-            "Electrical input power (wire-to-water efficiency)",
-            power.wire_to_water_power,
-            case.id,
-            P_h=P_h,
-            eta_ww=eta_pump,
-        )
-    else:
-        P_s = b.step(
-            sid("power.shaft"),
-            "Shaft power",
-            power.shaft_power,
-            case.id,
-            P_h=P_h,
-            eta_p=eta_pump,
-        )
+    P_s, P_e = _electrical(b, model, case, P_h, eta_pump, eta_drive)
+    if P_s is not None:
         out["shaft_power"] = _q(P_s)
-        if model.motor_efficiency is None:
-            return out
-        P_e = b.step(
-            sid("power.electrical"),
-            "Electrical input power",
-            power.electrical_power,
-            case.id,
-            P_s=P_s,
-            eta_m=model.motor_efficiency,
-            eta_d=eta_drive,
-        )
+    if P_e is None:
+        return out
     out["electrical_power"] = _q(P_e)
-    op = model.operation
     if case.id != "C1":  # the annual energy is that of the design case
         return out
-    if op.hours_per_year is not None:
-        hours = b.step(
-            sid("energy.operating_time"),
-            "Operating time per year",
-            power.hours_to_seconds,
-            case.id,
-            hours=op.hours_per_year,
-        )
-    elif op.annual_volume is not None:
-        hours = b.step(
-            sid("energy.operating_time"),
-            "Operating time per year (fill duty)",
-            power.fill_time,
-            case.id,
-            V=op.annual_volume,
+    energy = _energy(b, model, case, liquid, surfaces, curve, P_e, eta_drive, notes)
+    if energy:
+        out["energy"] = energy
+    return out
+
+
+def _energy(
+    b: TraceBuilder,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    curve: CurvePoints | None,
+    P_e: Given,
+    eta_drive: Given,
+    notes: list[str],
+) -> dict[str, Any] | None:
+    """Annual energy and cost on the basis of the duty: continuous, fill, or a profile."""
+    op = model.operation
+    energy: dict[str, Any] = {"control": op.control}
+    demand = P_e
+    if op.profile:
+        found = _duty_profile(b, model, case, liquid, surfaces, curve, P_e, eta_drive, notes)
+        if found is None:
+            return None
+        E, hours, e_v, demand, extra = found
+        energy.update(extra)
+    else:
+        if op.hours_per_year is not None:
+            hours = b.step(
+                "energy.operating_time",
+                "Operating time per year",
+                power.hours_to_seconds,
+                hours=op.hours_per_year,
+            )
+        elif op.annual_volume is not None:
+            hours = b.step(
+                "energy.operating_time",
+                "Operating time per year (fill duty)",
+                power.fill_time,
+                V=op.annual_volume,
+                Q=case.flow,
+            )
+        else:
+            notes.append(
+                "Annual energy is not computed: give operation.hours_per_year "
+                "(continuous duty), operation.annual_volume (fill duty) or operation.profile."
+            )
+            return None
+        E = b.step("energy.annual", "Annual energy", power.annual_energy, P_e=P_e, t=hours)
+        e_v = b.step(
+            "energy.specific",
+            "Specific energy (per volume pumped)",
+            power.specific_energy,
+            P_e=P_e,
             Q=case.flow,
         )
-    else:
-        notes.append(
-            "Annual energy is not computed: give operation.hours_per_year "
-            "(continuous duty) or operation.annual_volume (fill duty)."
-        )
-        return out
-    E = b.step(
-        sid("energy.annual"), "Annual energy", power.annual_energy, case.id, P_e=P_e, t=hours
-    )
-    e_v = b.step(
-        sid("energy.specific"),
-        "Specific energy (per volume pumped)",
-        power.specific_energy,
-        case.id,
-        P_e=P_e,
-        Q=case.flow,
-    )
-    energy: dict[str, Any] = {
-        "annual_energy": _q(E),
-        "specific_energy": _q(e_v),
-        "operating_time": _q(hours),
-    }
+    energy.update(annual_energy=_q(E), specific_energy=_q(e_v), operating_time=_q(hours))
     costs = []
     if op.energy_price is not None:
-        C = b.step(
-            sid("energy.annual_cost"),
-            "Annual energy cost",
-            power.annual_cost,
-            case.id,
-            E=E,
-            price=op.energy_price,
+        costs.append(
+            b.step(
+                "energy.annual_cost",
+                "Annual energy cost",
+                power.annual_cost,
+                E=E,
+                price=op.energy_price,
+            )
         )
-        costs.append(C)
+        if "throttling_energy" in energy:
+            lost = Given(energy["throttling_energy"]["value"], "J", "energy.throttling")
+            C_thr = b.step(
+                "energy.throttling_cost",
+                "Annual cost of the energy burnt in throttling",
+                power.annual_cost,
+                E=lost,
+                price=op.energy_price,
+            )
+            energy["throttling_cost"] = quantity(C_thr.value, op.currency)
     if op.demand_charge is not None:
         D = b.step(
-            sid("energy.demand_cost"),
+            "energy.demand_cost",
             "Annual demand charge",
             power.demand_cost,
-            case.id,
-            P_e=P_e,
+            P_e=demand,
             rate=op.demand_charge,
         )
         energy["demand_cost"] = quantity(D.value, op.currency)
@@ -1447,27 +1494,223 @@ def _power(
             costs[0]
             if len(costs) == 1
             else b.step(
-                sid("energy.total_cost"),
+                "energy.total_cost",
                 "Annual energy and demand cost",
                 power.cost_sum,
-                case.id,
                 costs=costs,
             )
         )
         energy["annual_cost"] = quantity(total.value, op.currency)
         if op.life_years is not None and op.discount_rate is not None:
             pv = b.step(
-                sid("energy.life_cycle_cost"),
+                "energy.life_cycle_cost",
                 "Present value of the energy cost over the life",
                 power.present_value,
-                case.id,
                 C=total,
                 rate=op.discount_rate,
                 years=op.life_years,
             )
             energy["life_cycle_energy_cost"] = quantity(pv.value, op.currency)
-    out["energy"] = energy
-    return out
+    return energy
+
+
+def _duty_profile(
+    b: TraceBuilder,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    curve: CurvePoints | None,
+    P_e: Given,
+    eta_drive: Given,
+    notes: list[str],
+) -> tuple[Given, Given, Given, Given, dict[str, Any]] | None:
+    """Energy over operation.profile: annual energy, time, specific energy, demand, rows.
+
+    On-off control runs the pump at its operating point for as long as the
+    profile's volume needs; throttled control holds the fixed-speed pump at each
+    profile flow with a valve; variable speed finds the speed at which the
+    affinity-scaled curve meets the system curve at each flow.
+    """
+    op = model.operation
+    times = [
+        b.step(
+            f"P{i}.energy.operating_time",
+            f"Time a year at profile point P{i}",
+            power.hours_to_seconds,
+            f"P{i}",
+            hours=hours,
+        )
+        for i, (_, hours) in enumerate(op.profile, start=1)
+    ]
+    flows = [q for q, _ in op.profile]
+    V = b.step(
+        "energy.annual_volume",
+        "Volume pumped a year over the profile",
+        power.profile_volume,
+        Q=flows,
+        t=times,
+    )
+    rows: list[dict[str, Any]] = [
+        {"point": f"P{i}", "flow": _q(q), "hours": h.value}
+        for i, (q, h) in enumerate(op.profile, start=1)
+    ]
+    extra: dict[str, Any] = {"annual_volume": _q(V), "profile": rows}
+    if op.control == "on_off":
+        hours = b.step(
+            "energy.operating_time",
+            "Operating time per year (on-off: the profile's volume at the operating flow)",
+            power.fill_time,
+            V=V,
+            Q=case.flow,
+        )
+        E = b.step("energy.annual", "Annual energy", power.annual_energy, P_e=P_e, t=hours)
+        demand = P_e
+    else:
+        assert curve is not None
+        powers, lost = [], []
+        for i, (row, q) in enumerate(zip(rows, flows, strict=True), start=1):
+            point = replace(case, id=f"P{i}", title=f"Profile point P{i}", flow=q)
+            found = _profile_point(b, model, point, liquid, surfaces, curve, eta_drive, row)
+            if found is None:
+                notes.append(
+                    f"Annual energy is not computed: profile point P{i} cannot be served "
+                    f"({row['reason']})."
+                )
+                return None
+            powers.append(found[0])
+            lost.append(found[1])
+        E = b.step("energy.annual", "Annual energy over the profile", power.profile_energy,
+                   P=powers, t=times)  # fmt: skip
+        hours = b.step("energy.operating_time", "Operating time per year", power.time_sum, t=times)
+        demand = b.step("energy.peak_power", "Peak electrical demand over the profile",
+                        power.peak_power, P=powers)  # fmt: skip
+        if op.control == "throttled":
+            burnt = [g for g in lost if g is not None]
+            E_thr = b.step(
+                "energy.throttling",
+                "Annual energy burnt in the throttling valve",
+                power.profile_energy,
+                P=burnt,
+                t=times,
+            )
+            extra["throttling_energy"] = _q(E_thr)
+    e_v = b.step(
+        "energy.specific",
+        "Specific energy (per volume pumped)",
+        power.energy_per_volume,
+        E=E,
+        V=V,
+    )
+    return E, hours, e_v, demand, extra
+
+
+def _profile_point(
+    b: TraceBuilder,
+    model: Model,
+    point: Case,
+    liquid: Liquid,
+    surfaces: tuple[Given, Given, Given, Given | None],
+    curve: CurvePoints,
+    eta_drive: Given,
+    row: dict[str, Any],
+) -> tuple[Given, Given | None] | None:
+    """Electrical power at one profile flow (and the part burnt throttling), as steps."""
+    sid, pid = point.sid, point.id
+    h = _hydraulics(b, model, point, liquid, surfaces)
+    n = point.running.value
+    parallel = model.pump.arrangement == "parallel"
+    Q = point.flow
+    if n > 1 and parallel:
+        Q = b.step(sid("pump.flow_per_pump"), "Flow of each pump", pump.per_pump_flow, pid,
+                   Q=point.flow, n_run=point.running)  # fmt: skip
+    H_sys = h["tdh"]
+    row["system_head"] = _q(H_sys)
+    flows = curve.values("flow")
+    lift = n if n > 1 and not parallel else 1.0  # pumps in series share the head
+    if model.operation.control == "throttled":
+        if not flows[0] <= Q.value <= flows[-1]:
+            row["reason"] = "its flow is outside the pump curve"
+            return None
+        H = b.step(sid("pump.head"), "Pump head at the profile flow (fixed speed)",
+                   pump.head_at, pid, Q=Q, flow=curve.flow, head=curve.head)  # fmt: skip
+        if lift > 1:
+            H = b.step(sid("pump.series_head"), "Head of the pumps in series",
+                       pump.series_head, pid, H1=H, n_run=point.running)  # fmt: skip
+        if H.value < H_sys.value:
+            row["reason"] = "at fixed speed the pump's head is below the system head"
+            return None
+        h_thr = b.step(sid("energy.throttling_loss"), "Head burnt in the throttling valve",
+                       pump.throttling_loss, pid, H_pump=H, H_system=H_sys)  # fmt: skip
+        eta = _profile_efficiency(b, model, point, curve, Q)
+        P_h = b.step(sid("power.hydraulic"), "Hydraulic power (the pump's own head)",
+                     power.hydraulic_power, pid, rho=liquid.density, Q=point.flow, H=H)  # fmt: skip
+        _, P_e = _electrical(b, model, point, P_h, eta, eta_drive)
+        assert P_e is not None
+        P_thr = b.step(sid("energy.throttling_power"), "Input power burnt in the valve",
+                       power.throttling_power, pid, P_e=P_e, h_thr=h_thr, H=H)  # fmt: skip
+        row.update(pump_head=_q(H), throttling_loss=_q(h_thr), efficiency=_q(eta),
+                   electrical_power=_q(P_e))  # fmt: skip
+        return P_e, P_thr
+    assert curve.flow and model.pump.curve is not None and model.pump.curve.speed is not None
+    n0 = model.pump.curve.speed
+    base = model.pump.curve
+    q0 = [g.value for g in base.flow]
+    h0 = [g.value for g in base.head]
+
+    def difference(speeds: np.ndarray) -> np.ndarray:
+        at = Q.value * n0.value / speeds
+        inside = at <= q0[-1]
+        head = np.where(inside, pump.monotone_cubic(q0, h0, np.minimum(at, q0[-1])), -1e9)
+        return lift * (speeds / n0.value) ** 2 * head - H_sys.value
+
+    low = max(Q.value * n0.value / q0[-1], 1e-6 * n0.value)
+    speed = pump.operating_point(difference, low, 3.0 * n0.value)
+    if speed is None:
+        row["reason"] = "no speed up to three times the curve speed meets the system head"
+        return None
+    found = b.solution(sid("solver.speed"), speed, "1/s",
+                       "bracketed root of H_pump(n, Q) − H_system(Q), Illinois method")  # fmt: skip
+    n_op = b.step(sid("pump.speed"), "Speed that meets the system head at the profile flow",
+                  pump.solved_speed, pid, n=found)  # fmt: skip
+    Q0 = b.step(sid("pump.curve_flow"), "Corresponding flow on the curve's speed",
+                pump.affinity_flow, pid, Q0=Q, n=n0, n0=n_op)  # fmt: skip
+    H0 = b.step(sid("pump.curve_head"), "Curve head at the corresponding flow", pump.head_at,
+                pid, Q=Q0, flow=list(base.flow), head=list(base.head))  # fmt: skip
+    H = b.step(sid("pump.head"), "Pump head at the profile speed", pump.affinity_head, pid,
+               H0=H0, n=n_op, n0=n0)  # fmt: skip
+    if lift > 1:
+        H = b.step(sid("pump.series_head"), "Head of the pumps in series", pump.series_head,
+                   pid, H1=H, n_run=point.running)  # fmt: skip
+    b.step(sid("pump.head_balance"), "Head balance at the profile point (zero)",
+           pump.head_balance, pid, H_pump=H, H_system=H_sys)  # fmt: skip
+    eta = _profile_efficiency(b, model, point, curve, Q0, base=True)
+    P_h = b.step(sid("power.hydraulic"), "Hydraulic power", power.hydraulic_power, pid,
+                 rho=liquid.density, Q=point.flow, H=H_sys)  # fmt: skip
+    _, P_e = _electrical(b, model, point, P_h, eta, eta_drive)
+    assert P_e is not None
+    row.update(speed=_q(n_op), pump_head=_q(H), efficiency=_q(eta), electrical_power=_q(P_e))
+    return P_e, None
+
+
+def _profile_efficiency(
+    b: TraceBuilder, model: Model, point: Case, curve: CurvePoints, Q: Given, base: bool = False
+) -> Given:
+    """Pump efficiency at a profile flow from the curve (unchanged at corresponding points)."""
+    source = model.pump.curve if base else curve
+    assert source is not None
+    if not source.efficiency:
+        assert model.pump.efficiency is not None
+        return model.pump.efficiency
+    return b.step(
+        point.sid("pump.efficiency"),
+        "Pump efficiency at the profile point",
+        pump.efficiency_at,
+        point.id,
+        Q=Q,
+        flow=list(source.flow),
+        efficiency=list(source.efficiency),
+    )
 
 
 def _results(

@@ -150,10 +150,10 @@ def test_changed_input_that_was_not_propagated(pump: dict[str, Any]):
     pump["given"][key]["value"] += 1.0
     found = mismatched(recheck(pump))
     assert set(found) == users(pump, key)
-    # The friction loss of the design case and two other cases, and the surge screening
-    # of the highest-flow case (pipe period and line period).
+    # The friction loss of the design case, two other cases and the three points of the
+    # duty profile, and the surge screening of the highest-flow case (pipe and line period).
     friction = [k for k in found if k.endswith("friction_loss")]
-    assert len(friction) == 3
+    assert len(friction) == 6
     assert set(found) - set(friction) == {"C3.surge.D1.period", "C3.surge.line_period"}
     assert found["C3.surge.line_period"] == ["argument L[1]"]
     assert all(what == ["argument L"] for k, what in found.items() if k != "C3.surge.line_period")

@@ -479,6 +479,23 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     pipes = _pipes(r, data.get("pipe"))
     criteria = _criteria(r, r.table(data, "criteria", "criteria", required=False) or {})
     envelope = _envelope(r, r.table(data, "envelope", "envelope", required=False) or {}, fluid)
+    if operation.control != "on_off" and pump and pump.curve is None:
+        r.problem(
+            "operation.control",
+            f'Control "{operation.control}" moves along the pump curve: give [pump.curve].',
+        )
+    elif operation.control == "variable_speed" and pump and pump.curve:
+        if pump.curve.speed is None:
+            r.problem(
+                "pump.curve.speed",
+                "Variable-speed control scales the curve by the affinity laws: give the "
+                "speed of the curve data.",
+            )
+        if not pump.curve.efficiency and pump.efficiency is None:
+            r.problem(
+                "pump.curve.efficiency",
+                "Variable-speed energy needs the pump efficiency: give the curve's efficiency.",
+            )
     components = _components(r, data.get("component"), pipes)
     surge = _surge(r, data)
     friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
@@ -1056,7 +1073,11 @@ _OPERATION_KEYS = {
     "demand_charge",
     "life_years",
     "discount_rate",
+    "control",
+    "profile",
 }
+CONTROLS = ("on_off", "throttled", "variable_speed")
+MAX_PROFILE_POINTS = 50
 
 
 def _operation(r: _Reader, data: dict[str, Any]) -> Operation:
@@ -1088,6 +1109,14 @@ def _operation(r: _Reader, data: dict[str, Any]) -> Operation:
             "operation.life_years",
             "A life-cycle energy cost needs both life_years and discount_rate.",
         )
+    control = r.text(data, "control", "operation", "on_off", CONTROLS)
+    profile = _profile(r, data.get("profile"))
+    if profile and (hours or volume):
+        r.problem(
+            "operation.profile",
+            "A profile sets the hours at each flow; give it instead of hours_per_year or "
+            "annual_volume.",
+        )
     currency = r.text(data, "currency", "operation", "")
     if (price or demand) and not currency:
         r.problem("operation.currency", 'Give the currency of energy_price, such as "USD".')
@@ -1099,7 +1128,37 @@ def _operation(r: _Reader, data: dict[str, Any]) -> Operation:
         demand_charge=demand,
         life_years=life,
         discount_rate=rate,
+        control=control,
+        profile=profile,
     )
+
+
+def _profile(r: _Reader, raw: Any) -> tuple[tuple[Given, Given], ...]:
+    """operation.profile: flows with the hours a year spent at each."""
+    if raw is None:
+        return ()
+    where = "operation.profile"
+    if not isinstance(raw, list) or not raw or not all(isinstance(p, dict) for p in raw):
+        r.problem(
+            where,
+            'Expected a list of points such as [{ flow = "18 L/s", hours = 2000 }, ...].',
+        )
+        return ()
+    if len(raw) > MAX_PROFILE_POINTS:
+        r.problem(where, f"At most {MAX_PROFILE_POINTS} profile points are accepted.")
+        return ()
+    points = []
+    for index, data in enumerate(raw, start=1):
+        path = f"{where}[{index}]"
+        r.known_keys(data, path, {"flow", "hours"})
+        flow = r.quantity(data, "flow", path, "flow", required=True, positive=True)
+        hours = r.quantity(data, "hours", path, "dimensionless", required=True, positive=True)
+        if flow and hours:
+            points.append((flow, hours))
+    total = sum(h.value for _, h in points)
+    if total > 8784.0:
+        r.problem(where, f"The profile's hours add to {total:g}; a year has at most 8784.")
+    return tuple(points)
 
 
 def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:

@@ -182,6 +182,8 @@ class Operation:
     demand_charge: Given | None = None  # per kW of electrical demand per month
     life_years: Given | None = None
     discount_rate: Given | None = None
+    control: str = "on_off"  # on_off | throttled | variable_speed
+    profile: tuple[tuple[Given, Given], ...] = ()  # (flow, hours per year) points
 
 
 @dataclass(frozen=True)

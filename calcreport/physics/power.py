@@ -5,6 +5,8 @@ Power
     per_pump_power
 Energy
     hours_to_seconds, fill_time, annual_energy, specific_energy
+Duty profile
+    profile_energy, profile_volume, energy_per_volume, throttling_power, peak_power, time_sum
 Cost
     annual_cost, demand_cost, cost_sum, present_value
 """
@@ -24,14 +26,20 @@ __all__ = [
     "cost_sum",
     "demand_cost",
     "electrical_power",
+    "energy_per_volume",
     "fill_time",
     "hours_to_seconds",
     "hydraulic_power",
+    "peak_power",
     "peak_shaft_power",
     "per_pump_power",
     "present_value",
+    "profile_energy",
+    "profile_volume",
     "shaft_power",
     "specific_energy",
+    "throttling_power",
+    "time_sum",
     "wire_to_water_power",
 ]
 
@@ -592,3 +600,238 @@ def present_value(C: Any, rate: Any, years: Any) -> Any:
     if rate == 0:
         return C * years
     return C * (1.0 - (1.0 + rate) ** -years) / rate
+
+
+def _product_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
+    pairs = zip(values["P"], values["t"], strict=True)
+    return " + ".join(f"{fmt(p)} W × {fmt(t)} s" for p, t in pairs) or "0 J"
+
+
+@equation(
+    symbol="E",
+    text="E = Σ P_e,i·t_i",
+    latex=r"E = \sum_i P_{e,i}\, t_i",
+    substitute=_product_terms,
+    reference="hi_power",
+)
+def profile_energy(P: Any, t: Any) -> Any:
+    r"""Energy of a duty profile: each point's input power for its time.
+
+    .. math:: E = \sum_i P_{e,i} t_i
+
+    Parameters
+    ----------
+    P : list of float
+        Electrical input power at each profile point [W]
+    t : list of float
+        Time a year at each point, in the same order [s]
+
+    Returns
+    -------
+    E : float
+        Annual energy [J]
+
+    Examples
+    --------
+    >>> profile_energy([1000.0, 500.0], [3600.0, 7200.0]) / 3.6e6
+    2.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (energy over a duty cycle).
+    """
+    return sum(p * s for p, s in zip(P, t, strict=True))
+
+
+def _volume_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
+    pairs = zip(values["Q"], values["t"], strict=True)
+    return " + ".join(f"{fmt(q)} m³/s × {fmt(t)} s" for q, t in pairs) or "0 m³"
+
+
+@equation(
+    symbol="V",
+    text="V = Σ Q_i·t_i",
+    latex=r"V = \sum_i Q_i\, t_i",
+    substitute=_volume_terms,
+    reference="hi_power",
+)
+def profile_volume(Q: Any, t: Any) -> Any:
+    r"""Volume pumped in a year over a duty profile.
+
+    .. math:: V = \sum_i Q_i t_i
+
+    Parameters
+    ----------
+    Q : list of float
+        Flow at each profile point [m^3/s]
+    t : list of float
+        Time a year at each point, in the same order [s]
+
+    Returns
+    -------
+    V : float
+        Annual volume [m^3]
+
+    Examples
+    --------
+    >>> profile_volume([0.02, 0.01], [3600.0, 3600.0])
+    108.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (duty cycle).
+    """
+    return sum(q * s for q, s in zip(Q, t, strict=True))
+
+
+@equation(
+    symbol="e_V",
+    text="e_V = E/V",
+    latex=r"e_V = \frac{E}{V}",
+    substitute="{E} / {V}",
+    reference="hi_power",
+)
+def energy_per_volume(E: Any, V: Any) -> Any:
+    r"""Specific energy: energy taken per volume pumped.
+
+    .. math:: e_V = \frac{E}{V}
+
+    Parameters
+    ----------
+    E : float
+        Annual energy [J]
+    V : float
+        Annual volume pumped [m^3]
+
+    Returns
+    -------
+    e_V : float
+        Specific energy [J/m^3]
+
+    Examples
+    --------
+    >>> energy_per_volume(3.6e6, 10.0) / 3.6e6
+    0.1
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (specific energy).
+    """
+    return E / V
+
+
+@equation(
+    symbol="P_thr",
+    text="P_thr = P_e·h_thr/H",
+    latex=r"P_{thr} = P_e \frac{h_{thr}}{H}",
+    substitute="{P_e} × {h_thr} / {H}",
+    reference="hi_power",
+)
+def throttling_power(P_e: Any, h_thr: Any, H: Any) -> Any:
+    r"""Part of the input power spent across a throttling valve.
+
+    .. math:: P_{thr} = P_e \frac{h_{thr}}{H}
+
+    Parameters
+    ----------
+    P_e : float
+        Electrical input power at the point [W]
+    h_thr : float
+        Head burnt in the throttling valve [m]
+    H : float
+        Head the pump delivers [m]
+
+    Returns
+    -------
+    P_thr : float
+        Input power spent on throttling [W]
+
+    Examples
+    --------
+    >>> throttling_power(10000.0, 5.0, 40.0)
+    1250.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (throttling losses: the
+       pump's head above the system's is dissipated in the valve).
+    """
+    return P_e * h_thr / H
+
+
+def _max_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    return "max(" + ", ".join(f"{fmt(p)} W" for p in values["P"]) + ")"
+
+
+@equation(
+    symbol="P_max",
+    text="P_max = max_i P_e,i",
+    latex=r"P_{max} = \max_i P_{e,i}",
+    substitute=_max_text,
+    reference="hi_power",
+)
+def peak_power(P: Any) -> Any:
+    r"""Highest input power over a duty profile (the demand).
+
+    .. math:: P_{max} = \max_i P_{e,i}
+
+    Parameters
+    ----------
+    P : list of float
+        Electrical input power at each profile point [W]
+
+    Returns
+    -------
+    P_max : float
+        Peak electrical demand [W]
+
+    Examples
+    --------
+    >>> peak_power([1000.0, 1500.0])
+    1500.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (demand charges).
+    """
+    return max(P)
+
+
+@equation(
+    symbol="t",
+    text="t = Σ t_i",
+    latex=r"t = \sum_i t_i",
+    substitute=lambda values, result, fmt: " + ".join(f"{fmt(t)} s" for t in values["t"]),
+    reference="hi_power",
+)
+def time_sum(t: Any) -> Any:
+    r"""Operating time a year over a duty profile.
+
+    .. math:: t = \sum_i t_i
+
+    Parameters
+    ----------
+    t : list of float
+        Time a year at each profile point [s]
+
+    Returns
+    -------
+    t_total : float
+        Operating time a year [s]
+
+    Examples
+    --------
+    >>> time_sum([3600.0, 7200.0])
+    10800.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (duty cycle).
+    """
+    return sum(t)

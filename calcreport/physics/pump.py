@@ -46,7 +46,9 @@ __all__ = [
     "pumps_running",
     "series_head",
     "solved_flow",
+    "solved_speed",
     "specific_speed",
+    "throttling_loss",
 ]
 
 _MAX_ITERATIONS = 100
@@ -836,3 +838,87 @@ def lift_speed(n0: Any, H_static: Any, H0: Any) -> Any:
        (affinity laws; variable-speed operation against static head).
     """
     return n0 * math.sqrt(H_static / H0)
+
+
+def _speed_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    return (
+        f"n = {fmt(values['n'] * 60)} rpm, the speed whose affinity-scaled curve passes "
+        "through the system head at this flow (bracketed root, Illinois method); confirmed "
+        "by the head-balance step"
+    )
+
+
+@equation(
+    symbol="n",
+    text="n: (n/n_0)²·H_0(Q·n_0/n) = H_system(Q)",
+    latex=r"\left(\frac{n}{n_0}\right)^2 H_0\!\left(Q \frac{n_0}{n}\right) = H_{system}(Q)",
+    substitute=_speed_text,
+    reference="karassik_2008",
+)
+def solved_speed(n: Any) -> Any:
+    r"""The speed found for a variable-speed duty point, recorded as a step.
+
+    .. math:: \left(\frac{n}{n_0}\right)^2 H_0\left(Q \frac{n_0}{n}\right) = H_{system}(Q)
+
+    Parameters
+    ----------
+    n : float
+        Speed returned by the root finder [1/s]
+
+    Returns
+    -------
+    n_op : float
+        Operating speed [1/s]
+
+    Notes
+    -----
+    The value is the solver's; the head-balance step that follows proves it.
+
+    Examples
+    --------
+    >>> solved_speed(45.0)
+    45.0
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (affinity laws; variable-speed operation on the system curve).
+    """
+    return n
+
+
+@equation(
+    symbol="h_thr",
+    text="h_thr = H_pump − H_system",
+    latex=r"h_{thr} = H_{pump} - H_{system}",
+    substitute="{H_pump} − {H_system}",
+    reference="karassik_2008",
+)
+def throttling_loss(H_pump: Any, H_system: Any) -> Any:
+    r"""Head a throttling valve must burn to hold a fixed-speed pump at a lower flow.
+
+    .. math:: h_{thr} = H_{pump} - H_{system}
+
+    Parameters
+    ----------
+    H_pump : float
+        Pump head at the flow, on its fixed-speed curve [m]
+    H_system : float
+        System head at the same flow, valve fully open [m]
+
+    Returns
+    -------
+    h_thr : float
+        Head lost in the throttling valve [m]
+
+    Examples
+    --------
+    >>> throttling_loss(41.0, 33.5)
+    7.5
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (throttle control: the valve adds resistance until the curves meet).
+    """
+    return H_pump - H_system
