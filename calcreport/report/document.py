@@ -59,6 +59,7 @@ SECTIONS = (
 # Sections whose steps come from the cases that govern their checks, not only C1.
 _ANY_CASE = ("route", "surge")
 _CASE_PREFIX = re.compile(r"^C\d+\.")
+_PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
 _ROUTE_CHECKS = ("min_pressure", "pressure_rating", "surge")
 # Longest node table printed in full; a longer route prints its governing nodes.
 MAX_NODE_ROWS = 60
@@ -442,7 +443,9 @@ class _Report:
         out.append(Spacer(1, 4 * mm))
         energy = self.r.get("energy", {})
         if energy:
-            parts = [f"annual energy {self.q(energy['annual_energy'], 'energy', 5)}"]
+            control = energy.get("control", "on_off").replace("_", "-")
+            basis = f" ({control} control over the duty profile)" if "profile" in energy else ""
+            parts = [f"annual energy {self.q(energy['annual_energy'], 'energy', 5)}{basis}"]
             if "specific_energy" in energy:
                 parts.append(f"specific energy {self.q(energy['specific_energy'])}")
             if "annual_cost" in energy:
@@ -812,6 +815,10 @@ class _Report:
                 out += self.route_section(steps)
             elif key == "surge":
                 out += self.surge_section(steps)
+            elif key == "power":
+                for st in steps:
+                    out += self.step_block(st)
+                out += self.profile_section({st["function"] for st in steps})
             else:
                 for st in steps:
                     out += self.step_block(st)
@@ -911,6 +918,69 @@ class _Report:
             )
         out += [self.p(line) for line in lines]
         return out + self.worked(steps)
+
+    def profile_section(self, shown: set[str]) -> list[Flowable]:
+        """The duty profile: a row per point, then one worked step of each new equation."""
+        energy = self.r.get("energy", {})
+        rows_in = energy.get("profile", [])
+        if not rows_in:
+            return []
+        control = energy.get("control", "on_off")
+        out: list[Flowable] = [self.heading("Duty profile", 2)]
+        words = {
+            "on_off": "On-off control: the pump runs at its operating point for as long as "
+            "the profile's volume needs.",
+            "throttled": "Throttled control: the fixed-speed pump is held at each flow by a "
+            "valve, which burns the pump's head above the system curve.",
+            "variable_speed": "Variable speed: at each flow the pump runs at the speed whose "
+            "affinity-scaled curve meets the system curve.",
+        }
+        out.append(self.p(words[control]))
+        length = pretty_unit(display_unit("length", self.system))
+        flow = pretty_unit(display_unit("flow", self.system))
+        pw = pretty_unit(display_unit("power", self.system))
+        rows = [
+            [
+                "Point",
+                f"Flow [{flow}]",
+                "Hours a year",
+                f"System head [{length}]",
+                f"Pump head [{length}]",
+                "Speed [rpm]" if control == "variable_speed" else f"Throttled [{length}]",
+                "Pump eff.",
+                f"Input power [{pw}]",
+            ]
+        ]
+        for r in rows_in:
+            dash = "—"
+            special = r.get("speed") if control == "variable_speed" else r.get("throttling_loss")
+            rows.append(
+                [
+                    text(r["point"]),
+                    self.num(r["flow"], "flow"),
+                    f"{r['hours']:,.0f}",
+                    self.num(r["system_head"], "length") if "system_head" in r else dash,
+                    self.num(r["pump_head"], "length") if "pump_head" in r else dash,
+                    (
+                        self.num(special, "speed" if control == "variable_speed" else "length")
+                        if special
+                        else dash
+                    ),
+                    fmt(r["efficiency"]["value"], 3) if "efficiency" in r else dash,
+                    self.num(r["electrical_power"], "power") if "electrical_power" in r else dash,
+                ]
+            )
+        w = self.width
+        out.append(self.table(rows, [w * 0.08] + [w * 0.92 / 7] * 7))
+        if "throttling_energy" in energy:
+            lost = self.q(energy["throttling_energy"], "energy", 5)
+            cost = energy.get("throttling_cost")
+            money = f", {cost['value']:,.0f} {text(cost['unit'])} a year" if cost else ""
+            out.append(self.p(f"Energy burnt in the throttling valve: {lost}{money}."))
+        steps = [st for st in self.t["steps"] if _PROFILE_STEP.match(st["id"])]
+        fresh = [st for st in steps if st["function"] not in shown]
+        out += self.examples(fresh)
+        return out
 
     def surge_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
         """Per-pipe wave speed, period and head change; the verdict; one step of each kind."""
