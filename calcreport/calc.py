@@ -65,6 +65,7 @@ class Case:
     duty: bool = True  # the required flow must be met in this case
     temperature: Given | None = None  # liquid temperature, when not the fluid's own
     speed: Given | None = None  # pump speed, when not the operating speed
+    pipes: tuple[Pipe, ...] | None = None  # the pipes as in this case (aged, dirty strainer)
 
     def sid(self, step: str) -> str:
         """Step id within this case (the design case C1 has plain ids)."""
@@ -139,12 +140,13 @@ def solve(model: Model) -> Trace:
                 _surface_pressure(b, model.destination, case_liquid, p_baro, prefix),
                 exit_head,
             )
+        case_model = replace(model, pipes=case.pipes) if case.pipes else model
         case_curve = curve
         if case.speed is not None:
             case_curve = _pump_curve(b, model, case.speed, f"{case.id}.")
             curves_by_speed[case.speed.value] = case_curve
         result = _solve_case(
-            b, model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
+            b, case_model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
         )
         case_route = route.case_route(states[case.id])
         if case_route:
@@ -266,6 +268,7 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
         flow: Given | None = None,
         temperature: Given | None = None,
         speed: Given | None = None,
+        pipes: tuple[Pipe, ...] | None = None,
     ) -> None:
         cases.append(
             Case(
@@ -274,6 +277,7 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
                 flow=flow or model.flow,
                 temperature=temperature,
                 speed=speed,
+                pipes=pipes,
                 source_level=levels[0],
                 npsh_level=npsh_level,
                 destination_level=_destination_elevation(model, levels[1]),
@@ -319,6 +323,41 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
             duty,
             temperature=hot,
         )
+    aged = model.envelope.roughness
+    if aged:
+        b.assume(
+            f"Aged pipe: every pipe smoother than {aged.value * 1e3:.4g} mm (envelope.roughness, "
+            "the project's stated basis) takes that roughness in the aged-pipe case."
+        )
+        rough = tuple(
+            replace(
+                p, roughness=aged, sources={k: v for k, v in p.sources.items() if k != "roughness"}
+            )
+            if p.roughness.value < aged.value
+            else p
+            for p in model.pipes
+        )
+        case(f"Aged pipe (roughness {aged.value * 1e3:.4g} mm), highest static head{pumps}",
+             high, duty, pipes=rough)  # fmt: skip
+    dirty = model.envelope.strainer_dirty_dp
+    if dirty:
+        b.assume(
+            "Dirty suction strainer: its loss envelope.strainer_dirty_dp at the duty flow, "
+            "scaled with (Q/Q_duty)², is added at the pump end of the last suction pipe."
+        )
+        last = model.suction_pipes[-1]
+        strainer = Fitting(
+            key="envelope.strainer_dirty_dp",
+            count=Given(1.0, "", "envelope.strainer_dirty_dp"),
+            dp=dirty,
+            at_flow=model.flow,
+            note="suction strainer, dirty",
+        )
+        fouled = tuple(
+            replace(p, fittings=(*p.fittings, strainer)) if p is last else p for p in model.pipes
+        )
+        case(f"Dirty suction strainer ({dirty.value / 1e3:.4g} kPa at the duty flow), lowest "
+             f"source level{pumps}", high, duty, pipes=fouled)  # fmt: skip
     if model.pump.speed_range:
         slow, fast = model.pump.speed_range
         case(

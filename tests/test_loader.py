@@ -579,10 +579,10 @@ BAD: list[Bad] = [
         "temperature = [",
     ),
     Bad(
-        "envelope-aged-pipe-not-available",
+        "envelope-aged-pipe-needs-a-value",
         variant(("efficiency = 0.71\n", 'efficiency = 0.71\n\n[envelope]\nroughness = "aged"\n')),
         "envelope.roughness",
-        "not available in this version",
+        "as a length",
         'roughness = "aged"',
     ),
     Bad(

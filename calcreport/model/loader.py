@@ -85,7 +85,6 @@ _TOP_KEYS = {
     "surge",
 }
 _ENVELOPE_KEYS = {"temperature", "flow_required", "roughness", "strainer_dirty_dp"}
-_PLANNED_ENVELOPE_KEYS = ("roughness", "strainer_dirty_dp")
 _REPORT_KEYS = {"purpose", "exclusions", "cautions"}
 _REVISION_KEYS = {"revision", "date", "description", "prepared_by", "checked_by"}
 _PROJECT_KEYS = {
@@ -496,9 +495,20 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
                 "pump.curve.efficiency",
                 "Variable-speed energy needs the pump efficiency: give the curve's efficiency.",
             )
+    if envelope.strainer_dirty_dp and pipes and not any(p.side == "suction" for p in pipes):
+        r.problem(
+            "envelope.strainer_dirty_dp",
+            "A dirty-strainer case needs a suction pipe to hold the strainer.",
+        )
     components = _components(r, data.get("component"), pipes)
     surge = _surge(r, data)
     friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
+    if envelope.roughness and friction_method == "hazen_williams":
+        r.problem(
+            "envelope.roughness",
+            "An aged-pipe case changes the roughness, which the Hazen-Williams method does "
+            'not use; use friction_method = "darcy_weisbach".',
+        )
     if friction_method == "hazen_williams":
         if fluid is not None and fluid.kind != "water":
             r.problem(
@@ -555,13 +565,17 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
 def _envelope(r: _Reader, data: dict[str, Any], fluid: Fluid | None) -> Envelope:
     """Ranges the operating cases are built from: liquid temperature and required flow."""
     r.known_keys(data, "envelope", _ENVELOPE_KEYS)
-    for key in _PLANNED_ENVELOPE_KEYS:
-        if key in data:
-            r.problem(
-                f"envelope.{key}",
-                f"The key envelope.{key} (aged pipe and dirty "
-                "strainer cases) is not available in this version.",
-            )
+    roughness = None
+    if isinstance(data.get("roughness"), str) and data["roughness"].strip() == "aged":
+        r.problem(
+            "envelope.roughness",
+            'Give the aged roughness as a length, such as "0.5 mm", on the project\'s '
+            "stated basis: the catalog holds new-pipe roughness only, with no published "
+            "ageing rate to apply.",
+        )
+    else:
+        roughness = r.quantity(data, "roughness", "envelope", "roughness", positive=True)
+    dirty = r.quantity(data, "strainer_dirty_dp", "envelope", "pressure", positive=True)
     temperatures = _quantity_list(r, data, "temperature", "envelope", "temperature") or ()
     if temperatures and len(temperatures) != 2:
         r.problem(
@@ -588,7 +602,12 @@ def _envelope(r: _Reader, data: dict[str, Any], fluid: Fluid | None) -> Envelope
     if any(q.value <= 0.0 for q in flows):
         r.problem("envelope.flow_required", "Every required flow must be greater than zero.")
         flows = ()
-    return Envelope(temperatures=tuple(temperatures), flows=tuple(flows))
+    return Envelope(
+        temperatures=tuple(temperatures),
+        flows=tuple(flows),
+        roughness=roughness,
+        strainer_dirty_dp=dirty,
+    )
 
 
 def _numbers(cells: list[str]) -> list[Any]:

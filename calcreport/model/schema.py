@@ -199,6 +199,8 @@ class Envelope:
 
     temperatures: tuple[Given, ...] = ()
     flows: tuple[Given, ...] = ()
+    roughness: Given | None = None  # aged-pipe case: absolute roughness of aged pipe
+    strainer_dirty_dp: Given | None = None  # dirty-strainer case: its loss at the duty flow
 
 
 @dataclass(frozen=True)
