@@ -142,8 +142,8 @@ def solve(model: Model) -> Trace:
             )
         case_model = replace(model, pipes=case.pipes) if case.pipes else model
         case_curve = curve
-        if case.speed is not None:
-            case_curve = _pump_curve(b, model, case.speed, f"{case.id}.")
+        if case.speed is not None and curve is not None:
+            case_curve = _pump_curve(b, model, case.speed, f"{case.id}.", curve.efficiency)
             curves_by_speed[case.speed.value] = case_curve
         result = _solve_case(
             b, case_model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
@@ -405,13 +405,22 @@ class CurvePoints:
 
 
 def _pump_curve(
-    b: TraceBuilder, model: Model, speed: Given | None = None, prefix: str = ""
+    b: TraceBuilder,
+    model: Model,
+    speed: Given | None = None,
+    prefix: str = "",
+    efficiency: list[Given] | None = None,
 ) -> CurvePoints | None:
-    """The curve points at ``speed`` (default the operating speed), moved by affinity."""
+    """The curve points at ``speed`` (default the operating speed), moved by affinity.
+
+    ``efficiency`` is that of the base curve when already found (from a power curve).
+    """
     curve = model.pump.curve
     if curve is None:
         return None
     flow, head, npsh = list(curve.flow), list(curve.head), list(curve.npsh_required)
+    if efficiency is None:
+        efficiency = list(curve.efficiency) or _efficiency_from_power(b, model)
     n = speed or model.pump.speed
     if n is not None and curve.speed is not None and n.value != curve.speed.value:
         b.assume(
@@ -434,7 +443,32 @@ def _pump_curve(
         flow = scaled(flow, "flow", "flow", pump.affinity_flow, "Q0")
         head = scaled(head, "head", "head", pump.affinity_head, "H0")
         npsh = scaled(npsh, "npsh_required", "NPSHr", pump.affinity_head, "H0")
-    return CurvePoints(flow, head, list(curve.efficiency), npsh)
+    return CurvePoints(flow, head, efficiency, npsh)
+
+
+def _efficiency_from_power(b: TraceBuilder, model: Model) -> list[Given]:
+    """Efficiency of each curve point from its shaft power (none without a power curve)."""
+    curve = model.pump.curve
+    if curve is None or not curve.power:
+        return []
+    rho = b.assume(
+        "The curve's power points are for water of specific gravity 1.0 (1000 kg/m³), as "
+        "pump curves are commonly drawn; the efficiency follows from them.",
+        1000.0,
+        "kg/m^3",
+    )
+    return [
+        b.step(
+            f"pump.curve_efficiency[{i}]",
+            f"Pump efficiency at curve point {i} (from its power)",
+            pump.efficiency_from_power,
+            rho=rho,
+            Q=q,
+            H=h,
+            P=p,
+        )
+        for i, (q, h, p) in enumerate(zip(curve.flow, curve.head, curve.power, strict=True), 1)
+    ]
 
 
 def _solve_case(
@@ -1736,19 +1770,18 @@ def _profile_efficiency(
     b: TraceBuilder, model: Model, point: Case, curve: CurvePoints, Q: Given, base: bool = False
 ) -> Given:
     """Pump efficiency at a profile flow from the curve (unchanged at corresponding points)."""
-    source = model.pump.curve if base else curve
-    assert source is not None
-    if not source.efficiency:
+    if not curve.efficiency:
         assert model.pump.efficiency is not None
         return model.pump.efficiency
+    assert model.pump.curve is not None
     return b.step(
         point.sid("pump.efficiency"),
         "Pump efficiency at the profile point",
         pump.efficiency_at,
         point.id,
         Q=Q,
-        flow=list(source.flow),
-        efficiency=list(source.efficiency),
+        flow=list(model.pump.curve.flow) if base else curve.flow,
+        efficiency=curve.efficiency,
     )
 
 

@@ -53,3 +53,39 @@ def test_aged_needs_a_stated_value():
         loads((CASE + '[envelope]\nroughness = "aged"\n').encode())
     problem = err.value.problems[0]
     assert problem.key == "envelope.roughness" and "as a length" in problem.message
+
+
+def test_power_curve_gives_the_efficiency_of_the_efficiency_curve():
+    # The section-11 pump given by its shaft power at SG 1.0 instead of its efficiency:
+    # P_i = 1000 g Q_i H_i / eta_i (5 kW at shutoff). The operating point is unchanged
+    # (CHECK-VALUES.md section 11 [V]: eta 0.7772, brake power 10 514.1 W).
+    qs = [i * 0.5 for i in range(81)]
+    heads = [42 + 0.2 * q - 0.02 * q * q for q in qs]
+    effs = [0.78 * (1 - ((q - 22) / 22) ** 2) for q in qs]
+    powers = [
+        1000 * G * q * 1e-3 * h / e if q > 0 and e > 0 else 5000.0
+        for q, h, e in zip(qs, heads, effs, strict=True)
+    ]
+    keep = [i for i, (q, e) in enumerate(zip(qs, effs, strict=True)) if q == 0 or e > 0]
+    curve = (
+        "\n[pump.curve]\n"
+        f'flow = {{ unit = "L/s", values = {[qs[i] for i in keep]} }}\n'
+        f'head = {{ unit = "m", values = {[heads[i] for i in keep]} }}\n'
+        f'power = {{ unit = "W", values = {[powers[i] for i in keep]} }}\n'
+    )
+    t = solve(loads((CASE.replace("efficiency = 0.78\n", "") + curve).encode()))
+    op = t.results["operating_point"]
+    assert op["efficiency"]["value"] == pytest.approx(0.7772, rel=2e-4)
+    assert t.results["shaft_power"]["value"] == pytest.approx(10514.1, rel=2e-4)
+    assert t.step("pump.curve_efficiency[2]").function == "pump.efficiency_from_power"
+    assert any("specific gravity 1.0" in a["text"] for a in t.assumptions)
+
+
+def test_power_and_efficiency_together_are_refused():
+    text = CASE.replace("efficiency = 0.78\n", "") + (
+        '\n[pump.curve]\nflow = ["0 L/s", "10 L/s", "20 L/s"]\nhead = ["40 m", "38 m", "33 m"]\n'
+        'efficiency = [0.0, 0.6, 0.75]\npower = ["3 kW", "6 kW", "8.6 kW"]\n'
+    )
+    with pytest.raises(InputError) as err:
+        loads(text.encode())
+    assert "pump.curve.power" in {p.key for p in err.value.problems}

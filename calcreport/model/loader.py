@@ -163,8 +163,8 @@ _PUMP_KEYS = {
     "pressure_rating",
     *_PROVENANCE_KEYS,
 }
-_CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required", "file"}
-_CURVE_COLUMNS = ("flow", "head", "efficiency", "npsh_required")
+_CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required", "power", "file"}
+_CURVE_COLUMNS = ("flow", "head", "efficiency", "npsh_required", "power")
 MAX_CSV_BYTES = 200_000
 MIN_CURVE_POINTS = 3
 # Bounds on what one input may hold: far beyond any real system, small enough that a
@@ -490,7 +490,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
                 "Variable-speed control scales the curve by the affinity laws: give the "
                 "speed of the curve data.",
             )
-        if not pump.curve.efficiency and pump.efficiency is None:
+        if not (pump.curve.efficiency or pump.curve.power) and pump.efficiency is None:
             r.problem(
                 "pump.curve.efficiency",
                 "Variable-speed energy needs the pump efficiency: give the curve's efficiency.",
@@ -662,6 +662,12 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
                     "A speed range moves the pump curve: give [pump.curve] with its speed.",
                 )
     basis = r.text(data, "efficiency_basis", "pump", "pump", EFFICIENCY_BASES)
+    if basis == "overall" and curve and curve.power:
+        r.problem(
+            "pump.efficiency_basis",
+            "A power curve gives the shaft power, so its efficiency is the pump's own: "
+            'use efficiency_basis = "pump" (the default).',
+        )
     count = _whole(r, data, "count", 1, MAX_PUMPS)
     standby = _whole(r, data, "standby", 0, MAX_PUMPS - 1)
     arrangement = r.text(data, "arrangement", "pump", "parallel", ARRANGEMENTS)
@@ -866,6 +872,18 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
     head = _quantity_list(r, data, "head", path, "length")
     efficiency = _quantity_list(r, data, "efficiency", path, "dimensionless")
     npsh = _quantity_list(r, data, "npsh_required", path, "length")
+    power = _quantity_list(r, data, "power", path, "power")
+    if power is not None and efficiency is not None:
+        r.problem(
+            f"{path}.power",
+            "Give the curve's efficiency or its power, not both: the efficiency follows "
+            "from the power.",
+        )
+    if power is not None and any(p.value <= 0.0 for p in power):
+        r.problem(
+            f"{path}.power",
+            "Every power point must be greater than zero (a pump takes power at shutoff too).",
+        )
     for key, value in (("flow", flow), ("head", head)):
         if value is None and key not in data:
             r.problem(f"{path}.{key}", f"The pump curve needs {key} points.")
@@ -881,7 +899,12 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
         r.problem(
             f"{path}.flow", f"A pump curve needs at least {MIN_CURVE_POINTS} points; got {count}."
         )
-    for key, series in (("head", head), ("efficiency", efficiency), ("npsh_required", npsh)):
+    for key, series in (
+        ("head", head),
+        ("efficiency", efficiency),
+        ("npsh_required", npsh),
+        ("power", power),
+    ):
         if series is not None and len(series) != count:
             r.problem(
                 f"{path}.{key}",
@@ -901,7 +924,12 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
     if npsh is not None and any(n.value <= 0.0 for n in npsh):
         r.problem(f"{path}.npsh_required", "Every NPSH required must be greater than zero.")
     return PumpCurve(
-        speed=speed, flow=flow, head=head, efficiency=efficiency or (), npsh_required=npsh or ()
+        speed=speed,
+        flow=flow,
+        head=head,
+        efficiency=efficiency or (),
+        npsh_required=npsh or (),
+        power=power or (),
     )
 
 

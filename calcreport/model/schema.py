@@ -153,6 +153,7 @@ class PumpCurve:
     head: tuple[Given, ...]
     efficiency: tuple[Given, ...] = ()
     npsh_required: tuple[Given, ...] = ()
+    power: tuple[Given, ...] = ()  # shaft power points, as vendors print them (SG 1.0)
 
 
 @dataclass(frozen=True)

@@ -27,6 +27,7 @@ import numpy as np
 
 from calcreport.errors import ConvergenceError
 from calcreport.physics.equation import equation
+from calcreport.physics.losses import G
 
 __all__ = [
     "affinity_flow",
@@ -34,6 +35,7 @@ __all__ = [
     "best_efficiency_point",
     "curve_max_head",
     "efficiency_at",
+    "efficiency_from_power",
     "head_at",
     "head_balance",
     "lift_speed",
@@ -922,3 +924,44 @@ def throttling_loss(H_pump: Any, H_system: Any) -> Any:
        (throttle control: the valve adds resistance until the curves meet).
     """
     return H_pump - H_system
+
+
+@equation(
+    symbol="η",
+    text="η = ρ·g·Q·H/P",
+    latex=r"\eta = \frac{\rho g Q H}{P}",
+    substitute="{rho} × 9.80665 m/s² × {Q} × {H} / {P}",
+    reference="karassik_2008",
+)
+def efficiency_from_power(rho: Any, Q: Any, H: Any, P: Any) -> Any:
+    r"""Pump efficiency at a curve point from the shaft power printed for it.
+
+    .. math:: \eta = \frac{\rho g Q H}{P}
+
+    Parameters
+    ----------
+    rho : float
+        Density of the liquid the power curve is drawn for [kg/m^3]
+    Q : float
+        Flow of the curve point [m^3/s]
+    H : float
+        Head of the curve point [m]
+    P : float
+        Shaft power of the curve point [W]
+
+    Returns
+    -------
+    eta : float
+        Pump efficiency at the point [-]
+
+    Examples
+    --------
+    >>> round(efficiency_from_power(1000.0, 0.02, 40.0, 10000.0), 4)
+    0.7845
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (pump efficiency as hydraulic over shaft power).
+    """
+    return rho * G * Q * H / P
