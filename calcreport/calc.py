@@ -29,6 +29,7 @@ from calcreport.physics import (
     friction,
     glycol,
     head,
+    intake,
     losses,
     motor,
     power,
@@ -491,6 +492,9 @@ def _solve_case(
             case = replace(case, flow=operating)
     h = _hydraulics(b, model, case, liquid, surfaces)
     results = _results(h, liquid, surfaces[0], model, case.flow)
+    submergence = _intake(b, model, case, h)
+    if submergence:
+        results["intake"] = submergence
     results["profile"] = safety.profile(model, case, liquid, h, surfaces[1], surfaces[2])
     states[case.id] = safety.State(case, liquid, surfaces, h, results["profile"])
     eta_pump = model.pump.efficiency
@@ -531,6 +535,41 @@ def _solve_case(
             ),
         }
     return results
+
+
+def _intake(b: TraceBuilder, model: Model, case: Case, h: dict[str, Any]) -> dict[str, Any] | None:
+    """Submergence of the suction inlet at the lowest level against ANSI/HI 9.8's minimum."""
+    first = model.pipes[0]
+    if first.side != "suction" or first.elevation_start is None:
+        return None
+    D = model.source.intake_diameter or first.inner_diameter
+    v = h["pipes"][first.id]["velocity"]
+    if model.source.intake_diameter is not None:
+        v = b.step(
+            case.sid("intake.velocity"),
+            "Velocity at the intake bell",
+            losses.velocity,
+            case.id,
+            Q=case.flow,
+            D=D,
+        )
+    S = b.step(
+        case.sid("intake.submergence"),
+        f"Submergence of the {first.id} inlet at the lowest source level",
+        intake.submergence,
+        case.id,
+        z_l=case.npsh_level,
+        z_i=first.elevation_start,
+    )
+    S_min = b.step(
+        case.sid("intake.minimum_submergence"),
+        "Minimum submergence against surface vortices",
+        intake.minimum_submergence,
+        case.id,
+        v=v,
+        D=D,
+    )
+    return {"submergence": _q(S), "minimum_submergence": _q(S_min)}
 
 
 def _system_curve(

@@ -33,6 +33,8 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
     found.append(_npsh_positive(results, case))
     if "route" in results:
         found.append(_min_pressure(model, results["route"], case))
+    if "intake" in results:
+        found.append(_submergence(results["intake"], case))
     if model.pump.curve is None:
         found.append(_npsh_open_item(results, case))
         return found
@@ -566,4 +568,26 @@ def _surge(result: dict[str, Any]) -> Check:
         reference="wylie_streeter_1993",
         case=result.get("case", "all"),
         message=verdict,
+    )
+
+
+def _submergence(intake: dict[str, Any], case: str) -> Check:
+    """Submergence of the inlet at the lowest level: the standard's minimum, for review."""
+    S, S_min = intake["submergence"]["value"], intake["minimum_submergence"]["value"]
+    ok = S >= S_min
+    return Check(
+        id="submergence",
+        title="Submergence of the suction inlet",
+        status="pass" if ok else "review",
+        value=S,
+        unit="m",
+        limit=S_min,
+        comparison=">=",
+        basis="Minimum submergence S = D(1 + 2.3 F_D) against air-entraining surface "
+        "vortices at the lowest level (a recommendation for intakes laid out to the standard; "
+        "a model study may justify less)",
+        reference="hi_intake",
+        case=case,
+        message="" if ok else f"{S:.3g} m of submergence is less than {S_min:.3g} m",
+        margin=S - S_min,
     )

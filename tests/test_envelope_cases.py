@@ -89,3 +89,29 @@ def test_power_and_efficiency_together_are_refused():
     with pytest.raises(InputError) as err:
         loads(text.encode())
     assert "pump.curve.power" in {p.key for p in err.value.problems}
+
+
+def test_submergence_against_hi_9_8():
+    # ANSI/HI 9.8-1998 eq. 9.8-1: S = D(1 + 2.3 F_D), F_D = v / sqrt(g D), at the inlet.
+    # Inlet 1.6 m below the source level (level 2.0 m, inlet at 0.4 m), 20 L/s.
+    text = CASE.replace(
+        'fittings = [{ K = 0.5, note = "entrance" }',
+        'elevation_start = "0.4 m"\nelevation_end = "0 m"\n'
+        'fittings = [{ K = 0.5, note = "entrance" }',
+    )
+    r = solve(loads(text.encode())).results
+    D = 0.154051
+    v = 0.020 / (3.141592653589793 * D * D / 4)
+    assert r["intake"]["submergence"]["value"] == pytest.approx(1.6)
+    assert r["intake"]["minimum_submergence"]["value"] == pytest.approx(
+        D * (1 + 2.3 * v / (G * D) ** 0.5), rel=1e-12
+    )
+    # A bell of 0.30 m lowers the velocity but raises D; 0.2 m of submergence is too little.
+    shallow = text.replace('level = "2.0 m"', 'level = "0.6 m"').replace(
+        "[source]\n", '[source]\nintake_diameter = "300 mm"\n'
+    )
+    t = solve(loads(shallow.encode()))
+    check = next(c for c in t.checks if c.id == "submergence")
+    vb = 0.020 / (3.141592653589793 * 0.3**2 / 4)
+    assert check.limit == pytest.approx(0.3 * (1 + 2.3 * vb / (G * 0.3) ** 0.5), rel=1e-12)
+    assert check.status == "review" and check.value == pytest.approx(0.2)

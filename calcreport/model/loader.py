@@ -1071,7 +1071,7 @@ def _flow_range(r: _Reader, duty: dict[str, Any], flow: Given | None) -> tuple[G
 def _vessel(r: _Reader, data: dict[str, Any] | None, role: str) -> Vessel | None:
     if data is None:
         return None
-    allowed = _DESTINATION_KEYS if role == "destination" else _VESSEL_KEYS
+    allowed = _DESTINATION_KEYS if role == "destination" else _VESSEL_KEYS | {"intake_diameter"}
     r.known_keys(data, role, allowed)
     level = r.quantity(data, "level", role, "length", required=True)
     low = r.quantity(data, "level_low", role, "length")
@@ -1098,9 +1098,11 @@ def _vessel(r: _Reader, data: dict[str, Any] | None, role: str) -> Vessel | None
         r.problem(
             f"{role}.outlet_elevation", 'The key outlet_elevation applies only to inlet = "free".'
         )
+    intake = r.quantity(data, "intake_diameter", role, "diameter", positive=True)
     if level is None:
         return None
     return Vessel(
+        intake_diameter=intake,
         role=role,
         level=level,
         level_low=low,

@@ -83,6 +83,7 @@ class Vessel:
     saturation: bool = False
     inlet: str = "submerged"  # destination only: submerged | free
     outlet_elevation: Given | None = None
+    intake_diameter: Given | None = None  # source only: inlet (bell) diameter, submergence
 
 
 @dataclass(frozen=True)

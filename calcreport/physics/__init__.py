@@ -10,6 +10,7 @@ friction    Reynolds number, flow regime, Darcy friction factor
 losses      velocity, Darcy-Weisbach, minor and equipment losses
 head        static, pressure and total dynamic head; NPSH available
 power       hydraulic, shaft and electrical power; energy and cost
+intake      submergence of the pump intake (ANSI/HI 9.8)
 pump        pump curves, affinity laws, operating point, NPSH margin
 route       pressure along the route: grade lines, maximum pressure
 surge       surge screening: Korteweg wave speed, Joukowsky head rise

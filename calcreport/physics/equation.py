@@ -163,6 +163,7 @@ def _import_all() -> None:
         friction,
         glycol,
         head,
+        intake,
         losses,
         motor,
         power,
