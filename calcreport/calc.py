@@ -30,6 +30,7 @@ from calcreport.physics import (
     glycol,
     head,
     intake,
+    liquids,
     losses,
     motor,
     power,
@@ -1022,13 +1023,19 @@ def _liquid(
         assert fluid.density and fluid.viscosity and fluid.vapor_pressure
         return Liquid(fluid.density, fluid.viscosity, fluid.vapor_pressure)
     T = T or fluid.temperature
-    if fluid.kind != "water":
+    if fluid.kind in glycol.CODE:
         return _glycol(b, model, T, prefix)
     at = f" at {T.value - 273.15:.4g} °C" if prefix else ""
+    if fluid.kind == "seawater":
+        return _seawater(b, model, T, prefix, at)
+    name = fluid.kind.replace("_", "-")
+    pure = fluid.kind in liquids.PURE
     p_v = b.step(
         f"{prefix}fluid.vapor_pressure",
-        f"Vapour pressure of water{at}",
-        water.saturation_pressure,
+        f"Vapour pressure of {name}{at}",
+        liquids.property_function(fluid.kind, "vapor_pressure")
+        if pure
+        else water.saturation_pressure,
         T=T,
     )
     if model.source.saturation:
@@ -1042,14 +1049,67 @@ def _liquid(
             p_baro=p_baro,
             p_g=model.source.pressure,
         )
-    rho = b.step(f"{prefix}fluid.density", f"Density of water{at}", water.density, T=T, p=p)
-    mu = b.step(
-        f"{prefix}fluid.viscosity", f"Dynamic viscosity of water{at}", water.viscosity, T=T, rho=rho
-    )
+    if pure:
+        rho = b.step(
+            f"{prefix}fluid.density",
+            f"Density of {name}{at}",
+            liquids.property_function(fluid.kind, "density"),
+            T=T,
+            p=p,
+        )
+        mu = b.step(
+            f"{prefix}fluid.viscosity",
+            f"Dynamic viscosity of {name}{at}",
+            liquids.property_function(fluid.kind, "viscosity"),
+            T=T,
+            p=p,
+        )
+    else:
+        rho = b.step(f"{prefix}fluid.density", f"Density of water{at}", water.density, T=T, p=p)
+        mu = b.step(
+            f"{prefix}fluid.viscosity",
+            f"Dynamic viscosity of water{at}",
+            water.viscosity,
+            T=T,
+            rho=rho,
+        )
     if not prefix:
         b.assume(
             "Liquid properties are those at the source surface pressure and the stated "
             "temperature throughout the system."
+        )
+    return Liquid(rho, mu, p_v)
+
+
+def _seawater(b: TraceBuilder, model: Model, T: Given, prefix: str, at: str) -> Liquid:
+    """Seawater: CoolProp's fit of the seawater review; vapour pressure that of pure water."""
+    w = model.fluid.mass_fraction
+    assert w is not None
+    p_v = b.step(
+        f"{prefix}fluid.vapor_pressure",
+        f"Vapour pressure (that of pure water){at}",
+        water.saturation_pressure,
+        T=T,
+    )
+    rho = b.step(
+        f"{prefix}fluid.density",
+        f"Density of seawater{at}",
+        liquids.property_function("seawater", "density"),
+        T=T,
+        w=w,
+    )
+    mu = b.step(
+        f"{prefix}fluid.viscosity",
+        f"Dynamic viscosity of seawater{at}",
+        liquids.property_function("seawater", "viscosity"),
+        T=T,
+        w=w,
+    )
+    if not prefix:
+        b.assume(
+            "Seawater's vapour pressure is taken as pure water's at the same temperature "
+            "(dissolved salt lowers it by about 2 %: the NPSH available is slightly "
+            "understated); its properties are those at atmospheric pressure."
         )
     return Liquid(rho, mu, p_v)
 

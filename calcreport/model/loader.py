@@ -51,7 +51,18 @@ __all__ = ["load", "loads"]
 
 FORMAT = 1
 GLYCOLS = ("ethylene_glycol", "propylene_glycol")
-FLUID_KINDS = ("water", *GLYCOLS, "custom")
+# Other liquids from CoolProp (calcreport.physics.liquids), with their lowest and highest
+# temperatures: the formulation's lower limit (about the triple point) and a service limit.
+LIQUID_RANGES = {
+    "methanol": (176.0, 423.15),
+    "ethanol": (160.0, 423.15),
+    "toluene": (179.0, 423.15),
+    "benzene": (279.0, 423.15),
+    "n_hexane": (178.0, 423.15),
+    "n_heptane": (183.0, 423.15),
+    "seawater": (273.15, 393.15),
+}
+FLUID_KINDS = ("water", *GLYCOLS, *LIQUID_RANGES, "custom")
 # Glycol solutions: the property fits' range, kept inside liquid and unfrozen service.
 GLYCOL_T_MIN = 253.15
 GLYCOL_T_MAX = 373.15
@@ -590,9 +601,20 @@ def _envelope(r: _Reader, data: dict[str, Any], fluid: Fluid | None) -> Envelope
     if temperatures and fluid is not None and fluid.kind == "custom":
         r.problem(
             "envelope.temperature",
-            "A custom liquid has fixed properties; a temperature range needs water.",
+            "A custom liquid has fixed properties; a temperature range needs a liquid "
+            "whose properties are computed (water, a glycol or a catalog liquid).",
         )
         temperatures = ()
+    if temperatures and fluid is not None and fluid.kind in LIQUID_RANGES:
+        low, high = LIQUID_RANGES[fluid.kind]
+        for t in temperatures:
+            if not low <= t.value <= high:
+                r.problem(
+                    t.key,
+                    f"This liquid is computed from {low - 273.15:.4g} degC to "
+                    f"{high - 273.15:.4g} degC.",
+                )
+                temperatures = ()
     if temperatures and fluid is not None and fluid.kind == "water":
         for t in temperatures:
             if not WATER_T_MIN <= t.value <= WATER_T_MAX:
@@ -1002,7 +1024,28 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
                     f'give fluid.{key} only with kind = "custom".',
                 )
     fraction = None
-    if kind in GLYCOLS:
+    if kind in LIQUID_RANGES and temperature:
+        low, high = LIQUID_RANGES[kind]
+        if not low <= temperature.value <= high:
+            r.problem(
+                "fluid.temperature",
+                f"{kind.replace('_', '-').capitalize()} is computed from {low - 273.15:.4g} degC "
+                f"to {high - 273.15:.4g} degC; got {as_written(data['temperature'])}.",
+            )
+    if kind == "seawater":
+        fraction = r.quantity(
+            data, "mass_fraction", "fluid", "dimensionless", required=True, positive=True
+        )
+        if fraction and fraction.value > 0.12:
+            r.problem(
+                "fluid.mass_fraction",
+                "The salinity (mass fraction) must be at most 0.12, the range of the "
+                "seawater fit; ocean water is about 0.035.",
+            )
+            fraction = None
+        if fraction is None:
+            return None
+    elif kind in GLYCOLS:
         fraction = r.quantity(
             data, "mass_fraction", "fluid", "dimensionless", required=True, positive=True
         )
@@ -1022,7 +1065,8 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
     elif "mass_fraction" in data:
         r.problem(
             "fluid.mass_fraction",
-            'The key mass_fraction applies to kind = "ethylene_glycol" or "propylene_glycol".',
+            'The key mass_fraction applies to kind = "ethylene_glycol", "propylene_glycol" '
+            'or "seawater".',
         )
     bulk_modulus = r.quantity(data, "bulk_modulus", "fluid", "modulus", positive=True)
     if temperature is None or (kind in GLYCOLS and fraction is None):
@@ -1639,6 +1683,12 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
             fluid.mass_fraction.value,
             glycol.MOLAR_MASS[glycol.CODE[fluid.kind]],
         )
+    elif fluid.kind == "seawater":
+        p_v = water.saturation_pressure(fluid.temperature.value)
+    elif fluid.kind in LIQUID_RANGES:
+        from calcreport.physics import liquids
+
+        p_v = liquids.property_function(fluid.kind, "vapor_pressure")(fluid.temperature.value)
     else:
         assert fluid.vapor_pressure is not None
         p_v = fluid.vapor_pressure.value

@@ -164,6 +164,7 @@ def _import_all() -> None:
         glycol,
         head,
         intake,
+        liquids,
         losses,
         motor,
         power,
