@@ -1212,9 +1212,17 @@ def _diameter_change_k(ev: Any, case: Case, pipe: Pipe, ft: Fitting, index: int)
 
 
 def _catalog_k(
-    ev: Any, case: Case, pipe: Pipe, kind: str, label: str, index: int, Re: Given
+    ev: Any,
+    case: Case,
+    pipe: Pipe,
+    kind: str,
+    label: str,
+    index: int,
+    Re: Given,
+    method: str = "two_k",
 ) -> Given:
-    """K of a named fitting: a catalogue constant, or Hooper's two-K at the pipe's Re."""
+    """K of a named fitting: a catalogue constant, or the project's method (Hooper's
+    two-K or Darby's three-K) at the pipe's Re and size."""
     entry = catalog.fittings()[kind]
     base = f"catalog.fittings.{kind}"
     if entry["method"] == "constant":
@@ -1226,6 +1234,20 @@ def _catalog_k(
             fittings.crane_k,
             case.id,
             n=ev.datum(f"{base}.n", entry["n"], ""),
+            D=pipe.inner_diameter,
+        )
+    three = catalog.fittings_three_k()
+    if method == "three_k" and kind in three:  # the loader refused kinds it lacks
+        base = f"catalog.fittings_darby_3k.{kind}"
+        return ev.step(
+            case.sid(f"pipe.{pipe.id}.fitting[{index}].K"),
+            f"Coefficient of {label} in {pipe.id} (three-K method)",
+            fittings.three_k,
+            case.id,
+            K1=ev.datum(f"{base}.K1", three[kind]["K1"], ""),
+            Ki=ev.datum(f"{base}.Ki", three[kind]["Ki"], ""),
+            Kd=ev.datum(f"{base}.Kd", three[kind]["Kd"], ""),
+            Re=Re,
             D=pipe.inner_diameter,
         )
     return ev.step(
@@ -1248,6 +1270,7 @@ def _pipe(
     liquid: Liquid,
     method: str = "darcy_weisbach",
     water_liquid: bool = True,
+    fittings_method: str = "two_k",
 ) -> dict[str, Given]:
     sid = case.sid
     name = f"pipe.{pipe.id}"
@@ -1337,7 +1360,9 @@ def _pipe(
         elif ft.other_diameter is not None:
             coefficients.append(_diameter_change_k(ev, case, pipe, ft, i))
         elif ft.kind:
-            coefficients.append(_catalog_k(ev, case, pipe, ft.kind, ft.label, i, Re))
+            coefficients.append(
+                _catalog_k(ev, case, pipe, ft.kind, ft.label, i, Re, fittings_method)
+            )
         else:
             continue
         counts.append(ft.count)
@@ -1411,7 +1436,9 @@ def _hydraulics(
     sid = case.sid
     water_liquid = model.fluid.kind == "water"
     pipes = {
-        p.id: _pipe(ev, case, p, Q, liquid, model.friction_method, water_liquid)
+        p.id: _pipe(
+            ev, case, p, Q, liquid, model.friction_method, water_liquid, model.fittings_method
+        )
         for p in model.pipes
     }
     out: dict[str, Any] = {"pipes": pipes}

@@ -6,6 +6,7 @@
 ``fittings_hooper_2k.csv``     two-K coefficients of fittings (Hooper 1981)
 ``fittings_entrance_exit.csv`` entrance and exit coefficients (Crane TP-410)
 ``fittings_crane_ft.csv``      fittings as multiples of f_T (Crane TP-410)
+``fittings_darby_3k.csv``      three-K coefficients of fittings (Darby 1999), by choice
 ``hazen_williams_c.csv``       Hazen-Williams C by material (typical values)
 ``pipe_elastic_modulus.csv``   wall modulus and Poisson's ratio by material (surge)
 """
@@ -23,6 +24,7 @@ __all__ = [
     "elastic_moduli",
     "fingerprint",
     "fittings",
+    "fittings_three_k",
     "hazen_williams_c",
     "motor_ratings",
     "references",
@@ -130,4 +132,21 @@ def elastic_moduli() -> dict[str, dict[str, Any]]:
             "source": row["source"],
         }
         for row in _rows("pipe_elastic_modulus.csv")
+    }
+
+
+@cache
+def fittings_three_k() -> dict[str, dict[str, Any]]:
+    """Fittings with Darby's three-K constants: ``{"kind": {"K1", "Ki", "Kd", ...}}``."""
+    return {
+        row["kind"]: {
+            "method": "darby_3k",
+            "K1": float(row["K1"]),
+            "Ki": float(row["Ki"]),
+            "Kd": float(row["Kd"]),
+            "description": row["description"],
+            "source": row["source"],
+            "reference": "darby_1999",
+        }
+        for row in _rows("fittings_darby_3k.csv")
     }

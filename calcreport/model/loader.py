@@ -94,6 +94,7 @@ _TOP_KEYS = {
     "friction_method",
     "component",
     "surge",
+    "fittings_method",
 }
 _ENVELOPE_KEYS = {"temperature", "flow_required", "roughness", "strainer_dirty_dp"}
 _REPORT_KEYS = {"purpose", "exclusions", "cautions"}
@@ -144,6 +145,7 @@ _COMPONENT_KEYS = {"id", "at", "pressure_rating", "note"}
 SURGE_EVENTS = ("pump_trip", "valve_closure")
 _SURGE_KEYS = {"event", "closure_time"}
 FRICTION_METHODS = ("darcy_weisbach", "hazen_williams")
+FITTINGS_METHODS = ("two_k", "three_k")
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle"}
 # Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
 DIAMETER_CHANGES = ("expander", "reducer")
@@ -514,6 +516,18 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     components = _components(r, data.get("component"), pipes)
     surge = _surge(r, data)
     friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
+    fittings_method = r.text(data, "fittings_method", "", "two_k", FITTINGS_METHODS)
+    if fittings_method == "three_k":
+        three = catalog.fittings_three_k()
+        for pipe in pipes:
+            for ft in pipe.fittings:
+                method = catalog.fittings().get(ft.kind, {}).get("method")
+                if method == "hooper_2k" and ft.kind not in three:
+                    r.problem(
+                        f"{ft.key}.kind",
+                        f'The fitting "{ft.kind}" has no three-K constants in the source; '
+                        'give its K, or use fittings_method = "two_k".',
+                    )
     if envelope.roughness and friction_method == "hazen_williams":
         r.problem(
             "envelope.roughness",
@@ -556,6 +570,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         project=project,
         envelope=envelope,
         friction_method=friction_method,
+        fittings_method=fittings_method,
         fluid=fluid,  # type: ignore[arg-type]
         flow=flow,  # type: ignore[arg-type]
         flow_range=flow_range,

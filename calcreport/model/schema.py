@@ -225,6 +225,7 @@ class Model:
     criteria: Criteria
     envelope: Envelope = field(default_factory=Envelope)
     friction_method: str = "darcy_weisbach"
+    fittings_method: str = "two_k"  # two_k (Hooper) | three_k (Darby), for named fittings
     files: tuple[dict[str, str], ...] = ()  # other files read (curve CSV): path, SHA-256
     components: tuple[Component, ...] = ()
     surge: Surge | None = None  # None: no surge screening asked for

@@ -19,7 +19,7 @@ from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["contraction", "crane_k", "expansion", "refer_to_pipe", "two_k"]
+__all__ = ["contraction", "crane_k", "expansion", "refer_to_pipe", "three_k", "two_k"]
 
 INCH = 0.0254
 
@@ -68,6 +68,56 @@ def two_k(K1: Any, K_inf: Any, Re: Any, D: Any) -> Any:
        fittings", Chemical Engineering, 24 August 1981, 96-100.
     """
     return K1 / Re + K_inf * (1.0 + INCH / D)
+
+
+@equation(
+    symbol="K",
+    text="K = K1/Re + Ki·(1 + Kd/D_in^0.3)",
+    latex=r"K = \frac{K_1}{Re} + K_i\left(1 + \frac{K_d}{D_{in}^{0.3}}\right)",
+    substitute="{K1} / {Re} + {Ki} × (1 + {Kd} / ({D} / 0.0254 m/in)^0.3)",
+    reference="darby_1999",
+)
+def three_k(K1: Any, Ki: Any, Kd: Any, Re: Any, D: Any) -> Any:
+    r"""Resistance coefficient of a fitting by Darby's three-K method.
+
+    .. math:: K = \frac{K_1}{Re} + K_i\left(1 + \frac{K_d}{D_{in}^{0.3}}\right)
+
+    Parameters
+    ----------
+    K1 : float
+        Coefficient of the laminar term [-]
+    Ki : float
+        Coefficient of the turbulent term [-]
+    Kd : float
+        Size coefficient, with the diameter in inches [-]
+    Re : float
+        Reynolds number in the pipe [-]
+    D : float
+        Diameter of the pipe; the method takes it in inches (its nominal
+        size; the inner diameter is used here) [m]
+
+    Returns
+    -------
+    K : float
+        Resistance coefficient, referred to the pipe velocity [-]
+
+    Notes
+    -----
+    Darby fitted the constants to data for all Reynolds numbers and sizes;
+    the inner diameter stands in for the nominal size, which changes K by
+    about 1 % at NPS 2 and less above.
+
+    Examples
+    --------
+    >>> round(three_k(800.0, 0.071, 4.2, 1e5, 4.026 * 0.0254), 4)
+    0.2754
+
+    References
+    ----------
+    1. Darby, R., "Correlate pressure drops through fittings", Chemical
+       Engineering 106 (7), 101-104, July 1999.
+    """
+    return K1 / Re + Ki * (1.0 + Kd / (D / INCH) ** 0.3)
 
 
 @equation(
