@@ -1366,6 +1366,18 @@ def _pipe(
         else:
             continue
         counts.append(ft.count)
+    lift = catalog.check_valve_lift()
+    for i, ft in enumerate(pipe.fittings, start=1):
+        if isinstance(ev, TraceBuilder) and ft.kind in lift and ft.K is None:
+            out["check_valve_min_velocity"] = ev.step(
+                sid(f"{name}.fitting[{i}].full_lift_velocity"),
+                f"Velocity for full disc lift of the {ft.label} in {pipe.id}",
+                fittings.full_lift_velocity,
+                case.id,
+                c=ev.datum(f"catalog.check_valve_full_lift.{ft.kind}.c", lift[ft.kind][0], ""),
+                rho=liquid.density,
+            )
+            break  # one valve of a kind per pipe sets the limit
     K = ev.step(
         sid(f"{name}.k_total"),
         f"Sum of fitting coefficients of {pipe.id}",

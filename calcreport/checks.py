@@ -30,6 +30,8 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
     for pipe in model.pipes:
         found += _velocity(model, results["pipes"][pipe.id], pipe.id, pipe.side, case)
         found.append(_regime(results["pipes"][pipe.id], pipe.id, case))
+        if "check_valve_min_velocity" in results["pipes"][pipe.id]:
+            found.append(_check_valve(results["pipes"][pipe.id], pipe.id, case))
     found.append(_npsh_positive(results, case))
     if "route" in results:
         found.append(_min_pressure(model, results["route"], case))
@@ -58,7 +60,7 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         )
         return found
     if results.get("duty_case", True):
-        found.append(_duty(results, point, case))
+        found.append(_duty(model, results, point, case))
     if "npsh_required" in point:
         found.append(_npsh_margin(model, results, point, case))
     else:
@@ -365,26 +367,35 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], c
     )
 
 
-def _duty(results: dict[str, Any], point: dict[str, Any], case: str) -> Check:
+def _duty(model: Model, results: dict[str, Any], point: dict[str, Any], case: str) -> Check:
     q, required = point["flow"]["value"], results["required_flow"]["value"]
-    ok = q >= required * (1 - 1e-9)
+    margin, _, _, project = _limit(model, "duty_flow_margin")
+    needed = required * (1.0 + margin)
+    ok = q >= needed * (1 - 1e-9)
+    grade = model.pump.provenance.get("acceptance_grade")
+    tolerance = (
+        f"the vendor's test tolerance (ISO 9906 acceptance grade {grade}) is "
+        + ("covered by the margin" if project else "not deducted")
+        if grade
+        else "the vendor's test tolerance (ISO 9906 acceptance grade) is not included"
+    )
+    with_margin = f" plus the project margin of {margin:.3g} (criteria.duty_flow_margin)"
     return Check(
         id="duty_flow",
         title="Operating flow meets the required flow",
         status="pass" if ok else "fail",
         value=q,
         unit="m^3/s",
-        limit=required,
+        limit=needed,
         comparison=">=",
         basis="The operating flow of the selected pump is not below "
-        "the case's required flow (duty.flow, or the peak of envelope.flow_required); "
-        "the vendor's test tolerance (ISO 9906 acceptance grade) is not included",
+        "the case's required flow (duty.flow, or the peak of envelope.flow_required)"
+        + (with_margin if project else "")
+        + f"; {tolerance}",
         reference="input",
         case=case,
-        message=""
-        if ok
-        else f"delivers {q * 1e3:.4g} L/s of the {required * 1e3:.4g} L/s required",
-        margin=q - required,
+        message="" if ok else f"delivers {q * 1e3:.4g} L/s of the {needed * 1e3:.4g} L/s required",
+        margin=q - needed,
     )
 
 
@@ -590,4 +601,28 @@ def _submergence(intake: dict[str, Any], case: str) -> Check:
         case=case,
         message="" if ok else f"{S:.3g} m of submergence is less than {S_min:.3g} m",
         margin=S - S_min,
+    )
+
+
+def _check_valve(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
+    """A swing check valve below its full-lift velocity: its disc floats part-open."""
+    v, v_min = pipe["velocity"]["value"], pipe["check_valve_min_velocity"]["value"]
+    ok = v >= v_min
+    return Check(
+        id=f"check_valve_lift.{pipe_id}",
+        title=f"Swing check valve in {pipe_id} held fully open",
+        status="pass" if ok else "review",
+        value=v,
+        unit="m/s",
+        limit=v_min,
+        comparison=">=",
+        basis="Below its full-lift velocity a swing check valve's disc floats part-open, "
+        "chatters and wears, and its loss exceeds the fully-open K used here (Crane TP-410; "
+        "constant from memory)",
+        reference="crane_tp410",
+        case=case,
+        message=""
+        if ok
+        else f"{v:.3g} m/s is below {v_min:.3g} m/s: size the valve smaller or choose another type",
+        margin=v - v_min,
     )

@@ -115,3 +115,40 @@ def test_submergence_against_hi_9_8():
     vb = 0.020 / (3.141592653589793 * 0.3**2 / 4)
     assert check.limit == pytest.approx(0.3 * (1 + 2.3 * vb / (G * 0.3) ** 0.5), rel=1e-12)
     assert check.status == "review" and check.value == pytest.approx(0.2)
+
+
+def test_swing_check_below_full_lift_velocity_is_flagged():
+    # Crane TP-410: full disc lift of a swing check at v_min = 35 sqrt(v_bar) ft/s, v_bar in
+    # ft^3/lb (constant from memory): 1.351 m/s for water at 20 degC. At 20 L/s the NPS 4
+    # line runs at 2.435 m/s (section 11) and the NPS 6 suction at 1.073 m/s.
+    text = CASE.replace(
+        'fittings = [{ K = 0.5, note = "entrance" }, { K = 0.57 }]',
+        'fittings = [{ K = 0.5, note = "entrance" }, { kind = "swing_check_valve" }]',
+    ).replace("{ K = 3.0, count = 1 }", '{ kind = "swing_check_valve" }')
+    t = solve(loads(text.encode()))
+    rho = t.results["fluid"]["density"]["value"]
+    v_min = 35 * (1 / (rho / 16.0185)) ** 0.5 * 0.3048
+    checks = {c.id: c for c in t.checks}
+    assert checks["check_valve_lift.D1"].status == "pass"
+    low = checks["check_valve_lift.S1"]
+    assert low.status == "review" and low.limit == pytest.approx(v_min, rel=1e-12)
+    assert low.value == pytest.approx(1.07303, rel=1e-4)
+
+
+def test_duty_margin_is_an_explicit_project_criterion():
+    curve = (
+        '\n[pump.curve]\nflow = { unit = "L/s", values = [0, 10, 20, 30, 40] }\n'
+        'head = { unit = "m", values = [42.0, 42.0, 38.0, 30.0, 18.0] }\n'
+    )
+    base = (
+        CASE.replace("efficiency = 0.78\n", 'efficiency = 0.78\nacceptance_grade = "2B"\n') + curve
+    )
+    t = solve(loads(base.encode()))
+    duty = next(c for c in t.checks if c.id == "duty_flow")
+    assert duty.status == "pass" and duty.limit == pytest.approx(0.020)
+    assert "grade 2B" in duty.basis and "not deducted" in duty.basis
+    q = duty.value
+    margin = (q / 0.020 - 1) * 1.5  # a margin the operating point does not cover
+    t = solve(loads((base + f"[criteria]\nduty_flow_margin = {margin}\n").encode()))
+    duty = next(c for c in t.checks if c.id == "duty_flow")
+    assert duty.status == "fail" and duty.limit == pytest.approx(0.020 * (1 + margin))

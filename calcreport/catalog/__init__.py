@@ -9,6 +9,7 @@
 ``fittings_darby_3k.csv``      three-K coefficients of fittings (Darby 1999), by choice
 ``hazen_williams_c.csv``       Hazen-Williams C by material (typical values)
 ``pipe_elastic_modulus.csv``   wall modulus and Poisson's ratio by material (surge)
+``check_valve_full_lift.csv``  check valves: velocity for full disc lift (Crane TP-410)
 """
 
 from __future__ import annotations
@@ -20,6 +21,7 @@ from pathlib import Path
 from typing import Any
 
 __all__ = [
+    "check_valve_lift",
     "criteria",
     "elastic_moduli",
     "fingerprint",
@@ -149,4 +151,12 @@ def fittings_three_k() -> dict[str, dict[str, Any]]:
             "reference": "darby_1999",
         }
         for row in _rows("fittings_darby_3k.csv")
+    }
+
+
+@cache
+def check_valve_lift() -> dict[str, tuple[float, str]]:
+    """Check valve kinds: the constant of their full-lift velocity, with its source."""
+    return {
+        row["kind"]: (float(row["c"]), row["source"]) for row in _rows("check_valve_full_lift.csv")
     }

@@ -153,6 +153,7 @@ EFFICIENCY_BASES = ("pump", "overall")
 ARRANGEMENTS = ("parallel", "series")
 MAX_PUMPS = 12
 _PROVENANCE_KEYS = (
+    "acceptance_grade",
     "manufacturer",
     "model",
     "impeller_diameter",

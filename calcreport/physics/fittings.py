@@ -19,7 +19,15 @@ from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["contraction", "crane_k", "expansion", "refer_to_pipe", "three_k", "two_k"]
+__all__ = [
+    "contraction",
+    "crane_k",
+    "expansion",
+    "full_lift_velocity",
+    "refer_to_pipe",
+    "three_k",
+    "two_k",
+]
 
 INCH = 0.0254
 
@@ -292,3 +300,47 @@ def crane_k(n: Any, D: Any) -> Any:
     """
     f_T = 0.25 / math.log10(4.5e-5 / (3.7 * D)) ** 2
     return n * f_T
+
+
+@equation(
+    symbol="v_min",
+    text="v_min = c·√(v̄) ft/s, v̄ = 1/ρ in ft³/lb",
+    latex=r"v_{min} = c \sqrt{\bar{v}}\ \mathrm{ft/s},\ \ "
+    r"\bar{v} = \frac{1}{\rho}\ \mathrm{ft^3/lb}",
+    substitute="{c} × √(16.0185 / {rho}) ft/s × 0.3048 m/ft",
+    reference="crane_tp410",
+)
+def full_lift_velocity(c: Any, rho: Any) -> Any:
+    r"""Least pipe velocity that holds a check valve's disc fully open (Crane TP-410).
+
+    .. math:: v_{min} = c \sqrt{\bar{v}}, \quad \bar{v} = 1/\rho \ \text{in ft}^3/\text{lb}
+
+    Parameters
+    ----------
+    c : float
+        The valve type's constant, for v in ft/s and v̄ in ft³/lb [-]
+    rho : float
+        Density of the liquid [kg/m^3]
+
+    Returns
+    -------
+    v_min : float
+        Least velocity for full disc lift [m/s]
+
+    Notes
+    -----
+    Below it the disc floats part-open: it chatters and wears, and the
+    valve's loss exceeds its fully-open K.
+
+    Examples
+    --------
+    >>> round(full_lift_velocity(35.0, 998.2), 3)
+    1.351
+
+    References
+    ----------
+    1. Crane Co., Flow of Fluids Through Valves, Fittings and Pipe,
+       Technical Paper No. 410, resistance of valves and fittings (check
+       valves: minimum velocity for full disc lift); constants from memory.
+    """
+    return c * (16.0185 / rho) ** 0.5 * 0.3048
