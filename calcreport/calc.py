@@ -128,7 +128,29 @@ def solve(model: Model) -> Trace:
     cases = _cases(b, model)
     by_case: dict[str, dict[str, Any]] = {}
     found: list[Check] = []
-    curves_by_speed: dict[float, CurvePoints | None] = {}
+    # Curves of the cases at their own speeds, then the motor: non-overloading at the top
+    # speed, the fastest curve of any case; its rating sets a class efficiency.
+    case_curves = {
+        case.id: _pump_curve(b, model, case.speed, f"{case.id}.", curve.efficiency)
+        for case in cases
+        if case.speed is not None and curve is not None
+    }
+    fastest = max(
+        (c for c in cases if c.id in case_curves),
+        key=lambda c: c.speed.value if c.speed else 0.0,
+        default=None,
+    )
+    top_curve = case_curves[fastest.id] if fastest else curve
+    motor_rating = None
+    if curve is not None and model.pump.efficiency_basis == "overall":
+        notes.append(
+            "The motor rating is not selected: with a wire-to-water efficiency the "
+            "shaft power is unknown; size the motor on the pump's own curve."
+        )
+    elif top_curve is not None:
+        motor_rating = _motor(b, model, liquid, top_curve)
+        if motor_rating and model.motor_class:
+            model = _class_efficiency(b, model, motor_rating, notes)
     route = safety.Route(b, model)
     states: dict[str, safety.State] = {}
     for case in cases:
@@ -143,10 +165,7 @@ def solve(model: Model) -> Trace:
                 exit_head,
             )
         case_model = replace(model, pipes=case.pipes) if case.pipes else model
-        case_curve = curve
-        if case.speed is not None and curve is not None:
-            case_curve = _pump_curve(b, model, case.speed, f"{case.id}.", curve.efficiency)
-            curves_by_speed[case.speed.value] = case_curve
+        case_curve = case_curves.get(case.id, curve)
         result = _solve_case(
             b, case_model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
         )
@@ -157,21 +176,12 @@ def solve(model: Model) -> Trace:
         found += checks.evaluate(model, result, case.id)
     results = dict(by_case["C1"])
     # The highest pressures: the pump's highest head on its fastest curve.
-    fastest = curves_by_speed[max(curves_by_speed)] if curves_by_speed else curve
     surge = route.surge_screening(states, notes)
     if surge:
         results["surge"] = surge
-    results["route"] = route.envelope(states, fastest, notes)
-    if curve is not None and model.pump.efficiency_basis == "overall":
-        notes.append(
-            "The motor rating is not selected: with a wire-to-water efficiency the "
-            "shaft power is unknown; size the motor on the pump's own curve."
-        )
-    elif curve is not None:
-        # Non-overloading at the top speed: the fastest curve of any case.
-        motor = _motor(b, model, liquid, fastest or curve, by_case)
-        if motor:
-            results["motor"] = motor
+    results["route"] = route.envelope(states, top_curve, notes)
+    if motor_rating:
+        results["motor"] = _motor_loading(motor_rating, by_case)
     lift = _lift_speed(b, model, cases, by_case)
     if lift is not None:
         results["minimum_lift_speed"] = _q(lift)
@@ -936,12 +946,9 @@ def _lift_speed(
 
 
 def _motor(
-    b: TraceBuilder,
-    model: Model,
-    liquid: Liquid,
-    curve: CurvePoints,
-    by_case: dict[str, dict[str, Any]],
+    b: TraceBuilder, model: Model, liquid: Liquid, curve: CurvePoints
 ) -> dict[str, Any] | None:
+    """Peak shaft power over ``curve`` and the standard rating that covers it."""
     if not curve.efficiency:
         return None
     peak = b.step(
@@ -968,17 +975,43 @@ def _motor(
         )
     except ValueError:
         return {"peak_shaft_power": _q(peak)}
+    return {"peak_shaft_power": _q(peak), "rated_power": _q(rated), "series": series}
+
+
+def _motor_loading(motor: dict[str, Any], by_case: dict[str, dict[str, Any]]) -> dict[str, Any]:
+    """The motor with its loading (shaft power per pump over the rating) in every case."""
+    if "rated_power" not in motor:
+        return motor
+    rated = motor["rated_power"]["value"]
     loading = {
-        cid: quantity(r.get("shaft_power_per_pump", r["shaft_power"])["value"] / rated.value, "")
+        cid: quantity(r.get("shaft_power_per_pump", r["shaft_power"])["value"] / rated, "")
         for cid, r in by_case.items()
         if "shaft_power" in r
     }
-    return {
-        "peak_shaft_power": _q(peak),
-        "rated_power": _q(rated),
-        "series": series,
-        "loading": loading,
-    }
+    return {**motor, "loading": loading}
+
+
+def _class_efficiency(
+    b: TraceBuilder, model: Model, motor_rating: dict[str, Any], notes: list[str]
+) -> Model:
+    """The model with the motor efficiency of its class at the selected rating."""
+    table = catalog.motor_efficiency(model.motor_class)
+    rated = motor_rating.get("rated_power", {}).get("value")
+    if rated not in table:
+        notes.append(
+            f"Electrical power is not computed: the {model.motor_class} table has no "
+            "efficiency for the selected rating; give motor.efficiency."
+        )
+        return model
+    value, _ = table[rated]
+    b.assume(
+        f"Motor efficiency: the {model.motor_class} full-load limit of IEC 60034-30-1 (4-pole, "
+        "50 Hz) at the selected rating, taken at every load."
+    )
+    eta = b.datum(
+        f"catalog.motor_efficiency_iec.{model.motor_class}[{rated / 1e3:g} kW]", value, ""
+    )
+    return replace(model, motor_efficiency=eta)
 
 
 def _record_inputs(b: TraceBuilder, model: Model) -> None:

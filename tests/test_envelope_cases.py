@@ -152,3 +152,23 @@ def test_duty_margin_is_an_explicit_project_criterion():
     t = solve(loads((base + f"[criteria]\nduty_flow_margin = {margin}\n").encode()))
     duty = next(c for c in t.checks if c.id == "duty_flow")
     assert duty.status == "fail" and duty.limit == pytest.approx(0.020 * (1 + margin))
+
+
+def test_motor_efficiency_from_its_class_at_the_selected_rating():
+    # IEC 60034-30-1 IE3, 4-pole 50 Hz (CHECK-VALUES.md section 8 [M]): 30 kW 93.6 %.
+    from test_calc import _analytic_curve
+
+    text = CASE.replace("efficiency = 0.78\n", "").replace(
+        "[motor]\nefficiency = 0.92", '[motor]\nefficiency_class = "IE3"'
+    )
+    t = solve(loads((text + _analytic_curve()).encode()))
+    r = t.results
+    rated = r["motor"]["rated_power"]["value"]
+    # The curve runs out to 40 L/s at a low efficiency: its peak shaft power needs 30 kW.
+    assert rated == 30e3 and 22e3 < r["motor"]["peak_shaft_power"]["value"] <= 30e3
+    assert r["electrical_power"]["value"] == pytest.approx(r["shaft_power"]["value"] / 0.936)
+    assert "loading" in r["motor"]
+    text_us = text.replace("[fluid]", '[project]\nunits = "US"\n[fluid]')
+    with pytest.raises(InputError) as err:
+        loads((text_us + _analytic_curve()).encode())
+    assert "motor.efficiency_class" in {p.key for p in err.value.problems}

@@ -3,6 +3,7 @@
 ``references.toml``  citations by key, cited by steps and checks
 ``criteria.toml``    default design criteria with their basis
 ``motor_ratings.csv`` standard motor ratings, IEC kW and NEMA hp series
+``motor_efficiency_iec.csv``   IE2/IE3 full-load efficiency limits, 4-pole 50 Hz
 ``fittings_hooper_2k.csv``     two-K coefficients of fittings (Hooper 1981)
 ``fittings_entrance_exit.csv`` entrance and exit coefficients (Crane TP-410)
 ``fittings_crane_ft.csv``      fittings as multiples of f_T (Crane TP-410)
@@ -28,6 +29,7 @@ __all__ = [
     "fittings",
     "fittings_three_k",
     "hazen_williams_c",
+    "motor_efficiency",
     "motor_ratings",
     "references",
 ]
@@ -159,4 +161,17 @@ def check_valve_lift() -> dict[str, tuple[float, str]]:
     """Check valve kinds: the constant of their full-lift velocity, with its source."""
     return {
         row["kind"]: (float(row["c"]), row["source"]) for row in _rows("check_valve_full_lift.csv")
+    }
+
+
+@cache
+def motor_efficiency(efficiency_class: str) -> dict[float, tuple[float, str]]:
+    """Full-load efficiency limit by IEC rating (W) of an efficiency class, with its source."""
+    return {
+        float(row["rating_kw"]) * 1e3: (
+            round(float(row["efficiency_percent"]) / 100.0, 6),
+            row["source"],
+        )
+        for row in _rows("motor_efficiency_iec.csv")
+        if row["class"] == efficiency_class
     }

@@ -150,6 +150,7 @@ _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter"
 # Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
 DIAMETER_CHANGES = ("expander", "reducer")
 EFFICIENCY_BASES = ("pump", "overall")
+MOTOR_CLASSES = ("IE2", "IE3")
 ARRANGEMENTS = ("parallel", "series")
 MAX_PUMPS = 12
 _PROVENANCE_KEYS = (
@@ -484,7 +485,23 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     pump_data = r.table(data, "pump", "pump", required=True)
     pump = _pump(r, pump_data) if pump_data is not None else None
     motor = r.table(data, "motor", "motor", required=False) or {}
-    r.known_keys(motor, "motor", {"efficiency"})
+    r.known_keys(motor, "motor", {"efficiency", "efficiency_class"})
+    motor_class = (
+        r.text(motor, "efficiency_class", "motor", "", MOTOR_CLASSES)
+        if ("efficiency_class" in motor)
+        else ""
+    )
+    if motor_class and "efficiency" in motor:
+        r.problem(
+            "motor.efficiency_class",
+            "Give the motor's efficiency or its efficiency class, not both.",
+        )
+    if motor_class and pump and (pump.curve is None or project.units != "SI"):
+        r.problem(
+            "motor.efficiency_class",
+            "The class table holds IEC ratings: it needs a pump curve (to select the "
+            "rating) and an SI report (IEC kW series); otherwise give motor.efficiency.",
+        )
     drive = r.table(data, "drive", "drive", required=False) or {}
     r.known_keys(drive, "drive", {"efficiency"})
 
@@ -586,6 +603,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         criteria=criteria,
         components=components,
         surge=surge,
+        motor_class=motor_class,
     )
 
 

@@ -227,6 +227,7 @@ class Model:
     friction_method: str = "darcy_weisbach"
     fittings_method: str = "two_k"  # two_k (Hooper) | three_k (Darby), for named fittings
     files: tuple[dict[str, str], ...] = ()  # other files read (curve CSV): path, SHA-256
+    motor_class: str = ""  # IE2 | IE3: motor efficiency from the class table at its rating
     components: tuple[Component, ...] = ()
     surge: Surge | None = None  # None: no surge screening asked for
 
