@@ -237,11 +237,22 @@ def _new_figure(height_in: float) -> Any:
 
 
 def _freeze_layout(fig: Any) -> None:
-    """Run the constrained layout once and keep it: later draws reuse its positions."""
+    """Run the constrained layout once and keep it: later draws reuse its positions.
+
+    The layout runs without a draw of the figure. Only the legends, which
+    set out their entries when drawn, are drawn (without rendering), so
+    every text already stands where the chart will show it.
+    """
     _plain_glyphs(fig)
-    fig.draw_without_rendering()
+    fig.get_layout_engine().execute(fig)
     fig.set_layout_engine("none")
-    _plain_glyphs(fig)  # the tick labels that drawing created
+    renderer = fig._get_renderer()
+    with renderer._draw_disabled():
+        for ax in fig.axes:
+            legend = ax.get_legend()
+            if legend is not None:
+                legend.draw(renderer)
+    _plain_glyphs(fig)  # the tick labels that the layout created
 
 
 def _plain_glyphs(fig: Any) -> None:
@@ -371,8 +382,9 @@ def _pipe_items(results: dict[str, Any]) -> list[tuple[str, dict[str, Any]]]:
 
 
 # --------------------------------------------------------------------------
-# Label placement: try candidate offsets, keep the first that overlaps no
-# line, marker or other label and stays inside the axes.
+# Label placement: score all the candidate offsets at once and keep the first
+# of the best, at best one that overlaps no line, marker or other label and
+# stays inside the axes.
 
 
 class _Placer:
@@ -429,10 +441,10 @@ class _Placer:
         ``also`` lists further candidates with an anchor of their own, as
         ``(anchor, offset)``, tried after ``offsets``. ``rivals`` are other
         labelled points (data): a place nearer to one of them than to the
-        anchor counts against a candidate, so labels stay unambiguous.
+        anchor counts against a candidate, so labels stay unambiguous. Of
+        the candidates with the lowest score, the first is kept.
         """
         options = [(xy, o) for o in offsets] + list(also)
-        others = self.ax.transData.transform(rivals) if len(rivals) else np.empty((0, 2))
         ann = self.ax.annotate(
             text,
             xy=xy,
@@ -443,22 +455,13 @@ class _Placer:
             **kw,
         )
         ann.set_in_layout(False)
-        best: tuple[float, int] | None = None
-        for i, (anchor, (dx, dy)) in enumerate(options):
-            ann.xy = anchor
-            self._set_offset(ann, dx, dy)
-            bb = _text_extent(ann, self.renderer)
-            score = self._score(bb, inside)
-            if len(others):
-                mine = _box_distance(bb, self.ax.transData.transform([anchor])[0])
-                if any(_box_distance(bb, o) < mine + 2.0 for o in others):
-                    score += 2.0
-            if best is None or score < best[0]:
-                best = (score, i)
-            if score == 0:
-                break
-        assert best is not None
-        anchor, (dx, dy) = options[best[1]]
+        boxes, anchors = self._candidate_boxes(ann, options)
+        scores = self._scores(boxes, inside)
+        if len(rivals):
+            scores += 2.0 * _nearer_to_rival(boxes, anchors, self.ax.transData.transform(rivals))
+        best = int(np.argmin(scores))
+        anchor, (dx, dy) = options[best]
+        x0, y0, x1, y1 = boxes[best]
         ann.xy = anchor
         self._set_offset(ann, dx, dy)
         if math.hypot(dx, dy) >= leader_from:
@@ -483,63 +486,149 @@ class _Placer:
                 **kw,
             )
             ann.set_in_layout(False)
-            target = self.ax.transData.transform([anchor])[0]
-            bb = _text_extent(ann, self.renderer)
-            self.add_polyline([target, _nearest_point(bb, target)], display=True)
-        bb = _text_extent(ann, self.renderer)
-        self.boxes.append((bb.x0 - 0.5, bb.y0 - 0.5, bb.x1 + 0.5, bb.y1 + 0.5))
+            target = anchors[best]
+            self.add_polyline([target, _nearest_point(boxes[best], target)], display=True)
+        self.boxes.append((x0 - 0.5, y0 - 0.5, x1 + 0.5, y1 + 0.5))
         return ann
 
     @staticmethod
     def _set_offset(ann: Any, dx: float, dy: float) -> None:
         ann.xyann = (dx, dy)
-        ann.set_horizontalalignment("left" if dx > 0.5 else "right" if dx < -0.5 else "center")
-        ann.set_verticalalignment("bottom" if dy > 0.5 else "top" if dy < -0.5 else "center")
+        ha, va = _alignment(dx, dy)
+        ann.set_horizontalalignment(ha)
+        ann.set_verticalalignment(va)
 
-    def _score(self, bb: Any, inside: bool) -> float:
+    def _candidate_boxes(
+        self, ann: Any, options: Sequence[tuple[tuple[float, float], tuple[float, float]]]
+    ) -> tuple[Any, Any]:
+        """The text boxes (display) of ``ann`` at each option, and the options' anchors.
+
+        The text is laid out once, aligned left and bottom; aligned otherwise,
+        its box is that one shifted by half or all of its width or height, and
+        at an option it stands at the anchor plus the offset in points. That
+        is matplotlib's own arithmetic, so each box is the one the annotation
+        reports there, without a layout for every option.
+        """
+        ann.set_horizontalalignment("left")
+        ann.set_verticalalignment("bottom")
+        shape = ann._get_layout(self.renderer)[0].extents
+        size = shape[2:] - shape[:2]
+        anchors: dict[tuple[float, float], Any] = {}
+        at = np.empty((len(options), 2))
+        shift = np.empty((len(options), 2))
+        for i, (anchor, (dx, dy)) in enumerate(options):
+            key = (float(anchor[0]), float(anchor[1]))
+            if key not in anchors:
+                anchors[key] = self.ax.transData.transform(key)
+            at[i] = anchors[key]
+            ha, va = _alignment(dx, dy)
+            shift[i] = _SHIFT[ha], _SHIFT[va]
+        offsets = np.array([offset for _, offset in options], dtype=float)
+        position = at + offsets * (self.fig.dpi / 72.0)
+        shift *= size
+        boxes = np.hstack([shape[:2] - shift + position, shape[2:] - shift + position])
+        return boxes, at
+
+    def _scores(self, boxes: Any, inside: bool) -> Any:
+        """Each candidate box's score: lines crossed, 10 a box overlapped, 20 outside the axes."""
         p = self.pad
-        box = (bb.x0 - p, bb.y0 - p, bb.x1 + p, bb.y1 + p)
-        score = float(np.count_nonzero(_segments_hit(self.segments, box)))
-        score += 10.0 * sum(_overlap(box, other) for other in self.boxes)
+        padded = boxes + (-p, -p, p, p)
+        reach = _bounds(padded, 1.0)  # only obstacles near the candidates can touch them
+        seg = self.segments
+        near = (
+            (np.maximum(seg[:, 0], seg[:, 2]) >= reach[0])
+            & (np.minimum(seg[:, 0], seg[:, 2]) <= reach[2])
+            & (np.maximum(seg[:, 1], seg[:, 3]) >= reach[1])
+            & (np.minimum(seg[:, 1], seg[:, 3]) <= reach[3])
+        )
+        score = np.count_nonzero(_segments_hit(seg[near], padded), axis=1).astype(float)
+        if self.boxes:
+            others = np.asarray(self.boxes, dtype=float)
+            others = others[_overlap(others, reach)]
+            score += 10.0 * np.count_nonzero(_overlap(padded[:, None, :], others), axis=1)
         if inside:
             fx0, fy0, fx1, fy1 = self.frame
-            if bb.x0 < fx0 or bb.y0 < fy0 or bb.x1 > fx1 or bb.y1 > fy1:
-                score += 20.0
+            out = (
+                (boxes[:, 0] < fx0)
+                | (boxes[:, 1] < fy0)
+                | (boxes[:, 2] > fx1)
+                | (boxes[:, 3] > fy1)
+            )
+            score += 20.0 * out
         return score
 
 
-def _text_extent(ann: Any, renderer: Any) -> Any:
-    """The box of an annotation's text alone, without its leader line."""
-    from matplotlib.text import Annotation, Text
-
-    if isinstance(ann, Annotation):
-        ann.update_positions(renderer)
-    return Text.get_window_extent(ann, renderer)
+# How far a box moves, in its widths and heights, from left and bottom alignment.
+_SHIFT = {"left": 0.0, "bottom": 0.0, "center": 0.5, "right": 1.0, "top": 1.0}
 
 
-def _box_distance(bb: Any, point: Sequence[float]) -> float:
-    nx, ny = _nearest_point(bb, point)
-    return math.hypot(nx - point[0], ny - point[1])
+def _alignment(dx: float, dy: float) -> tuple[str, str]:
+    """The text alignment of a label offset by (dx, dy) from its anchor: away from it."""
+    ha = "left" if dx > 0.5 else "right" if dx < -0.5 else "center"
+    return ha, "bottom" if dy > 0.5 else "top" if dy < -0.5 else "center"
 
 
-def _nearest_point(bb: Any, point: Sequence[float]) -> tuple[float, float]:
-    return (min(max(point[0], bb.x0), bb.x1), min(max(point[1], bb.y0), bb.y1))
+def _nearest_point(box: Sequence[float], point: Sequence[float]) -> tuple[float, float]:
+    """The point of ``box`` (x0, y0, x1, y1) nearest to ``point``."""
+    return (min(max(point[0], box[0]), box[2]), min(max(point[1], box[1]), box[3]))
 
 
-def _overlap(a: Sequence[float], b: Sequence[float]) -> bool:
-    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+def _nearer_to_rival(boxes: Any, anchors: Any, rivals: Any) -> Any:
+    """Which boxes come nearer (by 2 pt) to one of ``rivals`` than to their own anchor."""
+    mine = _box_distance(boxes, anchors)
+    # A rival farther from every box than any box from its anchor cannot count.
+    reach = _bounds(boxes, np.max(mine, where=np.isfinite(mine), initial=0.0) + 3.0)
+    rivals = rivals[np.all((rivals >= reach[:2]) & (rivals <= reach[2:]), axis=1)]
+    rival = _box_distance(boxes[:, None, :], rivals[None, :, :])
+    return np.any(rival < mine[:, None] + 2.0, axis=1)
 
 
-def _segments_hit(seg: Any, box: Sequence[float]) -> Any:
-    """Which segments (rows x0, y0, x1, y1) cross the box (Liang-Barsky clipping)."""
+def _bounds(boxes: Any, margin: float) -> Any:
+    """The box (x0, y0, x1, y1) around the finite rows of ``boxes``, grown by ``margin``.
+
+    The margin also covers rounding, so a pre-filter by these bounds drops
+    nothing an exact test would keep. Boxes off the scale (at a log axis'
+    zero) touch nothing, and no boxes give empty bounds.
+    """
+    finite = boxes[np.all(np.isfinite(boxes), axis=1)]
+    lo = finite[:, :2].min(axis=0, initial=np.inf) - margin
+    hi = finite[:, 2:].max(axis=0, initial=-np.inf) + margin
+    return np.concatenate([lo, hi])
+
+
+def _box_distance(boxes: Any, points: Any) -> Any:
+    """Distances from boxes (x0, y0, x1, y1) to points (x, y), on the last axes, broadcast."""
+    nearest = np.minimum(np.maximum(points, boxes[..., :2]), boxes[..., 2:])
+    return np.hypot(*np.moveaxis(nearest - points, -1, 0))
+
+
+def _overlap(a: Any, b: Any) -> Any:
+    """Whether boxes ``a`` and ``b`` (x0, y0, x1, y1 on the last axis) overlap, broadcast."""
+    a, b = np.asarray(a), np.asarray(b)
+    return (
+        (a[..., 0] < b[..., 2])
+        & (b[..., 0] < a[..., 2])
+        & (a[..., 1] < b[..., 3])
+        & (b[..., 1] < a[..., 3])
+    )
+
+
+def _segments_hit(seg: Any, boxes: Any) -> Any:
+    """Which segments (rows x0, y0, x1, y1) cross which boxes (rows x0, y0, x1, y1).
+
+    Liang-Barsky clipping of every segment against every box: a boolean
+    array of (boxes, segments).
+    """
+    boxes = np.atleast_2d(np.asarray(boxes, dtype=float))
     if len(seg) == 0:
-        return np.zeros(0, dtype=bool)
-    xmin, ymin, xmax, ymax = box
+        return np.zeros((len(boxes), 0), dtype=bool)
+    xmin, ymin, xmax, ymax = (edge[:, None] for edge in boxes.T)
     x0, y0, x1, y1 = seg.T
     dx, dy = x1 - x0, y1 - y0
-    u0 = np.zeros(len(seg))
-    u1 = np.ones(len(seg))
-    ok = np.ones(len(seg), dtype=bool)
+    shape = (len(boxes), len(seg))
+    u0 = np.zeros(shape)
+    u1 = np.ones(shape)
+    ok = np.ones(shape, dtype=bool)
     for p, q in ((-dx, x0 - xmin), (dx, xmax - x0), (-dy, y0 - ymin), (dy, ymax - y0)):
         parallel = p == 0
         ok &= ~(parallel & (q < 0))
@@ -551,21 +640,32 @@ def _segments_hit(seg: Any, box: Sequence[float]) -> Any:
 
 
 def _clusters(ax: Any, xy: Sequence[tuple[float, float]], within: float) -> list[list[int]]:
-    """Group points (data) lying within ``within`` points of each other on the page."""
+    """Group points (data) lying within ``within`` points of each other on the page.
+
+    Groups come in the order of their first points, each in input order.
+    Points are binned in square cells of side ``within``, so each is compared
+    only with those of its own and the eight neighbouring cells.
+    """
     if not xy:
         return []
     page = ax.transData.transform(np.asarray(xy, dtype=float))
     group = list(range(len(xy)))
+    cells: dict[tuple[int, int], list[int]] = {}
 
     def root(i: int) -> int:
         while group[i] != i:
             i = group[i]
         return i
 
-    for i in range(len(xy)):
-        for j in range(i + 1, len(xy)):
-            if math.dist(page[i], page[j]) < within:
-                group[root(j)] = root(i)
+    for i, (x, y) in enumerate(page):
+        if not (math.isfinite(x) and math.isfinite(y)):
+            continue  # a point off the scale joins no group
+        cx, cy = math.floor(x / within), math.floor(y / within)
+        for key in itertools.product((cx - 1, cx, cx + 1), (cy - 1, cy, cy + 1)):
+            for j in cells.get(key, ()):
+                if math.dist(page[i], page[j]) < within:
+                    group[root(i)] = root(j)
+        cells.setdefault((cx, cy), []).append(i)
     out: dict[int, list[int]] = {}
     for i in range(len(xy)):
         out.setdefault(root(i), []).append(i)
@@ -1063,23 +1163,14 @@ def _draw_loss_breakdown(trace: dict[str, Any]) -> tuple[Any, str]:
 
     used: dict[str, Any] = {}
     ends: list[tuple[int, float, str]] = []
+    bars: list[tuple[int, float, float, dict[str, Any]]] = []  # row, value, start, style
     for i, (_label, parts) in enumerate(rows):
         left_pos = 0.0
         left_neg = 0.0
         for value, part in parts:
             st = style[part]
             start = left_pos if value >= 0 else left_neg
-            ax.barh(
-                i,
-                value,
-                left=start,
-                height=0.46,
-                color=st["color"],
-                hatch=st["hatch"],
-                edgecolor=INK if st["hatch"] else "none",
-                linewidth=0.4,
-                zorder=3,
-            )
+            bars.append((i, value, start, st))
             if value >= 0:
                 left_pos += value
             else:
@@ -1098,6 +1189,19 @@ def _draw_loss_breakdown(trace: dict[str, Any]) -> tuple[Any, str]:
             text = ",  ".join(f"{name} {_num(v)} {hu}" for v, name in parts)
         end = left_pos if left_pos != 0 or left_neg == 0 else left_neg
         ends.append((i, end, text))
+    if bars:  # one call for all the bars: matplotlib's cost is per call, not per bar
+        at, values, starts, styles = zip(*bars, strict=True)
+        ax.barh(
+            at,
+            values,
+            left=starts,
+            height=0.46,
+            color=[st["color"] for st in styles],
+            hatch=[st["hatch"] for st in styles],
+            edgecolor=[INK if st["hatch"] else "none" for st in styles],
+            linewidth=0.4,
+            zorder=3,
+        )
 
     heads = sum(1 for _, parts in rows if parts and parts[0][1] in ("static", "pressure", "outlet"))
     if 0 < heads < n:

@@ -4,7 +4,9 @@ An equation string in matplotlib mathtext (the ``latex`` of a trace step) is
 laid out once, by string and size, into glyphs (font, size, character,
 position) and rules (fraction bars, radical overbars). A reportlab
 :class:`Equation` flowable draws the glyphs as text in those same fonts,
-embedded as subsets: sharp, searchable, and light. The fonts are the ones
+embedded as subsets: sharp, searchable, and light; the text operators of
+an equation are made once a canvas and reused wherever the same equation is
+printed again (a step repeated for every pipe). The fonts are the ones
 matplotlib ships for its ``dejavusans`` mathtext set (DejaVu Sans, with STIX
 size variants for tall delimiters; Bitstream Vera and SIL Open Font
 licences, in matplotlib's ``mpl-data/fonts``).
@@ -15,6 +17,7 @@ from __future__ import annotations
 from functools import cache
 from pathlib import Path
 from typing import Any
+from weakref import WeakKeyDictionary
 
 from reportlab.platypus import Flowable
 
@@ -56,12 +59,19 @@ def _layout(
     return float(width), float(height - depth), float(depth), placed, rules
 
 
+# The text operators of the equations drawn on each canvas, by string and size. Drawn
+# again on that canvas, an equation reuses them: its glyphs are in the canvas's font
+# subsets since the first time, so the operators come out the same.
+_TEXT: WeakKeyDictionary[Any, dict[tuple[str, float], str]] = WeakKeyDictionary()
+
+
 class Equation(Flowable):
     """A typeset equation, left-aligned with an indent."""
 
     def __init__(self, latex: str, size: float = 10.0, indent: float = 18.0) -> None:
         super().__init__()
         self.latex = latex
+        self.size = size
         self.indent = indent
         self.width_eq, self.ascent, self.depth, self.glyphs, self.rules = _layout(latex, size)
 
@@ -74,12 +84,19 @@ class Equation(Flowable):
         canvas.saveState()
         canvas.translate(self.indent, 3.0 + self.depth * self.scale)
         canvas.scale(self.scale, self.scale)
-        text = canvas.beginText()
-        for font, size, char, x, y in self.glyphs:
-            text.setFont(font, size)
-            text.setTextOrigin(x, y)
-            text.textOut(char)
-        canvas.drawText(text)
+        drawn = _TEXT.setdefault(canvas, {})
+        code = drawn.get((self.latex, self.size))
+        if code is None:
+            text = canvas.beginText()
+            face = None
+            for font, size, char, x, y in self.glyphs:
+                if (font, size) != face:  # a font operator only where the face changes
+                    face = font, size
+                    text.setFont(font, size)
+                text.setTextOrigin(x, y)
+                text.textOut(char)
+            code = drawn[self.latex, self.size] = text.getCode()
+        canvas.addLiteral(code)  # as canvas.drawText does with a text object's code
         for x, y, w, h in self.rules:
             canvas.rect(x, y, w, h, stroke=0, fill=1)
         canvas.restoreState()
