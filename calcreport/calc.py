@@ -529,8 +529,9 @@ def _solve_case(
             n_run=case.running,
         )
         results["shaft_power_per_pump"] = _q(per_pump)
-    results["system_curve"] = _system_curve(model, case, liquid, surfaces, curve)
-    results["duty_point"] = _duty_point(model, case, liquid, surfaces)
+    results["system_curve"], results["duty_point"] = _system_curve(
+        model, case, liquid, surfaces, curve
+    )
     results["commissioning"] = _commissioning(b, model, case, liquid, surfaces, h, curve)
     if curve is not None:
         results["pump_curve"] = {
@@ -589,22 +590,33 @@ def _system_curve(
     liquid: Liquid,
     surfaces: tuple[Given, Given, Given, Given | None],
     curve: CurvePoints | None,
-) -> dict[str, Any]:
+) -> tuple[dict[str, Any], dict[str, Any]]:
+    """The system curve over the flow range, and the system at the required flow.
+
+    One sweep of the same equations as the steps: the required flow rides along as
+    the last point, so the duty point costs no second pass over the pipes.
+    """
     low, high = _flow_span(model)
     if curve is not None:
         high = max(high, curve.values("flow")[-1])
-    flows = np.linspace(low, high, CURVE_POINTS)
+    flows = np.append(np.linspace(low, high, CURVE_POINTS), model.flow.value)
     sweep = _hydraulics(
         _Sweep(), model, case, liquid, surfaces, flow=Given(flows, "m^3/s", "flow_range")
     )  # type: ignore[arg-type]
-    shape = flows.shape  # terms that do not depend on flow come back as scalars
-    return {
-        "flow": quantity(flows.tolist(), "m^3/s"),
-        "head": quantity(np.broadcast_to(sweep["tdh"].value, shape).tolist(), "m"),
-        "npsh_available": quantity(
-            np.broadcast_to(sweep["npsh_available"].value, shape).tolist(), "m"
-        ),
+    # Terms that do not depend on flow come back as scalars.
+    tdh = np.broadcast_to(sweep["tdh"].value, flows.shape)
+    npsha = np.broadcast_to(sweep["npsh_available"].value, flows.shape)
+    system = {
+        "flow": quantity(flows[:-1].tolist(), "m^3/s"),
+        "head": quantity(tdh[:-1].tolist(), "m"),
+        "npsh_available": quantity(npsha[:-1].tolist(), "m"),
     }
+    duty = {
+        "flow": _q(model.flow),
+        "head": quantity(float(tdh[-1]), "m"),
+        "npsh_available": quantity(float(npsha[-1]), "m"),
+    }
+    return system, duty
 
 
 def _commissioning(
@@ -712,25 +724,6 @@ def _flange_pair(
         v_out=v_out,
     )
     return p_in, p_out
-
-
-def _duty_point(
-    model: Model, case: Case, liquid: Liquid, surfaces: tuple[Given, Given, Given, Given | None]
-) -> dict[str, Any]:
-    """The system's head and NPSHa at the required flow (the same equations, not steps)."""
-    at = _hydraulics(
-        _Sweep(),
-        model,
-        case,
-        liquid,
-        surfaces,
-        flow=Given(np.array([model.flow.value]), "m^3/s", "duty.flow"),
-    )
-    return {
-        "flow": _q(model.flow),
-        "head": quantity(float(np.asarray(at["tdh"].value).ravel()[0]), "m"),
-        "npsh_available": quantity(float(np.asarray(at["npsh_available"].value).ravel()[0]), "m"),
-    }
 
 
 def _operating_flow(

@@ -7,6 +7,7 @@ module prints and exits; everything below it raises.
 from __future__ import annotations
 
 import argparse
+import gc
 import hashlib
 import json
 import os
@@ -194,17 +195,21 @@ def _build(args: argparse.Namespace) -> int:
     trace_file = folder / f"{source.stem}.trace.json"
     pages_file = folder / f"{source.stem}.pages.json"
     data = trace.to_json()
+    text = trace.dumps()
+    # The imported stack and the trace live to the end of the run: frozen, they are not
+    # rescanned by every collection the rendering triggers (about a tenth of a build).
+    gc.freeze()
     rendered = render(data, model.text, previous)
     pages = {
         "format": "calcreport-pages/1",
-        "trace_sha256": _sha256(trace.dumps()),
+        "trace_sha256": _sha256(text),
         "pdf_sha256": hashlib.sha256(rendered.pdf).hexdigest(),
         "steps": rendered.step_pages,
     }
     write_all(
         {
             pdf: rendered.pdf,
-            trace_file: trace.dumps().encode("utf-8"),
+            trace_file: text.encode("utf-8"),
             pages_file: (json.dumps(pages, indent=1) + "\n").encode("utf-8"),
         },
         protect=source,

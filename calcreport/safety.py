@@ -14,6 +14,7 @@ head change. Every value a check relies on is a step.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 from typing import TYPE_CHECKING, Any
 
 from calcreport.model.schema import Given, Model, Pipe
@@ -35,6 +36,11 @@ class State:
     surfaces: tuple[Given, Given, Given, Given | None]
     h: dict[str, Any]
     profile: dict[str, Any]
+
+    @cached_property
+    def pipe_nodes(self) -> dict[str, dict[str, Any]]:
+        """The profile's pipe-end nodes by name."""
+        return {n["name"]: n for n in self.profile["nodes"] if "pipe" in n}
 
 
 def _q(given: Given) -> dict[str, Any]:
@@ -622,10 +628,7 @@ class Route:
 
 
 def _node(st: State, name: str) -> dict[str, Any] | None:
-    for n in st.profile["nodes"]:
-        if n["name"] == name and "pipe" in n:
-            return n
-    return None
+    return st.pipe_nodes.get(name)
 
 
 def _head_at(st: State, name: str) -> float:

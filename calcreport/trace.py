@@ -201,8 +201,12 @@ class Trace:
         return "{\n" + ",\n".join(lines) + "\n}\n"
 
 
+# One encoder for every item: json.dumps with options builds a new one each call.
+_ENCODER = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "))
+
+
 def _compact(value: Any) -> str:
-    return json.dumps(value, ensure_ascii=False, separators=(", ", ": "))
+    return _ENCODER.encode(value)
 
 
 class TraceBuilder:
