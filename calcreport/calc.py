@@ -1817,6 +1817,13 @@ def _duty_profile(
                 return None
             powers.append(found[0])
             lost.append(found[1])
+            # Each point's share of the year, for the energy chart (the total is a step).
+            row["annual_energy"] = quantity(found[0].value * times[i - 1].value, "J")
+            if op.energy_price is not None:
+                cost = float(
+                    power.annual_cost(row["annual_energy"]["value"], op.energy_price.value)
+                )
+                row["annual_cost"] = quantity(cost, op.currency)
         E = b.step("energy.annual", "Annual energy over the profile", power.profile_energy,
                    P=powers, t=times)  # fmt: skip
         hours = b.step("energy.operating_time", "Operating time per year", power.time_sum, t=times)

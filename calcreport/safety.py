@@ -315,31 +315,49 @@ class Route:
         record(top)
         if H_max is not None and points[0]["basis"] == "static":
             record(points[0])  # the pump discharge at shutoff: the casing's pressure
-        out["nodes"] = [
-            {
-                "node": p["node"],
-                "elevation": quantity(p["elevation"], "m"),
-                "max_pressure": quantity(p["max"], "Pa"),
-                "basis": p["basis"],
-                **(
-                    {"min_pressure_head": quantity(_min_head(states, p["node"]), "m")}
-                    if p["node"] != "pump discharge"
-                    else {}
-                ),
-                **(
-                    {"rating": quantity(min(i["rating"] for i in p["ratings"]), "Pa")}
-                    if p["ratings"]
-                    else {}
-                ),
-            }
-            for p in points
-        ]
+        out["nodes"] = [self._node_entry(states, p, rho.value) for p in points]
         if not rated:
             notes.append(
                 "No pressure rating is given (pipe pressure_rating, [[component]], "
                 "pump.pressure_rating): the maximum pressures are reported but not checked."
             )
         return out
+
+    def _node_entry(
+        self, states: dict[str, State], p: dict[str, Any], rho: float
+    ) -> dict[str, Any]:
+        """One point of the route for the trace: pressures, and as grade-line elevations
+        (elevation plus pressure head at the densest liquid) for the profile chart."""
+        z = p["elevation"]
+        design = states["C1"]
+        first = next(n for n in design.profile["nodes"] if n.get("side") == "discharge")
+        node = _node(design, p["node"])
+        entry: dict[str, Any] = {
+            "node": p["node"],
+            "distance": quantity((node or first)["distance"], "m"),
+            "elevation": quantity(z, "m"),
+            "max_pressure": quantity(p["max"], "Pa"),
+            "max_grade": quantity(z + p["max"] / (rho * losses.G), "m"),
+            "basis": p["basis"],
+        }
+        if node is not None:
+            low = _min_head(states, p["node"])
+            entry["min_pressure_head"] = quantity(low, "m")
+            entry["min_grade"] = quantity(z + low, "m")
+            vapour = self._vapour.get("C1")
+            if vapour is not None:
+                entry["vapour_grade"] = quantity(z + vapour.value, "m")
+            if self.rises and self.surge_case and node["side"] == "discharge":
+                down = _head_at(states[self.surge_case], p["node"]) - self.rises[node["pipe"]].value
+                # The liquid cannot fall below its vapour pressure: there the column parts.
+                if vapour is not None and down <= vapour.value:
+                    down, entry["column_separation"] = vapour.value, True
+                entry["downsurge_grade"] = quantity(z + down, "m")
+        if p["ratings"]:
+            rating = min(i["rating"] for i in p["ratings"])
+            entry["rating"] = quantity(rating, "Pa")
+            entry["rating_grade"] = quantity(z + rating / (rho * losses.G), "m")
+        return entry
 
     def _max_head(self, curve: CurvePoints | None, notes: list[str]) -> tuple[Given | None, str]:
         """Highest head of the pump(s) on the fastest curve: the shutoff head of a rising curve."""

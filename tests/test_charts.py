@@ -28,6 +28,7 @@ EXAMPLES = {
     "si": ROOT / "input_examples" / "reservoir_fill_si.toml",
     "us": ROOT / "input_examples" / "process_transfer_us.toml",
     "check": ROOT / "input_examples" / "check_case.toml",
+    "cooling": ROOT / "input_examples" / "cooling_water_selected_pump.toml",
 }
 NAMES = charts.FIGURES
 WIDTH_PT = 6.3 * 72
@@ -75,18 +76,33 @@ def traces() -> dict[str, dict[str, Any]]:
     return out
 
 
+class _Applicable(dict):
+    """Charts by (example, name); a chart the example's input does not call for is skipped."""
+
+    def __missing__(self, key: tuple[str, str]) -> Any:
+        pytest.skip(f"the {key[1]} chart does not apply to the {key[0]} example")
+
+
 @pytest.fixture(scope="module")
 def drawn(traces: dict[str, dict[str, Any]]) -> dict[tuple[str, str], charts.Figure]:
-    """Every chart of the three examples, through the public functions."""
-    return {(key, name): getattr(charts, name)(traces[key]) for key in EXAMPLES for name in NAMES}
+    """Every chart of the three examples that applies, through the public functions."""
+    return _Applicable(
+        {
+            (key, name): getattr(charts, name)(traces[key])
+            for key in EXAMPLES
+            for name in NAMES
+            if charts.applies(name, traces[key])
+        }
+    )
 
 
 @pytest.fixture(scope="module")
 def figures(traces, drawn) -> dict[tuple[str, str], Any]:
     """The matplotlib figures: the examples' as saved, the ten-pipe case drawn only."""
-    out = {key: fig.figure for key, fig in drawn.items()}
+    out = _Applicable({key: fig.figure for key, fig in drawn.items()})
     for name in NAMES:
-        out["ten", name] = charts._draw_only(name, traces["ten"])[0]
+        if charts.applies(name, traces["ten"]):
+            out["ten", name] = charts._draw_only(name, traces["ten"])[0]
     return out
 
 
@@ -138,8 +154,25 @@ def test_figures_lists_every_public_chart() -> None:
         "profile",
         "loss_breakdown",
         "friction_factor",
+        "route_pressure",
+        "energy",
     }
     assert set(NAMES) <= set(charts.__all__)
+
+
+def test_optional_charts_apply_only_where_the_trace_holds_their_data(traces) -> None:
+    # The demo has a route with elevations but no duty profile; the check case neither; the
+    # cooling-water example both.
+    assert charts.applies("route_pressure", traces["si"])
+    assert not charts.applies("energy", traces["si"])
+    assert not charts.applies("route_pressure", traces["check"])
+    assert charts.applies("energy", traces["cooling"])
+    assert charts.applies("route_pressure", traces["cooling"])
+
+
+def _applicable(traces: dict[str, dict[str, Any]], name: str) -> str:
+    """The first example whose trace the chart applies to."""
+    return next(key for key in ("us", *EXAMPLES) if charts.applies(name, traces[key]))
 
 
 # -- deterministic bytes -------------------------------------------------------------------
@@ -147,9 +180,10 @@ def test_figures_lists_every_public_chart() -> None:
 
 @pytest.mark.parametrize("name", NAMES)
 def test_same_trace_gives_the_same_bytes(traces, drawn, name: str) -> None:
-    again = getattr(charts, name)(copy.deepcopy(traces["us"]))
-    assert again.pdf == drawn["us", name].pdf
-    assert again.title == drawn["us", name].title
+    key = _applicable(traces, name)
+    again = getattr(charts, name)(copy.deepcopy(traces[key]))
+    assert again.pdf == drawn[key, name].pdf
+    assert again.title == drawn[key, name].title
 
 
 def test_pdf_has_no_date_or_producer(drawn) -> None:
@@ -202,7 +236,7 @@ def test_labels_carry_the_trace_values(traces, drawn) -> None:
     assert f"28.0 L/s, TDH {tdh} m" in texts
     assert f"TDH {tdh} m" in drawn["si", "system_curve"].title
     assert f"TDH = {tdh} m" in drawn["si", "loss_breakdown"].title
-    assert "downstream end" in drawn["si", "profile"].title
+    assert "upstream end" in drawn["si", "profile"].title
 
 
 def test_every_pipe_is_labelled(traces, drawn) -> None:
@@ -273,7 +307,7 @@ def _strip_optional(trace: dict[str, Any]) -> dict[str, Any]:
 
 @pytest.mark.parametrize("name", NAMES)
 def test_charts_work_without_the_optional_keys(traces, name: str) -> None:
-    fig = getattr(charts, name)(_strip_optional(traces["us"]))
+    fig = getattr(charts, name)(_strip_optional(traces[_applicable(traces, name)]))
     assert fig.pdf.startswith(b"%PDF") and fig.title
 
 
@@ -345,3 +379,30 @@ def test_pyplot_is_never_used(drawn) -> None:
     assert "matplotlib.pyplot" not in sys.modules or all(
         fig.figure.canvas.manager is None for fig in drawn.values()
     )
+
+
+def test_route_pressure_chart_shows_ratings_high_points_and_grade_lines(traces, drawn) -> None:
+    fig = drawn["si", "route_pressure"].figure
+    legend = [t.get_text() for t in fig.axes[0].get_legend().get_texts()]
+    for label in ("pipe centreline", "highest grade line", "rating, as a grade line"):
+        assert label in legend
+    assert "high point (air valve)" in legend and any("downsurge" in x for x in legend)
+    # The highest grade line is drawn through the trace's values, point by point.
+    route = traces["si"]["results"]["route"]
+    top = next(line for line in fig.axes[0].get_lines() if line.get_label() == "highest grade line")
+    expected = [n["max_grade"]["value"] for n in route["nodes"] if "min_grade" in n]
+    assert list(top.get_ydata()) == pytest.approx(expected)
+
+
+def test_energy_chart_has_a_bar_and_a_cost_per_profile_point(traces, drawn) -> None:
+    fig = drawn["cooling", "energy"].figure
+    rows = traces["cooling"]["results"]["energy"]["profile"]
+    bars = fig.axes[0].patches
+    assert len(bars) == len(rows)
+    heights = [b.get_height() for b in bars]
+    assert heights == pytest.approx([r["electrical_power"]["value"] / 1e3 for r in rows])
+    texts = " ".join(_texts(fig))
+    for r in rows:
+        assert f"{r['hours']:,.0f} h/yr" in texts
+    cost = fig.axes[1].get_lines()[0].get_ydata()
+    assert list(cost) == pytest.approx([r["annual_cost"]["value"] for r in rows])

@@ -44,4 +44,6 @@ def render(
 def _figures(trace: dict[str, Any]) -> dict[str, Any]:
     from calcreport.report import charts
 
-    return {name: charts.drawn(name, trace) for name in charts.FIGURES}
+    return {
+        name: charts.drawn(name, trace) for name in charts.FIGURES if charts.applies(name, trace)
+    }

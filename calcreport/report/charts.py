@@ -19,6 +19,8 @@ Charts
 - :func:`loss_breakdown` -- the parts of the total dynamic head
 - :func:`friction_factor` -- Darcy friction factor against Reynolds number
 - :func:`sketch` -- a single-line schematic of the system with its elevations
+- :func:`route_pressure` -- grade lines against the pipe, ratings and high points
+- :func:`energy` -- input power and running cost at each point of the duty profile
 
 Helpers
 -------
@@ -43,11 +45,14 @@ __all__ = [
     "FIGURES",
     "Drawn",
     "Figure",
+    "applies",
     "drawn",
+    "energy",
     "friction_factor",
     "loss_breakdown",
     "npsh",
     "profile",
+    "route_pressure",
     "sketch",
     "system_curve",
 ]
@@ -179,7 +184,38 @@ def sketch(trace: dict[str, Any]) -> Figure:
     return _render(_draw_sketch, trace)
 
 
-FIGURES = ("sketch", "system_curve", "npsh", "profile", "loss_breakdown", "friction_factor")
+def route_pressure(trace: dict[str, Any]) -> Figure:
+    """Grade lines along the route against the pipe, the ratings and the high points."""
+    return _render(_draw_route_pressure, trace)
+
+
+def energy(trace: dict[str, Any]) -> Figure:
+    """Input power and running cost at each point of the duty profile."""
+    return _render(_draw_energy, trace)
+
+
+FIGURES = (
+    "sketch",
+    "system_curve",
+    "npsh",
+    "profile",
+    "loss_breakdown",
+    "friction_factor",
+    "route_pressure",
+    "energy",
+)
+
+
+def applies(name: str, trace: dict[str, Any]) -> bool:
+    """Whether the trace holds what chart ``name`` plots (some depend on optional input)."""
+    results = trace.get("results", {})
+    if name == "route_pressure":
+        nodes = results.get("route", {}).get("nodes", [])
+        return sum(1 for n in nodes if "min_grade" in n) >= 2
+    if name == "energy":
+        rows = results.get("energy", {}).get("profile", [])
+        return bool(rows) and all("electrical_power" in r for r in rows)
+    return True
 
 
 # --------------------------------------------------------------------------
@@ -1106,7 +1142,7 @@ def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
         "Route profile at the design flow: energy grade line (EGL) and hydraulic grade line "
         "(HGL) from the source "
         f"surface to the destination surface, the pump{pump_text} adding TDH; friction is lost "
-        "along each pipe and minor losses are drawn as steps at each pipe's downstream end"
+        "along each pipe and fitting losses are drawn as steps at each pipe's upstream end"
     )
     return fig, title
 
@@ -1759,5 +1795,137 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
         f"diameter ID, pump; liquid levels (dashed: low and high levels where given) and the "
         f"pump datum to the elevation scale at the left in {hu}; pipe runs not to horizontal "
         "scale, vessel outlines schematic"
+    )
+    return fig, title
+
+
+# --------------------------------------------------------------------------
+# 7. Pressure along the route
+
+
+def _draw_route_pressure(trace: dict[str, Any]) -> tuple[Any, str]:
+    r = _results(trace, "route", "profile")
+    d = _Display(trace)
+    route = r["route"]
+    nodes = [n for n in route["nodes"] if "min_grade" in n]
+    hu = d.label("length")
+
+    def series(key: str) -> Any:
+        return np.array([d(n[key], "length") if key in n else np.nan for n in nodes])
+
+    x = series("distance")
+    centre = series("elevation")
+    fig = _new_figure(3.8)
+    ax = fig.add_subplot()
+    _style_axes(ax)
+    handles = []
+    (pipe,) = ax.plot(x, centre, color="#555555", lw=2.4, zorder=2, label="pipe centreline")
+    handles.append(pipe)
+    shown = [centre, series("max_grade")]
+    grade_cases = ["C1"]
+    low_case = route.get("min_pressure_case")
+    if low_case and low_case != "C1":
+        grade_cases.append(low_case)
+    styles = {0: (BLUE, "-", 1.3), 1: (BLUE, (0, (5, 2)), 1.0)}
+    for i, cid in enumerate(grade_cases):
+        profile = r["profile"] if cid == "C1" else r["cases"][cid]["profile"]
+        pts = [n for n in profile["nodes"] if "pressure_head" in n]
+        xs = np.array([d.raw(n["distance"], "m", "length") for n in pts])
+        hs = np.array([d.raw(n["hgl"], "m", "length") for n in pts])
+        color, ls, lw = styles[i]
+        label = "HGL, design case C1" if cid == "C1" else f"HGL, case {cid} (lowest pressure)"
+        (line,) = ax.plot(xs, hs, color=color, ls=ls, lw=lw, label=label)
+        handles.append(line)
+        shown.append(hs)
+    (top,) = ax.plot(x, series("max_grade"), color=RUST, lw=1.3, label="highest grade line")
+    handles.append(top)
+    rating = series("rating_grade")
+    if np.any(np.isfinite(rating)):
+        (rated,) = ax.plot(
+            x, rating, color="#8a1c1c", lw=1.0, ls=(0, (1, 1.2)), label="rating, as a grade line"
+        )
+        handles.append(rated)
+        shown.append(rating[np.isfinite(rating)])
+    vapour = series("vapour_grade")
+    floor = float(np.nanmin(vapour)) if np.any(np.isfinite(vapour)) else float(np.nanmin(centre))
+    if np.any(np.isfinite(vapour)):
+        (vap,) = ax.plot(x, vapour, color=GREY, lw=0.8, ls=(0, (3, 2)), label="vapour pressure")
+        handles.append(vap)
+    down = series("downsurge_grade")
+    if np.any(np.isfinite(down)):
+        parted = any(n.get("column_separation") for n in nodes)
+        label = "downsurge, pump trip" + (" (column parts)" if parted else "")
+        (dl,) = ax.plot(x, down, color=BLUE, lw=1.0, ls=":", label=label)
+        handles.append(dl)
+    highs = route.get("high_points", [])
+    if highs:
+        (hp,) = ax.plot(
+            [d(h["distance"], "length") for h in highs],
+            [d(h["elevation"], "length") for h in highs],
+            ls="none", marker="^", ms=7, mfc="white", mec=INK, mew=0.9, zorder=6,
+            label="high point (air valve)",
+        )  # fmt: skip
+        handles.append(hp)
+    lo = min(floor, float(np.nanmin(centre)))
+    hi = max(float(np.nanmax(y)) for y in shown)
+    span = max(hi - lo, 1.0)
+    length = max(float(np.nanmax(x) - np.nanmin(x)), 1e-9)
+    ax.set_xlim(float(np.nanmin(x)) - 0.02 * length, float(np.nanmax(x)) + 0.02 * length)
+    ax.set_ylim(lo - 0.08 * span, hi + 0.08 * span)
+    ax.set_xlabel(f"Distance along route [{hu}]")
+    ax.set_ylabel(f"Elevation [{hu}]")
+    _legend_above(ax, handles)
+    title = (
+        "Pressure along the route: the pipe centreline against the hydraulic grade lines of "
+        "the design case and of the case with the lowest pressure, the highest grade line "
+        "(the pump's highest head against a closed line, or the screened upsurge), the "
+        "ratings as grade lines, the downsurge and the vapour-pressure line; the pressure "
+        "head at a point is the height of a grade line above the pipe"
+    )
+    return fig, title
+
+
+# --------------------------------------------------------------------------
+# 8. Energy over the duty profile
+
+
+def _draw_energy(trace: dict[str, Any]) -> tuple[Any, str]:
+    r = _results(trace, "energy")
+    d = _Display(trace)
+    rows = r["energy"]["profile"]
+    labels = [f"{row['point']}\n{_num(d(row['flow'], 'flow'))} {d.label('flow')}" for row in rows]
+    power = np.array([d(row["electrical_power"], "power") for row in rows])
+    hours = [row["hours"] for row in rows]
+    fig = _new_figure(3.2)
+    ax = fig.add_subplot()
+    _style_axes(ax, grid="y")
+    pos = np.arange(len(rows))
+    bars = ax.bar(pos, power, width=0.55, color=BLUE, label=f"input power [{d.label('power')}]")
+    ax.set_xticks(pos, labels)
+    ax.set_ylabel(f"Input power [{d.label('power')}]")
+    ax.set_ylim(0, float(power.max()) * 1.25)
+    for bar, h in zip(bars, hours, strict=True):  # inside the bar, clear of the cost line
+        ax.annotate(
+            f"{h:,.0f} h/yr", (bar.get_x() + bar.get_width() / 2, bar.get_height()),
+            xytext=(0, -4), textcoords="offset points", ha="center", va="top", color="white",
+        )  # fmt: skip
+    handles = [bars]
+    costs = [row.get("annual_cost") for row in rows]
+    if all(costs):
+        currency = str(costs[0]["unit"])  # type: ignore[index]
+        twin = ax.twinx()
+        values = [float(c["value"]) for c in costs]  # type: ignore[index]
+        (line,) = twin.plot(
+            pos, values, color=RUST, marker="o", ms=5, lw=1.2,
+            label=f"running cost a year [{currency}]",
+        )  # fmt: skip
+        twin.set_ylim(0, max(values) * 1.25)
+        twin.set_ylabel(f"Running cost a year [{currency}]")
+        handles.append(line)
+    _legend_above(ax, handles)
+    control = str(r["energy"].get("control", "")).replace("_", "-")
+    title = (
+        f"Duty profile ({control} control): electrical input power at each point, with the "
+        "hours a year spent there, and each point's share of the annual energy cost"
     )
     return fig, title

@@ -917,6 +917,7 @@ class _Report:
                 "above the pipe (otherwise it runs part-full or as a siphon)."
             )
         out += [self.p(line) for line in lines]
+        out += self.figure("route_pressure")
         return out + self.worked(steps)
 
     def profile_section(self, shown: set[str]) -> list[Flowable]:
@@ -977,6 +978,7 @@ class _Report:
             cost = energy.get("throttling_cost")
             money = f", {cost['value']:,.0f} {text(cost['unit'])} a year" if cost else ""
             out.append(self.p(f"Energy burnt in the throttling valve: {lost}{money}."))
+        out += self.figure("energy")
         steps = [st for st in self.t["steps"] if _PROFILE_STEP.match(st["id"])]
         fresh = [st for st in steps if st["function"] not in shown]
         out += self.examples(fresh)
