@@ -330,3 +330,58 @@ def test_equation_drawn_again_on_a_canvas_repeats_its_operators() -> None:
     fresh.showPage()
     pdf = fresh.getpdfdata()
     assert b"/FontFile2" in pdf  # the glyphs' font is embedded in the new document
+
+
+# -- equation layouts kept between builds -------------------------------------------------
+
+
+@pytest.fixture
+def fresh_layouts(tmp_path, monkeypatch):
+    """An empty cache folder and no layouts remembered in this process."""
+    from calcreport.report import mathtext
+
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path))
+    monkeypatch.delenv("CALCREPORT_CACHE", raising=False)
+
+    def clear() -> None:
+        mathtext._layout.cache_clear()
+        mathtext._stored.cache_clear()
+        mathtext._PARSED.clear()
+
+    clear()
+    yield tmp_path
+    clear()
+
+
+def test_layouts_are_cached_between_builds_and_read_back_unchanged(fresh_layouts, monkeypatch):
+    from calcreport.report import mathtext
+
+    latex = r"Re = \frac{\rho v D}{\mu}"
+    first = mathtext._layout(latex, 10.5)
+    mathtext.save_layouts()
+    files = list((fresh_layouts / "calcreport").glob("mathtext-*.json"))
+    assert len(files) == 1
+    # A new run: nothing remembered, and parsing would fail; the file serves the layout.
+    mathtext._layout.cache_clear()
+    mathtext._stored.cache_clear()
+
+    def no_parse(*args):
+        raise AssertionError("parsed again")
+
+    monkeypatch.setattr(mathtext, "_parse", no_parse)
+    assert mathtext._layout(latex, 10.5) == first
+
+
+def test_layout_cache_off_writes_nothing_and_a_bad_file_is_ignored(fresh_layouts, monkeypatch):
+    from calcreport.report import mathtext
+
+    monkeypatch.setenv("CALCREPORT_CACHE", "off")
+    mathtext._layout(r"H = z_d - z_s", 10.5)
+    mathtext.save_layouts()
+    assert not (fresh_layouts / "calcreport").exists()
+    monkeypatch.delenv("CALCREPORT_CACHE")
+    path = mathtext._cache_file()
+    path.parent.mkdir(parents=True)
+    path.write_text("{ not json", encoding="utf-8")
+    mathtext._stored.cache_clear()
+    assert mathtext._stored() == {}

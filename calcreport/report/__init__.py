@@ -31,6 +31,7 @@ def render(
     changes and a change mark beside every step whose value moved.
     """
     from calcreport.report.document import render_pdf
+    from calcreport.report.mathtext import save_layouts
 
     changes = None
     if previous is not None:
@@ -38,6 +39,7 @@ def render(
 
         changes = diff(previous, trace, "previous", "this revision")
     pdf, pages = render_pdf(trace, input_text, _figures(trace), changes)
+    save_layouts()
     return Rendered(pdf, pages)
 
 

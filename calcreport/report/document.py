@@ -63,7 +63,6 @@ _PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
 _ROUTE_CHECKS = ("min_pressure", "pressure_rating", "surge")
 # Longest node table printed in full; a longer route prints its governing nodes.
 MAX_NODE_ROWS = 60
-MAX_WORKED_STEPS = 30
 
 # Kind of quantity for display, by SI unit.
 _KIND_OF_UNIT = {
@@ -140,6 +139,7 @@ class _Report:
         self.system = trace["project"]["units"]
         self.input_text = input_text
         self.figures = figures
+        self.typeset: set[str] = set()  # equations already typeset, by function
         self.s = style.styles()
         self.figure_count = 0
         self.refs = {key: n for n, key in enumerate(trace["references"], start=1)}
@@ -757,7 +757,9 @@ class _Report:
         out.append(self.table(rows, [w * 0.42, w * 0.3, w * 0.28]))
         return out
 
-    def step_block(self, st: dict[str, Any]) -> list[Flowable]:
+    def step_block(self, st: dict[str, Any], typeset: bool = True) -> list[Flowable]:
+        """A step: title and id, the typeset equation (when ``typeset``), the substituted
+        line, the result and its inputs."""
         s = self.s
         mark = self.marks.get(st["id"], "")
         head = (
@@ -766,7 +768,10 @@ class _Report:
         )
         title = self.p(head, s.step_head)
         title._step = st["id"]  # type: ignore[attr-defined]
-        parts: list[Flowable] = [title, Equation(st["latex"], 10.5)]
+        parts: list[Flowable] = [title]
+        if typeset:
+            parts.append(Equation(st["latex"], 10.5))
+            self.typeset.add(st["function"])
         parts.append(self.p(text(st["substituted"]), s.substituted))
         result = {"value": st["value"], "unit": st["unit"]}
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
@@ -918,7 +923,11 @@ class _Report:
             )
         out += [self.p(line) for line in lines]
         out += self.figure("route_pressure")
-        return out + self.worked(steps)
+        # One worked step of each equation, those of the case that governs the lowest
+        # pressure first; every step is listed in Appendix A.
+        low = next((c["case"] for c in self.t["checks"] if c["id"] == "min_pressure"), "C1")
+        steps = sorted(steps, key=lambda st: (st.get("case") or "C1") != low)
+        return out + self.examples(steps)
 
     def profile_section(self, shown: set[str]) -> list[Flowable]:
         """The duty profile: a row per point, then one worked step of each new equation."""
@@ -1029,13 +1038,7 @@ class _Report:
                 self.s.small,
             )
         )
-        return out + self.worked(steps)
-
-    def worked(self, steps: list[dict[str, Any]]) -> list[Flowable]:
-        """Every step when they are few, else one worked step of each equation."""
-        if len(steps) > MAX_WORKED_STEPS:
-            return self.examples(steps)
-        return [block for st in steps for block in self.step_block(st)]
+        return out + self.examples(steps)
 
     def num(self, quantity: dict[str, Any], kind: str) -> str:
         """A value in the report's display unit, without the unit (table cells)."""
@@ -1208,8 +1211,15 @@ class _Report:
 
     def appendix(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Appendix A — Full step listing", numbered=False)]
+        out.append(
+            self.p(
+                "Every step of every case, in the order computed: its substituted equation, "
+                "result and inputs. Each equation is typeset once, with its first worked step "
+                "(in the calculation section, or here)."
+            )
+        )
         for st in self.t["steps"]:
-            out += self.step_block(st)
+            out += self.step_block(st, typeset=st["function"] not in self.typeset)
         out += [
             PageBreak(),
             self.heading("Appendix B — Darcy friction factor chart", numbered=False),

@@ -10,10 +10,22 @@ printed again (a step repeated for every pipe). The fonts are the ones
 matplotlib ships for its ``dejavusans`` mathtext set (DejaVu Sans, with STIX
 size variants for tall delimiters; Bitstream Vera and SIL Open Font
 licences, in matplotlib's ``mpl-data/fonts``).
+
+Parsing is the costly part (about 10 ms an equation), and a report's equations
+are the same from one build to the next, so layouts are also kept in a cache
+file under the user's cache folder (``$XDG_CACHE_HOME/calcreport``, else
+``~/.cache/calcreport``), one per matplotlib installation and calcreport
+version: a rebuild reads them instead of parsing. The cache holds exactly
+what the parser returned, so the PDF bytes do not depend on it; any problem
+reading or writing it only means parsing again. ``CALCREPORT_CACHE=off``
+turns it off.
 """
 
 from __future__ import annotations
 
+import hashlib
+import json
+import os
 from functools import cache
 from pathlib import Path
 from typing import Any
@@ -21,7 +33,10 @@ from weakref import WeakKeyDictionary
 
 from reportlab.platypus import Flowable
 
-__all__ = ["Equation"]
+__all__ = ["Equation", "save_layouts"]
+
+# Layouts parsed in this run and not yet in the cache file, by cache key.
+_PARSED: dict[str, list[Any]] = {}
 
 
 @cache
@@ -42,21 +57,76 @@ def _font(path: str) -> str:
     return name
 
 
+def _parse(latex: str, size: float) -> list[Any]:
+    """matplotlib's layout: width, ascent, depth, glyphs (font file, size, char, x, y)
+    and rules (x, y, w, h), as plain lists (the cache file's form)."""
+    from matplotlib.font_manager import FontProperties
+
+    prop = FontProperties(family="DejaVu Sans", size=size, math_fontfamily="dejavusans")
+    width, height, depth, glyphs, rects = _parser().parse(f"${latex}$", 72, prop)
+    placed = [
+        [font.fname, float(fontsize), chr(code), float(x), float(y)]
+        for font, fontsize, code, _, x, y in glyphs
+    ]
+    rules = [[float(x), float(y), float(w), float(h)] for x, y, w, h in rects]
+    return [float(width), float(height - depth), float(depth), placed, rules]
+
+
 @cache
 def _layout(
     latex: str, size: float
 ) -> tuple[float, float, float, tuple[Any, ...], tuple[Any, ...]]:
     """Width, ascent, depth, glyphs (font, size, char, x, y) and rules (x, y, w, h)."""
-    from matplotlib.font_manager import FontProperties
+    key = f"{size!r} {latex}"
+    raw = _stored().get(key)
+    if raw is None:
+        raw = _PARSED[key] = _parse(latex, size)
+    width, ascent, depth, glyphs, rules = raw
+    placed = tuple((_font(path), size_, char, x, y) for path, size_, char, x, y in glyphs)
+    return width, ascent, depth, placed, tuple(tuple(rule) for rule in rules)
 
-    prop = FontProperties(family="DejaVu Sans", size=size, math_fontfamily="dejavusans")
-    width, height, depth, glyphs, rects = _parser().parse(f"${latex}$", 72, prop)
-    placed = tuple(
-        (_font(font.fname), float(fontsize), chr(code), float(x), float(y))
-        for font, fontsize, code, _, x, y in glyphs
-    )
-    rules = tuple((float(x), float(y), float(w), float(h)) for x, y, w, h in rects)
-    return float(width), float(height - depth), float(depth), placed, rules
+
+def _cache_file() -> Path | None:
+    if os.environ.get("CALCREPORT_CACHE", "").lower() == "off":
+        return None
+    import matplotlib
+
+    from calcreport import __version__
+
+    where = f"{matplotlib.__version__}\0{matplotlib.get_data_path()}\0{__version__}"
+    name = f"mathtext-{hashlib.sha256(where.encode()).hexdigest()[:16]}.json"
+    root = os.environ.get("XDG_CACHE_HOME") or Path.home() / ".cache"
+    return Path(root) / "calcreport" / name
+
+
+@cache
+def _stored() -> dict[str, list[Any]]:
+    """The layouts of the cache file (none when it is off, absent or unreadable)."""
+    path = _cache_file()
+    try:
+        data = json.loads(path.read_text(encoding="utf-8")) if path else {}
+    except (OSError, ValueError):
+        return {}
+    fonts = {glyph[0] for layout in data.values() for glyph in layout[3]}
+    return data if isinstance(data, dict) and all(Path(f).is_file() for f in fonts) else {}
+
+
+def save_layouts() -> None:
+    """Add the layouts parsed in this run to the cache file (best effort, atomic)."""
+    path = _cache_file()
+    if not _PARSED or path is None:
+        return
+    data = {**_stored(), **_PARSED}
+    temporary = path.with_name(f"{path.name}.{os.getpid()}.tmp")
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        temporary.write_text(json.dumps(data, ensure_ascii=False), encoding="utf-8")
+        os.replace(temporary, path)
+    except OSError:
+        temporary.unlink(missing_ok=True)
+        return
+    _stored().update(_PARSED)
+    _PARSED.clear()
 
 
 # The text operators of the equations drawn on each canvas, by string and size. Drawn
