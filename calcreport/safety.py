@@ -290,7 +290,7 @@ class Route:
         out["pressure_case"] = (
             "shutoff at the top speed, highest source level"
             if H_max is not None
-            else "operating cases only (pump not selected)"
+            else "the operating cases only, no pump curve being given"
         )
 
         recorded: dict[str, Given] = {}

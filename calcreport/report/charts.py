@@ -1834,10 +1834,11 @@ def _draw_route_pressure(trace: dict[str, Any]) -> tuple[Any, str]:
         hs = np.array([d.raw(n["hgl"], "m", "length") for n in pts])
         color, ls, lw = styles[i]
         label = "HGL, design case C1" if cid == "C1" else f"HGL, case {cid} (lowest pressure)"
-        (line,) = ax.plot(xs, hs, color=color, ls=ls, lw=lw, label=label)
+        (line,) = ax.plot(xs, hs, color=color, ls=ls, lw=lw, label=label, zorder=4)
         handles.append(line)
         shown.append(hs)
-    (top,) = ax.plot(x, series("max_grade"), color=RUST, lw=1.3, label="highest grade line")
+    # Drawn under the HGL: without a pump curve the highest grade line is the highest HGL.
+    (top,) = ax.plot(x, series("max_grade"), color=RUST, lw=2.0, label="highest grade line")
     handles.append(top)
     rating = series("rating_grade")
     if np.any(np.isfinite(rating)):
@@ -1875,12 +1876,24 @@ def _draw_route_pressure(trace: dict[str, Any]) -> tuple[Any, str]:
     ax.set_xlabel(f"Distance along route [{hu}]")
     ax.set_ylabel(f"Elevation [{hu}]")
     _legend_above(ax, handles)
+    lines = ["the hydraulic grade line of the design case"]
+    if len(grade_cases) > 1:
+        lines[0] = "the hydraulic grade lines of the design case and of the lowest-pressure case"
+    lines.append(
+        "the highest grade line (the pump's highest head against a closed line, or the "
+        "screened upsurge)"
+        if any(n["basis"] != "operating" for n in nodes)
+        else "the highest grade line (the highest operating HGL: no pump curve is given)"
+    )
+    if np.any(np.isfinite(rating)):
+        lines.append("the ratings as grade lines")
+    if np.any(np.isfinite(down)):
+        lines.append("the downsurge of a pump trip")
+    if np.any(np.isfinite(vapour)):
+        lines.append("the vapour-pressure line")
     title = (
-        "Pressure along the route: the pipe centreline against the hydraulic grade lines of "
-        "the design case and of the case with the lowest pressure, the highest grade line "
-        "(the pump's highest head against a closed line, or the screened upsurge), the "
-        "ratings as grade lines, the downsurge and the vapour-pressure line; the pressure "
-        "head at a point is the height of a grade line above the pipe"
+        f"Pressure along the route: the pipe centreline against {', '.join(lines)}; the "
+        "pressure head at a point is the height of a grade line above the pipe"
     )
     return fig, title
 
