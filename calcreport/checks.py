@@ -33,8 +33,11 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         if "check_valve_min_velocity" in results["pipes"][pipe.id]:
             found.append(_check_valve(results["pipes"][pipe.id], pipe.id, case))
     found.append(_npsh_positive(results, case))
-    if "route" in results:
-        found.append(_min_pressure(model, results["route"], case))
+    route = results.get("route", {})
+    if "min_pressure_head" in route:
+        found.append(_min_pressure(model, route, case))
+    if "suction_min_pressure_head" in route:
+        found.append(_suction_pressure(route, case))
     if "intake" in results:
         found.append(_submergence(results["intake"], case))
     if model.pump.curve is None:
@@ -625,4 +628,27 @@ def _check_valve(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
         if ok
         else f"{v:.3g} m/s is below {v_min:.3g} m/s: size the valve smaller or choose another type",
         margin=v - v_min,
+    )
+
+
+def _suction_pressure(route: dict[str, Any], case: str) -> Check:
+    """The suction line's lowest pressure: below atmospheric is allowed, vapour is not."""
+    h, h_vap = route["suction_min_pressure_head"]["value"], route["vapour_head"]["value"]
+    node = route["suction_min_pressure_node"]
+    ok = h > h_vap
+    return Check(
+        id="suction_pressure",
+        title="Suction line above vapour pressure",
+        status="pass" if ok else "fail",
+        value=h,
+        unit="m",
+        limit=h_vap,
+        comparison=">",
+        basis="The suction line may run below atmospheric pressure (a suction lift), but where "
+        "it reaches the liquid's vapour pressure the liquid boils and the column breaks "
+        "before the pump",
+        reference="white_fm",
+        case=case,
+        message=f"lowest at {node}" + ("" if ok else ": the liquid boils in the suction line"),
+        margin=h - h_vap,
     )

@@ -202,18 +202,24 @@ class Route:
         return self._vapour[st.case.id]
 
     def case_route(self, st: State) -> dict[str, Any] | None:
-        """Lowest pressure of the pressurised line in one case, as steps."""
+        """Lowest pressures of the discharge line and of the suction line in one case, as
+        steps (the suction may run below atmospheric by design, but not to vapour)."""
         line = _line_nodes(self.model, st.profile["nodes"])
-        if not line:
+        suction = [
+            n for n in st.profile["nodes"] if n.get("side") == "suction" and "pressure_head" in n
+        ]
+        if not line and not suction:
             return None
-        lowest = min(line, key=lambda n: n["pressure_head"])
-        h_min = self.node_head(st, lowest)
-        h_vap = self.vapour_head(st)
-        return {
-            "min_pressure_head": _q(h_min),
-            "min_pressure_node": lowest["name"],
-            "vapour_head": _q(h_vap),
-        }
+        out: dict[str, Any] = {"vapour_head": _q(self.vapour_head(st))}
+        if line:
+            lowest = min(line, key=lambda n: n["pressure_head"])
+            out["min_pressure_head"] = _q(self.node_head(st, lowest))
+            out["min_pressure_node"] = lowest["name"]
+        if suction:
+            lowest = min(suction, key=lambda n: n["pressure_head"])
+            out["suction_min_pressure_head"] = _q(self.node_head(st, lowest))
+            out["suction_min_pressure_node"] = lowest["name"]
+        return out
 
     # -- all cases -----------------------------------------------------------
 
@@ -241,11 +247,23 @@ class Route:
             crest = max(line, key=lambda n: n["elevation"])
             above = crest["elevation"] - design.case.destination_level.value
             if above > 0.0:
+                # Full-pipe flow over the crest needs a positive head there in every case;
+                # where it is negative the crest, not the destination, sets the lift.
+                below = [st.case.id for st in states.values() if _head_at(st, crest["name"]) < 0.0]
                 out["crest"] = {
                     "node": crest["name"],
                     "elevation": quantity(crest["elevation"], "m"),
                     "above_destination": quantity(above, "m"),
+                    "controls_flow": bool(below),
+                    "cases_below_atmospheric": below,
                 }
+                if below:
+                    notes.append(
+                        f"The crest at {crest['name']} controls the flow in case(s) "
+                        f"{', '.join(below)}: its grade line falls below the pipe, so beyond it "
+                        "the line runs part-full, or as a siphon only if primed and kept free of "
+                        "air; the pump must lift to the crest, not to the destination."
+                    )
         densest = max(states.values(), key=lambda st: st.liquid.density.value)
         H_max, basis = self._max_head(curve, notes)
         z_s = model.source.level_high or model.source.level

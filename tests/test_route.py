@@ -252,3 +252,34 @@ def test_input_problems_of_the_route_keys():
     messages = " ".join(p.message for p in err.value.problems)
     assert '"D1"' in messages or '"D2"' in messages  # a suggestion for the pipe id
     assert '"anchored"' in messages
+
+
+def test_crest_says_when_it_controls_the_flow():
+    over = _solve(30.0).results["route"]["crest"]
+    assert over["controls_flow"] and over["cases_below_atmospheric"] == ["C1"]
+    assert not _solve(26.0).results["route"]["crest"]["controls_flow"]
+
+
+def test_suction_line_may_run_below_atmospheric_but_not_to_vapour():
+    def lift(z_pump: float):
+        text = (
+            ROUTE.replace("CREST", "26.0")
+            .replace('[pump]\nelevation = "0 m"', f'[pump]\nelevation = "{z_pump} m"')
+            .replace(
+                'elevation_start = "0 m"\nelevation_end = "0 m"',
+                f'elevation_start = "0 m"\nelevation_end = "{z_pump} m"',
+            )
+            .replace(
+                'elevation_start = "0 m"\nelevation_end = "26.0 m"',
+                f'elevation_start = "{z_pump} m"\nelevation_end = "26.0 m"',
+            )
+        )
+        t = solve(loads(text.encode()))
+        return t, _check(t, "suction_pressure")
+
+    t, check = lift(6.0)  # a 4 m suction lift: about -4.4 m gauge at the pump, above vapour
+    h = t.results["cases"]["C1"]["route"]["suction_min_pressure_head"]["value"]
+    assert check.status == "pass" and -5.0 < h < -4.0
+    assert t.results["cases"]["C1"]["route"]["suction_min_pressure_node"] == "S1 end"
+    _, check = lift(12.0)  # a 10 m lift at 20 degC: below the vapour head (-10.1 m)
+    assert check.status == "fail" and "boils" in check.message

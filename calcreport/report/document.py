@@ -915,11 +915,17 @@ class _Report:
             lines.append(f"High points (air-valve candidates): {listed}.")
         if "crest" in route:
             c = route["crest"]
+            verdict = (
+                f"in case(s) {text(', '.join(c['cases_below_atmospheric']))} the grade line "
+                "falls below the crest: there the crest controls the flow, and the line beyond "
+                "runs part-full, or as a siphon only if primed"
+                if c.get("controls_flow")
+                else "the grade line stays above it in every case, so the line runs full"
+            )
             lines.append(
                 f"The route rises {self.q(c['above_destination'], 'length')} above the "
                 f"destination at {text(c['node'])}: the pump must lift the liquid over this "
-                "crest, and beyond it the line flows full only while the grade line stays "
-                "above the pipe (otherwise it runs part-full or as a siphon)."
+                f"crest; {verdict}."
             )
         out += [self.p(line) for line in lines]
         out += self.figure("route_pressure")
