@@ -953,6 +953,15 @@ def _motor(
         head=curve.head,
         efficiency=curve.efficiency,
     )
+    required = peak
+    if model.motor_derating is not None:
+        required = b.step(
+            "motor.required_output",
+            "Rated output needed with the site derating",
+            motor.derated_requirement,
+            P=peak,
+            k=model.motor_derating,
+        )
     series, unit = ("NEMA", "hp") if model.project.units == "US" else ("IEC", "kW")
     ratings = [
         b.datum(f"catalog.motor_ratings.{series}[{i}]", value, "W")
@@ -963,12 +972,15 @@ def _motor(
             "motor.rated_power",
             f"Motor rating ({series} series, {unit})",
             motor.standard_rating,
-            P=peak,
+            P=required,
             ratings=ratings,
         )
     except ValueError:
         return {"peak_shaft_power": _q(peak)}
-    return {"peak_shaft_power": _q(peak), "rated_power": _q(rated), "series": series}
+    out = {"peak_shaft_power": _q(peak), "rated_power": _q(rated), "series": series}
+    if model.motor_derating is not None:
+        out["derating"] = _q(model.motor_derating)
+    return out
 
 
 def _motor_loading(motor: dict[str, Any], by_case: dict[str, dict[str, Any]]) -> dict[str, Any]:

@@ -126,8 +126,11 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
     if "surge" in results:
         found.append(_surge(results["surge"]))
     motor = results.get("motor", {})
+    site = _motor_site(model, motor)
+    if site:
+        found.append(site)
     if "rated_power" in motor:
-        rated = motor["rated_power"]["value"]
+        rated = motor["rated_power"]["value"] * motor.get("derating", {"value": 1.0})["value"]
         peak = motor["peak_shaft_power"]["value"]
         found.append(
             Check(
@@ -139,7 +142,8 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
                 limit=rated,
                 comparison="<=",
                 basis="Non-overloading selection: the motor rating at service "
-                "factor 1.0 is not below the largest shaft power anywhere on the pump curve",
+                "factor 1.0 (times the site derating, where given) is not below the largest "
+                "shaft power anywhere on the pump curve",
                 reference="karassik_2008",
                 case="all",
             )
@@ -651,4 +655,39 @@ def _suction_pressure(route: dict[str, Any], case: str) -> Check:
         case=case,
         message=f"lowest at {node}" + ("" if ok else ": the liquid boils in the suction line"),
         margin=h - h_vap,
+    )
+
+
+# IEC 60034-1 and NEMA MG 1 rate motors for sites up to 1000 m and 40 degC coolant.
+MOTOR_ALTITUDE_MAX = 1000.0
+MOTOR_AMBIENT_MAX = 313.15
+
+
+def _motor_site(model: Model, motor: dict[str, Any]) -> Check | None:
+    """A site beyond the motor standard's usual conditions needs the maker's derating."""
+    if "rated_power" not in motor:
+        return None
+    high = model.site.elevation is not None and model.site.elevation.value > MOTOR_ALTITUDE_MAX
+    hot = model.motor_ambient is not None and model.motor_ambient.value > MOTOR_AMBIENT_MAX
+    if not (high or hot):
+        return None
+    derated = model.motor_derating is not None
+    beyond = " and ".join(
+        w for w, on in (("above 1000 m", high), ("above 40 °C ambient", hot)) if on
+    )
+    return Check(
+        id="motor_site_derating",
+        title="Motor derated for its site",
+        status="pass" if derated else "review",
+        value=model.motor_derating.value if derated else None,
+        unit="",
+        limit=None,
+        comparison="given",
+        basis="Rated output holds up to 1000 m altitude and 40 °C coolant (IEC 60034-1, NEMA "
+        "MG 1 usual service conditions); beyond them the manufacturer's derating factor "
+        "(motor.derating) applies",
+        reference="iec_60034_1",
+        case="all",
+        message=f"site {beyond}"
+        + ("; derating applied" if derated else ": give motor.derating from the motor maker"),
     )

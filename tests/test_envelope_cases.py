@@ -172,3 +172,29 @@ def test_motor_efficiency_from_its_class_at_the_selected_rating():
     with pytest.raises(InputError) as err:
         loads((text_us + _analytic_curve()).encode())
     assert "motor.efficiency_class" in {p.key for p in err.value.problems}
+
+
+def test_motor_derated_for_a_high_site():
+    # IEC 60034-1: rated output up to 1000 m and 40 degC. At 1500 m without a derating the
+    # check asks for one; with k = 0.8 the rating must cover P_peak / 0.8.
+    from test_calc import _analytic_curve
+
+    base = CASE.replace("efficiency = 0.78\n", "").replace(
+        "[source]", '[site]\nelevation = "1500 m"\n[source]'
+    )
+    t = solve(loads((base + _analytic_curve()).encode()))
+    site = next(c for c in t.checks if c.id == "motor_site_derating")
+    assert site.status == "review" and "1000 m" in site.message
+    derated = base.replace(
+        "[motor]\nefficiency = 0.92", "[motor]\nefficiency = 0.92\nderating = 0.8"
+    )
+    t = solve(loads((derated + _analytic_curve()).encode()))
+    motor = t.results["motor"]
+    peak = motor["peak_shaft_power"]["value"]
+    assert t.step("motor.required_output").value == pytest.approx(peak / 0.8)
+    assert motor["rated_power"]["value"] * 0.8 >= peak
+    assert next(c for c in t.checks if c.id == "motor_site_derating").status == "pass"
+    check = next(c for c in t.checks if c.id == "motor_non_overloading")
+    assert check.status == "pass" and check.limit == pytest.approx(
+        motor["rated_power"]["value"] * 0.8
+    )

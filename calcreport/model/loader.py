@@ -485,7 +485,11 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
     pump_data = r.table(data, "pump", "pump", required=True)
     pump = _pump(r, pump_data) if pump_data is not None else None
     motor = r.table(data, "motor", "motor", required=False) or {}
-    r.known_keys(motor, "motor", {"efficiency", "efficiency_class"})
+    r.known_keys(
+        motor, "motor", {"efficiency", "efficiency_class", "derating", "ambient_temperature"}
+    )
+    motor_derating = r.quantity(motor, "derating", "motor", "dimensionless", fraction=True)
+    motor_ambient = r.quantity(motor, "ambient_temperature", "motor", "temperature")
     motor_class = (
         r.text(motor, "efficiency_class", "motor", "", MOTOR_CLASSES)
         if ("efficiency_class" in motor)
@@ -604,6 +608,8 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         components=components,
         surge=surge,
         motor_class=motor_class,
+        motor_derating=motor_derating,
+        motor_ambient=motor_ambient,
     )
 
 

@@ -228,6 +228,8 @@ class Model:
     fittings_method: str = "two_k"  # two_k (Hooper) | three_k (Darby), for named fittings
     files: tuple[dict[str, str], ...] = ()  # other files read (curve CSV): path, SHA-256
     motor_class: str = ""  # IE2 | IE3: motor efficiency from the class table at its rating
+    motor_derating: Given | None = None  # site derating factor of the motor's output
+    motor_ambient: Given | None = None  # ambient (coolant) temperature at the motor
     components: tuple[Component, ...] = ()
     surge: Surge | None = None  # None: no surge screening asked for
 

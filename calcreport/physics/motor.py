@@ -10,7 +10,7 @@ from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["standard_rating"]
+__all__ = ["derated_requirement", "standard_rating"]
 
 
 def _ratings_text(values: dict[str, Any], result: float, fmt: Any) -> str:
@@ -67,3 +67,42 @@ def standard_rating(P: Any, ratings: Any) -> Any:
         f"a motor of {P / 1e3:.4g} kW exceeds the largest standard rating listed "
         f"({ratings[-1] / 1e3:.4g} kW)"
     )
+
+
+@equation(
+    symbol="P_req",
+    text="P_req = P/k",
+    latex=r"P_{req} = \frac{P}{k}",
+    substitute="{P} / {k}",
+    reference="iec_60034_1",
+)
+def derated_requirement(P: Any, k: Any) -> Any:
+    r"""Nameplate output a motor needs when its site derates it.
+
+    .. math:: P_{req} = \frac{P}{k}
+
+    Parameters
+    ----------
+    P : float
+        Largest shaft power the motor must deliver [W]
+    k : float
+        Derating factor for the site's altitude and ambient temperature, from the
+        motor manufacturer [-]
+
+    Returns
+    -------
+    P_req : float
+        Required rated output [W]
+
+    Examples
+    --------
+    >>> derated_requirement(9000.0, 0.9)
+    10000.0
+
+    References
+    ----------
+    1. IEC 60034-1, Rotating electrical machines - Part 1: Rating and performance
+       (rated output holds up to 1000 m altitude and 40 °C coolant; beyond, the
+       manufacturer's derating applies).
+    """
+    return P / k
