@@ -51,6 +51,7 @@ class Liquid:
     density: Given
     viscosity: Given
     vapor_pressure: Given
+    pressure: Given | None = None  # absolute pressure the properties are taken at (water)
 
 
 @dataclass(frozen=True)
@@ -182,6 +183,9 @@ def solve(model: Model) -> Trace:
     results["route"] = route.envelope(states, top_curve, notes)
     if motor_rating:
         results["motor"] = _motor_loading(motor_rating, by_case)
+    thermal = _thermal_min_flow(b, model, liquid, curve, notes)
+    if thermal:
+        results["thermal_min_flow"] = thermal
     lift = _lift_speed(b, model, cases, by_case)
     if lift is not None:
         results["minimum_lift_speed"] = _q(lift)
@@ -890,6 +894,68 @@ def _regions(model: Model, q_bep: float) -> dict[str, Any]:
     return out
 
 
+def _thermal_min_flow(
+    b: TraceBuilder, model: Model, liquid: Liquid, curve: CurvePoints | None, notes: list[str]
+) -> dict[str, Any] | None:
+    """The least flow at which the pump's losses warm the liquid by no more than the limit.
+
+    Below the best-efficiency flow the temperature rise grows as the efficiency falls;
+    the root is sought between the first curve point and the BEP on the design curve.
+    """
+    if curve is None or not curve.efficiency or model.pump.efficiency_basis == "overall":
+        return None
+    if liquid.pressure is None or model.fluid.kind != "water":
+        notes.append("The thermal minimum flow is computed for water only.")
+        return None
+    limit, _, _, _ = checks.criterion(model, "temperature_rise_max")
+    T = model.fluid.temperature
+    cp = b.step(
+        "pump.thermal.heat_capacity",
+        "Specific heat capacity of water",
+        water.heat_capacity,
+        T=T,
+        p=liquid.pressure,
+    )
+    flows, heads, effs = curve.values("flow"), curve.values("head"), curve.values("efficiency")
+    q_bep, _ = pump.best_efficiency_point(flows, effs)
+
+    def margin(q: np.ndarray) -> np.ndarray:
+        eta = np.asarray(pump.monotone_cubic(flows, effs, q))
+        head = np.asarray(pump.monotone_cubic(flows, heads, q))
+        # Where the efficiency is nil the rise is unbounded: a large finite value keeps the
+        # bracketing root finder on finite numbers.
+        safe = np.where(eta > 1e-9, eta, 1.0)
+        rise = np.where(eta > 1e-9, pump.temperature_rise(head, safe, cp.value), 1e9)
+        return limit - rise
+
+    found = pump.operating_point(margin, flows[0], q_bep)
+    if found is None or margin(np.array([flows[0]]))[0] >= 0.0:
+        return None  # warmer than the limit even at the BEP, or never (no root to state)
+    Q = b.step(
+        "pump.thermal_min_flow",
+        "Thermal minimum flow (temperature rise at the limit)",
+        pump.solved_flow,
+        Q=b.solution(
+            "solver.thermal_min_flow",
+            found,
+            "m^3/s",
+            "bracketed root of ΔT_max − ΔT(Q) between the first curve point and the BEP, "
+            "Illinois method",
+        ),
+    )
+    H = b.step("pump.thermal.head", "Pump head at the thermal minimum flow", pump.head_at,
+               Q=Q, flow=curve.flow, head=curve.head)  # fmt: skip
+    eta = b.step("pump.thermal.efficiency", "Pump efficiency at the thermal minimum flow",
+                 pump.efficiency_at, Q=Q, flow=curve.flow, efficiency=curve.efficiency)  # fmt: skip
+    rise = b.step("pump.thermal.temperature_rise", "Temperature rise at the thermal minimum flow",
+                  pump.temperature_rise, H=H, eta=eta, cp=cp)  # fmt: skip
+    return {
+        "flow": _q(Q),
+        "temperature_rise": _q(rise),
+        "temperature_rise_max": quantity(limit, "K"),
+    }
+
+
 def _lift_speed(
     b: TraceBuilder, model: Model, cases: list[Case], by_case: dict[str, dict[str, Any]]
 ) -> Given | None:
@@ -1116,7 +1182,7 @@ def _liquid(
             "Liquid properties are those at the source surface pressure and the stated "
             "temperature throughout the system."
         )
-    return Liquid(rho, mu, p_v)
+    return Liquid(rho, mu, p_v, p if fluid.kind == "water" else None)
 
 
 def _seawater(b: TraceBuilder, model: Model, T: Given, prefix: str, at: str) -> Liquid:

@@ -17,7 +17,7 @@ from calcreport import catalog
 from calcreport.model.schema import Model
 from calcreport.trace import Check
 
-__all__ = ["evaluate", "governing", "once", "preferred_range"]
+__all__ = ["criterion", "evaluate", "governing", "once", "preferred_range"]
 
 _SEVERITY = {"fail": 0, "review": 1, "pass": 2}
 
@@ -120,6 +120,8 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
                 message="" if n_min > n_lift else "the minimum speed delivers no flow",
             )
         )
+    if "thermal_min_flow" in results:
+        found.append(_thermal(model, results))
     route = results.get("route", {})
     if "rating_check" in route:
         found.append(_pressure_rating(route))
@@ -221,7 +223,7 @@ def _worse(a: Check, b: Check) -> bool:
     return a.margin < b.margin
 
 
-def _limit(model: Model, name: str) -> tuple[float, str, str, bool]:
+def criterion(model: Model, name: str) -> tuple[float, str, str, bool]:
     """Limit value (SI), basis, reference key, and whether the project set it."""
     given = model.criteria.given.get(name)
     if given is not None:
@@ -249,7 +251,7 @@ def _velocity(
 ) -> list[Check]:
     v = pipe["velocity"]["value"]
     name = f"{side}_velocity_max"
-    limit, basis, ref, project = _limit(model, name)
+    limit, basis, ref, project = criterion(model, name)
     checks = [
         Check(
             id=f"velocity_max.{pipe_id}",
@@ -266,7 +268,7 @@ def _velocity(
             margin=limit - v,
         )
     ]
-    low, basis, ref, project = _limit(model, "velocity_min")
+    low, basis, ref, project = criterion(model, "velocity_min")
     checks.append(
         Check(
             id=f"velocity_min.{pipe_id}",
@@ -347,8 +349,8 @@ def _npsh_open_item(results: dict[str, Any], case: str) -> Check:
 def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], case: str) -> Check:
     npsha = results["npsh_available"]["value"]
     npshr = point["npsh_required"]["value"]
-    ratio, basis_r, ref, project_r = _limit(model, "npsh_margin_ratio")
-    minimum, _, _, project_m = _limit(model, "npsh_margin_min")
+    ratio, basis_r, ref, project_r = criterion(model, "npsh_margin_ratio")
+    minimum, _, _, project_m = criterion(model, "npsh_margin_min")
     needed = max(ratio * npshr, npshr + minimum)
     ok = npsha >= needed
     status = "pass" if ok else ("fail" if npsha <= npshr or project_r or project_m else "review")
@@ -376,7 +378,7 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], c
 
 def _duty(model: Model, results: dict[str, Any], point: dict[str, Any], case: str) -> Check:
     q, required = point["flow"]["value"], results["required_flow"]["value"]
-    margin, _, _, project = _limit(model, "duty_flow_margin")
+    margin, _, _, project = criterion(model, "duty_flow_margin")
     needed = required * (1.0 + margin)
     ok = q >= needed * (1 - 1e-9)
     grade = model.pump.provenance.get("acceptance_grade")
@@ -416,8 +418,8 @@ def preferred_range(model: Model) -> tuple[float, float, str, str]:
             "Preferred operating region from the pump data (pump.preferred_range)",
             "input",
         )
-    low, basis, ref, _ = _limit(model, "preferred_flow_low")
-    high, _, _, _ = _limit(model, "preferred_flow_high")
+    low, basis, ref, _ = criterion(model, "preferred_flow_low")
+    high, _, _, _ = criterion(model, "preferred_flow_high")
     return low, high, basis, ref
 
 
@@ -492,7 +494,7 @@ def _min_pressure(model: Model, route: dict[str, Any], case: str) -> Check:
     """The lowest pressure of the pressurised line: positive, and above the criterion."""
     h = route["min_pressure_head"]["value"]
     node = route["min_pressure_node"]
-    limit, basis, ref, project = _limit(model, "min_pressure_head")
+    limit, basis, ref, project = criterion(model, "min_pressure_head")
     if h <= route["vapour_head"]["value"]:
         status, message = "fail", f"{node} at vapour pressure: the liquid column separates"
     elif h < 0.0:
@@ -690,4 +692,34 @@ def _motor_site(model: Model, motor: dict[str, Any]) -> Check | None:
         case="all",
         message=f"site {beyond}"
         + ("; derating applied" if derated else ": give motor.derating from the motor maker"),
+    )
+
+
+def _thermal(model: Model, results: dict[str, Any]) -> Check:
+    """Every case's operating flow (each pump's) above the thermal minimum flow."""
+    q_th = results["thermal_min_flow"]["flow"]["value"]
+    flows = {
+        cid: r["operating_point"].get("flow_per_pump", r["operating_point"]["flow"])["value"]
+        for cid, r in results["cases"].items()
+        if "operating_point" in r
+    }
+    if not flows:
+        flows = {"C1": results["flow"]["value"]}
+    case = min(flows, key=lambda c: flows[c])
+    q = flows[case]
+    _, basis, ref, project = criterion(model, "temperature_rise_max")
+    ok = q >= q_th
+    return Check(
+        id="thermal_min_flow",
+        title="Operating flow above the thermal minimum flow",
+        status=_status(ok, project),
+        value=q,
+        unit="m^3/s",
+        limit=q_th,
+        comparison=">=",
+        basis=basis,
+        reference=ref,
+        case=case,
+        message="" if ok else "the liquid warms beyond the limit through the pump",
+        margin=q - q_th,
     )

@@ -56,6 +56,7 @@ KINDS: dict[str, Kind] = {
         Kind("pressure", "Pa", "kPa", "psi", '"35 kPa", "5 psi", "0.5 bar"'),
         Kind("modulus", "Pa", "GPa", "ksi", '"207 GPa", "30000 ksi"'),
         Kind("temperature", "K", "degC", "degF", '"15 degC", "68 degF"'),
+        Kind("temperature_difference", "K", "K", "delta_degF", '"8 K", "15 delta_degF"'),
         Kind("density", "kg/m^3", "kg/m^3", "lb/ft^3", '"880 kg/m^3", "62.3 lb/ft^3"'),
         Kind("viscosity", "Pa*s", "mPa*s", "cP", '"0.25 Pa*s", "1.2 cP"'),
         Kind("velocity", "m/s", "m/s", "ft/s", '"1.8 m/s", "6 ft/s"'),
@@ -78,6 +79,7 @@ _DIMENSION_OF = {
     "pressure": "[mass] / [length] / [time] ** 2",
     "modulus": "[mass] / [length] / [time] ** 2",
     "temperature": "[temperature]",
+    "temperature_difference": "[temperature]",
     "density": "[mass] / [length] ** 3",
     "viscosity": "[mass] / [length] / [time]",
     "velocity": "[length] / [time]",
@@ -216,6 +218,11 @@ def parse(value: Any, kind: str) -> float:
         raise UnitProblem(f"The value {shown} has no unit; {give}")
     if unit == "":
         return number
+    if kind == "temperature_difference" and unit in ("degC", "degF", "°C", "°F"):
+        raise UnitProblem(
+            f"{shown} reads as a temperature, not a difference of temperatures; write it in "
+            f'K, delta_degC or delta_degF, such as "8 K"'
+        )
     fast = _FAST.get(unit)
     if fast is not None and _DIMENSION_OF[fast[0]] == _DIMENSION_OF[kind]:
         converted = number * fast[1] + fast[2]

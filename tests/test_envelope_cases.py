@@ -198,3 +198,26 @@ def test_motor_derated_for_a_high_site():
     assert check.status == "pass" and check.limit == pytest.approx(
         motor["rated_power"]["value"] * 0.8
     )
+
+
+def test_thermal_minimum_flow_where_the_rise_reaches_the_limit():
+    # Temperature rise through the pump, all losses to the liquid (Karassik, Pump Handbook):
+    # dT = g H (1 - eta) / (c_p eta). On the section-11 curve, the flow where dT = 8 K
+    # (default, common practice) and, with a 0.05 K project limit, a higher one that the
+    # lowest operating flow must still clear.
+    from test_calc import _analytic_curve
+
+    text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
+    t = solve(loads(text.encode()))
+    thermal = t.results["thermal_min_flow"]
+    q = thermal["flow"]["value"] * 1e3
+    H = 42 + 0.2 * q - 0.02 * q * q
+    eta = 0.78 * (1 - ((q - 22) / 22) ** 2)
+    cp = t.step("pump.thermal.heat_capacity").value
+    assert G * H * (1 - eta) / (cp * eta) == pytest.approx(8.0, rel=2e-3)
+    assert next(c for c in t.checks if c.id == "thermal_min_flow").status == "pass"
+    strict = solve(loads((text + '[criteria]\ntemperature_rise_max = "0.05 K"\n').encode()))
+    q_strict = strict.results["thermal_min_flow"]["flow"]["value"]
+    assert q_strict > thermal["flow"]["value"]
+    with pytest.raises(InputError):
+        loads((text + '[criteria]\ntemperature_rise_max = "8 degC"\n').encode())

@@ -264,6 +264,7 @@ _DECORATED = {
     "water.saturation_pressure": ({"T": "K"}, "Pa", "p_v", "iapws_if97"),
     "water.viscosity": ({"T": "K", "rho": "kg/m^3"}, "Pa*s", "μ", "iapws_2008_viscosity"),
     "water.bulk_modulus": ({"T": "K", "p": "Pa"}, "Pa", "K", "iapws_if97"),
+    "water.heat_capacity": ({"T": "K", "p": "Pa"}, "J/(kg*K)", "c_p", "iapws_if97"),
 }
 
 
@@ -290,6 +291,7 @@ def test_public_names() -> None:
     assert sorted(water.__all__) == [
         "bulk_modulus",
         "density",
+        "heat_capacity",
         "saturation_pressure",
         "saturation_temperature",
         "speed_of_sound",
@@ -322,3 +324,16 @@ def test_calls_take_microseconds(func, args) -> None:
             func(*args)
         best = min(best, (time.perf_counter() - start) / calls)
     assert best < 200e-6
+
+
+@pytest.mark.parametrize(
+    ("T", "p", "cp"),
+    [
+        # IAPWS R7-97(2012) Table 5, region 1 verification values: c_p in kJ/(kg K).
+        (300.0, 3e6, 4.17301218),
+        (300.0, 80e6, 4.01008987),
+        (500.0, 3e6, 4.65580682),
+    ],
+)
+def test_heat_capacity_if97_table5(T: float, p: float, cp: float) -> None:
+    assert water.heat_capacity(T, p) / 1e3 == pytest.approx(cp, rel=1e-8)

@@ -50,6 +50,7 @@ __all__ = [
     "solved_flow",
     "solved_speed",
     "specific_speed",
+    "temperature_rise",
     "throttling_loss",
 ]
 
@@ -965,3 +966,47 @@ def efficiency_from_power(rho: Any, Q: Any, H: Any, P: Any) -> Any:
        (pump efficiency as hydraulic over shaft power).
     """
     return rho * G * Q * H / P
+
+
+@equation(
+    symbol="ΔT",
+    text="ΔT = g·H·(1 − η)/(c_p·η)",
+    latex=r"\Delta T = \frac{g H (1 - \eta)}{c_p\, \eta}",
+    substitute="9.80665 m/s² × {H} × (1 − {eta}) / ({cp} × {eta})",
+    reference="karassik_2008",
+)
+def temperature_rise(H: Any, eta: Any, cp: Any) -> Any:
+    r"""Temperature rise of the liquid through a pump whose losses all go into it.
+
+    .. math:: \Delta T = \frac{g H (1 - \eta)}{c_p \eta}
+
+    Parameters
+    ----------
+    H : float
+        Pump head at the flow [m]
+    eta : float
+        Pump efficiency at the flow [-]
+    cp : float
+        Specific heat capacity of the liquid [J/(kg*K)]
+
+    Returns
+    -------
+    dT : float
+        Temperature rise from suction to discharge [K]
+
+    Notes
+    -----
+    The rise grows without bound toward shutoff, where the efficiency goes to
+    zero: the thermal minimum flow is where it reaches the allowed rise.
+
+    Examples
+    --------
+    >>> round(temperature_rise(40.0, 0.2, 4182.0), 4)
+    0.3752
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (temperature rise and thermal minimum flow of centrifugal pumps).
+    """
+    return G * H * (1.0 - eta) / (cp * eta)

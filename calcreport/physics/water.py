@@ -1,15 +1,16 @@
-"""Liquid water: density, vapour pressure, viscosity and speed of sound.
+"""Liquid water: density, vapour pressure, viscosity, speed of sound and heat capacity.
 
-Density and compressibility (IAPWS-IF97 region 1, compressed liquid)
-    density, speed_of_sound, bulk_modulus
+Density, compressibility and heat capacity (IAPWS-IF97 region 1, compressed liquid)
+    density, speed_of_sound, bulk_modulus, heat_capacity
 Saturation line (IAPWS-IF97 region 4)
     saturation_pressure, saturation_temperature
 Viscosity (IAPWS 2008)
     viscosity
 
 Every function takes and returns SI floats: temperature in K, pressure in
-Pa, density in kg/m^3, viscosity in Pa*s, speed in m/s. Inputs outside the
-range of the formulation raise ``ValueError``; nothing is extrapolated.
+Pa, density in kg/m^3, viscosity in Pa*s, speed in m/s, heat capacity in
+J/(kg*K). Inputs outside the range of the formulation raise ``ValueError``;
+nothing is extrapolated.
 The coefficients are those of the IAPWS releases, typed once here as
 tuples at import so that each call is a few microseconds of arithmetic.
 """
@@ -23,6 +24,7 @@ from calcreport.physics.equation import equation
 __all__ = [
     "bulk_modulus",
     "density",
+    "heat_capacity",
     "saturation_pressure",
     "saturation_temperature",
     "speed_of_sound",
@@ -263,6 +265,13 @@ def speed_of_sound(T: float, p: float) -> float:
        Table 3 (speed of sound), Table 4 (derivatives of eq. 7); verification
        values Table 5.
     """
+    tau, g_p, g_pp, g_tt, g_pt = _derivatives(T, p)
+    w2 = _R * T * g_p * g_p / ((g_p - tau * g_pt) ** 2 / (tau * tau * g_tt) - g_pp)
+    return math.sqrt(w2)
+
+
+def _derivatives(T: float, p: float) -> tuple[float, float, float, float, float]:
+    """τ and the derivatives γ_π, γ_ππ, γ_ττ, γ_πτ of region 1's Gibbs energy (Table 4)."""
     _check_region1(T, p)
     tau = _T_STAR_1 / T
     a = 7.1 - p / _P_STAR_1
@@ -274,12 +283,46 @@ def speed_of_sound(T: float, p: float) -> float:
         s_pp += cii * term
         s_tt += cjj * term
         s_pt += cij * term
-    g_p = s_p / a
-    g_pp = s_pp / (a * a)
-    g_tt = s_tt / (b * b)
-    g_pt = s_pt / (a * b)
-    w2 = _R * T * g_p * g_p / ((g_p - tau * g_pt) ** 2 / (tau * tau * g_tt) - g_pp)
-    return math.sqrt(w2)
+    return tau, s_p / a, s_pp / (a * a), s_tt / (b * b), s_pt / (a * b)
+
+
+@equation(
+    symbol="c_p",
+    text="c_p = −R·τ²·γ_ττ (IAPWS-IF97 region 1)",
+    latex=r"c_p = -R\,\tau^2 \gamma_{\tau\tau}",
+    substitute="IAPWS-IF97 region 1 at T = {T}, p = {p}",
+    reference="iapws_if97",
+)
+def heat_capacity(T: float, p: float) -> float:
+    r"""Specific isobaric heat capacity of liquid water from IAPWS-IF97 region 1.
+
+    .. math:: c_p = -R \tau^2 \gamma_{\tau\tau}
+
+    Parameters
+    ----------
+    T : float
+        Temperature of the water [K]
+    p : float
+        Absolute pressure of the water [Pa]
+
+    Returns
+    -------
+    c_p : float
+        Specific isobaric heat capacity [J/(kg*K)]
+
+    Examples
+    --------
+    >>> round(heat_capacity(300.0, 3e6), 3)
+    4173.012
+
+    References
+    ----------
+    1. IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation
+       1997 for the Thermodynamic Properties of Water and Steam, section 5.1,
+       Table 3 (isobaric heat capacity); verification values Table 5.
+    """
+    tau, _, _, g_tt, _ = _derivatives(T, p)
+    return -_R * tau * tau * g_tt
 
 
 @equation(
