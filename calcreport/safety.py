@@ -348,7 +348,10 @@ class Route:
         (elevation plus pressure head at the densest liquid) for the profile chart."""
         z = p["elevation"]
         design = states["C1"]
-        first = next(n for n in design.profile["nodes"] if n.get("side") == "discharge")
+        first = next(
+            (n for n in design.profile["nodes"] if n.get("side") == "discharge"),
+            design.profile["nodes"][-1],
+        )
         node = _node(design, p["node"])
         entry: dict[str, Any] = {
             "node": p["node"],
