@@ -556,7 +556,7 @@ def _solve_case(
 def _intake(b: TraceBuilder, model: Model, case: Case, h: dict[str, Any]) -> dict[str, Any] | None:
     """Submergence of the suction inlet at the lowest level against ANSI/HI 9.8's minimum."""
     first = model.pipes[0]
-    if first.side != "suction" or first.elevation_start is None:
+    if first.line != "suction" or first.elevation_start is None:
         return None
     D = model.source.intake_diameter or first.inner_diameter
     v = h["pipes"][first.id]["velocity"]
@@ -635,7 +635,7 @@ def _commissioning(
     """Gauge pressures expected at the pump flanges, at the operating point and shutoff."""
     sid = case.sid
     suction = model.suction_pipes
-    discharge = [p for p in model.pipes if p.side == "discharge"]
+    discharge = [p for p in model.pipes if p.line == "discharge"]
     zero = b.assume(
         "Commissioning gauges are at the pump datum; with no suction pipe, or at "
         "shutoff, the velocity at a flange is zero.",
@@ -1551,9 +1551,27 @@ def _hydraulics(
     Q = flow or case.flow
     sid = case.sid
     water_liquid = model.fluid.kind == "water"
+    q_branch = Q
+    if any(p.branch for p in model.pipes) and case.running.value > 1:
+        if model.pump.arrangement == "parallel":
+            q_branch = ev.step(
+                sid("pump.branch_flow"),
+                "Flow in each pump's own branch",
+                pump.per_pump_flow,
+                case.id,
+                Q=Q,
+                n_run=case.running,
+            )
     pipes = {
         p.id: _pipe(
-            ev, case, p, Q, liquid, model.friction_method, water_liquid, model.fittings_method
+            ev,
+            case,
+            p,
+            q_branch if p.branch else Q,
+            liquid,
+            model.friction_method,
+            water_liquid,
+            model.fittings_method,
         )
         for p in model.pipes
     }

@@ -28,7 +28,7 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
     """The design checks of one operating case's results."""
     found: list[Check] = []
     for pipe in model.pipes:
-        found += _velocity(model, results["pipes"][pipe.id], pipe.id, pipe.side, case)
+        found += _velocity(model, results["pipes"][pipe.id], pipe.id, pipe.line, case)
         found.append(_regime(results["pipes"][pipe.id], pipe.id, case))
         if "check_valve_min_velocity" in results["pipes"][pipe.id]:
             found.append(_check_valve(results["pipes"][pipe.id], pipe.id, case))

@@ -74,7 +74,7 @@ def profile(
     pumped = False
     for pipe in model.pipes:
         values = h["pipes"][pipe.id]
-        if pipe.side == "discharge" and not pumped:
+        if pipe.line == "discharge" and not pumped:
             egl += h["tdh"].value
             pumped = True
         hv = float(losses.velocity_head(values["velocity"].value))
@@ -87,7 +87,7 @@ def profile(
                 "name": f"{pipe.id} {end}",
                 "pipe": pipe.id,
                 "end": end,
-                "side": pipe.side,
+                "side": pipe.line,
                 "distance": distance,
                 "egl": egl,
                 "hgl": egl - hv,
@@ -166,7 +166,7 @@ class Route:
         )
         lift = (
             h["tdh"]
-            if pipe.side == "discharge"
+            if pipe.line == "discharge"
             else b.assume("No pump head is added upstream of the pump.", 0.0, "m")
         )
         z = pipe.elevation_start if node["end"] == "start" else pipe.elevation_end
@@ -533,7 +533,7 @@ class Route:
             )
             speeds[pipe.id], rises[pipe.id] = a, dH
             pipes[pipe.id] = {"wave_speed": _q(a), "period": _q(T), "joukowsky_head": _q(dH)}
-        line = [p for p in model.pipes if p.side == "discharge"] or list(model.pipes)
+        line = [p for p in model.pipes if p.line == "discharge"] or list(model.pipes)
         T_line = b.step(
             sid("surge.line_period"),
             "Period of the pumped line (pump to destination)",

@@ -221,3 +221,44 @@ def test_thermal_minimum_flow_where_the_rise_reaches_the_limit():
     assert q_strict > thermal["flow"]["value"]
     with pytest.raises(InputError):
         loads((text + '[criteria]\ntemperature_rise_max = "8 degC"\n').encode())
+
+
+def test_each_pumps_branch_carries_its_own_flow():
+    # Two identical pumps in parallel, each with its own discharge branch (NPS 4, 5 m,
+    # K 2.5) ahead of the common line: the branch carries Q/2 and adds its loss at that
+    # flow to the head each pump must give (Darcy-Weisbach with fluids' Colebrook).
+    from test_calc import _analytic_curve
+
+    branch = (
+        '[[pipe]]\nid = "B1"\nside = "discharge_branch"\nlength = "5 m"\n'
+        'inner_diameter = "102.26 mm"\nroughness = "0.045 mm"\n'
+        'fittings = [{ K = 2.5, note = "check and isolating valves" }]\n'
+    )
+    text = CASE.replace("efficiency = 0.78\n", "count = 2\n").replace(
+        '[[pipe]]\nid = "D1"', branch + '[[pipe]]\nid = "D1"'
+    )
+    t = solve(loads((text + _analytic_curve()).encode()))
+    r = t.results
+    Q = r["flow"]["value"]
+    b1 = r["pipes"]["B1"]
+    D = 0.10226
+    v = (Q / 2) / (3.141592653589793 * D * D / 4)
+    assert b1["velocity"]["value"] == pytest.approx(v, rel=1e-12)
+    f = fluids.friction.Colebrook(b1["reynolds"]["value"], 0.045e-3 / D)
+    h_branch = (f * 5 / D + 2.5) * v * v / (2 * G)
+    assert b1["friction_loss"]["value"] + b1["minor_loss"]["value"] == pytest.approx(
+        h_branch, rel=1e-9
+    )
+    # Each pump's head at its own flow meets the system head with the branch in it.
+    assert r["operating_point"]["flow_per_pump"]["value"] == pytest.approx(Q / 2)
+    assert abs(t.step("pump.head_balance").value) < 1e-8
+
+
+def test_branches_must_follow_flow_order():
+    # A branch after the discharge line it feeds.
+    text = CASE.replace('side = "discharge"', 'side = "discharge_branch"').replace(
+        'side = "suction"', 'side = "discharge"'
+    )
+    with pytest.raises(InputError) as err:
+        loads(text.encode())
+    assert any("flow order" in p.message for p in err.value.problems)

@@ -66,7 +66,9 @@ FLUID_KINDS = ("water", *GLYCOLS, *LIQUID_RANGES, "custom")
 # Glycol solutions: the property fits' range, kept inside liquid and unfrozen service.
 GLYCOL_T_MIN = 253.15
 GLYCOL_T_MAX = 373.15
-SIDES = ("suction", "discharge")
+# Flow order: the suction header, each pump's suction branch, its discharge branch, the
+# discharge line. A branch carries one pump's flow.
+SIDES = ("suction", "suction_branch", "discharge_branch", "discharge")
 INLETS = ("submerged", "free")
 UNIT_SYSTEMS = ("SI", "US")
 
@@ -530,7 +532,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
                 "pump.curve.efficiency",
                 "Variable-speed energy needs the pump efficiency: give the curve's efficiency.",
             )
-    if envelope.strainer_dirty_dp and pipes and not any(p.side == "suction" for p in pipes):
+    if envelope.strainer_dirty_dp and pipes and not any(p.line == "suction" for p in pipes):
         r.problem(
             "envelope.strainer_dirty_dp",
             "A dirty-strainer case needs a suction pipe to hold the strainer.",
@@ -1406,17 +1408,14 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                     restraint=restraint,
                 )
             )
-    sides = [p.side for p in pipes]
-    if "discharge" in sides:
-        first_discharge = sides.index("discharge")
-        for pipe in pipes[first_discharge + 1 :]:
-            if pipe.side == "suction":
-                r.problem(
-                    pipe.key + ".side",
-                    f'The suction pipe "{pipe.id}" is listed after the discharge pipe '
-                    f'"{pipes[first_discharge].id}"; list the pipes in flow order, '
-                    "every suction pipe before the first discharge pipe.",
-                )
+    for before, pipe in itertools.pairwise(pipes):
+        if SIDES.index(pipe.side) < SIDES.index(before.side):
+            r.problem(
+                pipe.key + ".side",
+                f'The {pipe.side.replace("_", " ")} pipe "{pipe.id}" is listed after the '
+                f'{before.side.replace("_", " ")} pipe "{before.id}"; list the pipes in flow '
+                "order: suction, suction branch, discharge branch, discharge.",
+            )
     return tuple(pipes)
 
 

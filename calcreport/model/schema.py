@@ -125,6 +125,16 @@ class Pipe:
     pressure_rating: Given | None = None  # gauge, at the design temperature
     restraint: str = ""  # anchored | upstream_anchor | expansion_joints; "" not given
 
+    @property
+    def line(self) -> str:
+        """The side of the pump the pipe is on: "suction" or "discharge"."""
+        return "suction" if self.side.startswith("suction") else "discharge"
+
+    @property
+    def branch(self) -> bool:
+        """A pump's own branch: it carries one pump's flow, not the header's."""
+        return self.side.endswith("_branch")
+
 
 @dataclass(frozen=True)
 class Component:
@@ -235,4 +245,4 @@ class Model:
 
     @property
     def suction_pipes(self) -> tuple[Pipe, ...]:
-        return tuple(p for p in self.pipes if p.side == "suction")
+        return tuple(p for p in self.pipes if p.line == "suction")

@@ -1342,7 +1342,7 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
     for pid, p in _pipe_items(r):
         if p.get("reynolds") is None or p.get("friction_factor") is None:
             continue
-        side = "suction" if p.get("side") == "suction" else "discharge"
+        side = "suction" if str(p.get("side", "")).startswith("suction") else "discharge"
         points.append(
             (pid, side, float(p["reynolds"]["value"]), float(p["friction_factor"]["value"]))
         )
@@ -1525,8 +1525,8 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     pump_y = datum if datum is not None else min(level_s, level_d)
     free_outlet = elev("destination.outlet_elevation")
 
-    suction = [(pid, p) for pid, p in pipes if p.get("side") == "suction"]
-    discharge = [(pid, p) for pid, p in pipes if p.get("side") != "suction"]
+    suction = [(pid, p) for pid, p in pipes if str(p.get("side", "")).startswith("suction")]
+    discharge = [(pid, p) for pid, p in pipes if not str(p.get("side", "")).startswith("suction")]
 
     def pipe_elev(p: dict[str, Any], key: str) -> float | None:
         q = p.get(key)

@@ -651,7 +651,7 @@ class _Report:
             rows.append(
                 [
                     text(ident),
-                    p["side"],
+                    p["side"].replace("_", " "),
                     self.q(p["length"], "length"),
                     self.q(p["inner_diameter"], "diameter"),
                     self.q(p["roughness"], "roughness", 3),
