@@ -35,6 +35,7 @@ from calcreport.physics import (
     motor,
     power,
     pump,
+    viscous,
     water,
 )
 from calcreport.trace import Check, Trace, TraceBuilder, quantity
@@ -154,6 +155,7 @@ def solve(model: Model) -> Trace:
             model = _class_efficiency(b, model, motor_rating, notes)
     route = safety.Route(b, model)
     states: dict[str, safety.State] = {}
+    corrected: dict[tuple[str, float], tuple[CurvePoints, dict[str, Any]]] = {}
     for case in cases:
         case_liquid, case_surfaces = liquid, surfaces
         if case.temperature is not None:
@@ -166,10 +168,14 @@ def solve(model: Model) -> Trace:
                 exit_head,
             )
         case_model = replace(model, pipes=case.pipes) if case.pipes else model
-        case_curve = case_curves.get(case.id, curve)
+        case_curve, correction = _viscous(
+            b, model, case_curves.get(case.id, curve), case, case_liquid, corrected, notes
+        )
         result = _solve_case(
             b, case_model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
         )
+        if correction:
+            result["viscous_correction"] = correction
         case_route = route.case_route(states[case.id])
         if case_route:
             result["route"] = case_route
@@ -460,6 +466,142 @@ def _pump_curve(
         head = scaled(head, "head", "head", pump.affinity_head, "H0")
         npsh = scaled(npsh, "npsh_required", "NPSHr", pump.affinity_head, "H0")
     return CurvePoints(flow, head, efficiency, npsh)
+
+
+def _viscous(
+    b: TraceBuilder,
+    model: Model,
+    curve: CurvePoints | None,
+    case: Case,
+    liquid: Liquid,
+    done: dict[tuple[str, float], tuple[CurvePoints, dict[str, Any]]],
+    notes: list[str],
+) -> tuple[CurvePoints | None, dict[str, Any] | None]:
+    """The water curve corrected for the liquid's viscosity (ANSI/HI 9.6.7) where B > 1.
+
+    One correction for each liquid and speed, kept in ``done``; NPSH required is left as
+    the water curve's (the method does not correct it).
+    """
+    speed = case.speed or model.pump.speed or (model.pump.curve.speed if model.pump.curve else None)
+    if curve is None or not curve.efficiency or model.fluid.kind == "water":
+        return curve, None
+    if speed is None:
+        notes.append(
+            "The viscosity correction of the pump curve (ANSI/HI 9.6.7) needs the pump speed: "
+            "give pump.curve.speed."
+        )
+        return curve, None
+    key = (liquid.viscosity.key, speed.value)
+    if key in done:
+        return done[key]
+    p = "" if not done else f"{case.id}."
+    nu = b.step(
+        f"{p}pump.viscous.kinematic_viscosity",
+        "Kinematic viscosity of the liquid",
+        viscous.kinematic_viscosity,
+        case.id,
+        mu=liquid.viscosity,
+        rho=liquid.density,
+    )
+    q_bep, _ = pump.best_efficiency_point(curve.values("flow"), curve.values("efficiency"))
+    Q_bep = b.solution(
+        f"{p}solver.bep_flow",
+        q_bep,
+        "m^3/s",
+        "flow of the highest efficiency on the monotone cubic through the points",
+    )
+    H_bep = b.step(
+        f"{p}pump.viscous.bep_head",
+        "Water head at the BEP",
+        pump.head_at,
+        case.id,
+        Q=Q_bep,
+        flow=curve.flow,
+        head=curve.head,
+    )
+    stages = model.pump.stages or b.assume("A single-stage pump (pump.stages not given).", 1.0, "")
+    B = b.step(
+        f"{p}pump.viscous.parameter",
+        "Viscosity parameter B (ANSI/HI 9.6.7)",
+        viscous.viscosity_parameter,
+        case.id,
+        nu=nu,
+        H=H_bep,
+        Q=Q_bep,
+        n=speed,
+        stages=stages,
+    )
+    out: dict[str, Any] = {"parameter": _q(B), "applied": False}
+    if B.value <= 1.0:
+        done[key] = (curve, out)
+        return done[key]
+    if B.value >= viscous.B_MAX:
+        out["beyond_range"] = True
+        notes.append(
+            f"The liquid is too viscous for the pump's correction (B = {B.value:.3g} ≥ 40, "
+            "beyond ANSI/HI 9.6.7): consider a positive-displacement pump; the water curve "
+            "is used unchanged."
+        )
+        done[key] = (curve, out)
+        return done[key]
+    C_Q = b.step(
+        f"{p}pump.viscous.flow_factor", "Flow correction factor", viscous.flow_factor, case.id, B=B
+    )
+    C_eta = b.step(
+        f"{p}pump.viscous.efficiency_factor",
+        "Efficiency correction factor",
+        viscous.efficiency_factor,
+        case.id,
+        B=B,
+    )
+    flow, head, eff = [], [], []
+    for i, (q, h, e) in enumerate(zip(curve.flow, curve.head, curve.efficiency, strict=True), 1):
+        C_H = b.step(
+            f"{p}pump.viscous.head_factor[{i}]",
+            f"Head correction factor, point {i}",
+            viscous.head_factor,
+            case.id,
+            C_Q=C_Q,
+            Q=q,
+            Q_bep=Q_bep,
+        )
+        flow.append(
+            b.step(
+                f"{p}pump.viscous.flow[{i}]",
+                f"Viscous flow, point {i}",
+                viscous.viscous_flow,
+                case.id,
+                Q=q,
+                C_Q=C_Q,
+            )
+        )
+        head.append(
+            b.step(
+                f"{p}pump.viscous.head[{i}]",
+                f"Viscous head, point {i}",
+                viscous.viscous_head,
+                case.id,
+                H=h,
+                C_H=C_H,
+            )
+        )
+        eff.append(
+            b.step(
+                f"{p}pump.viscous.efficiency[{i}]",
+                f"Viscous efficiency, point {i}",
+                viscous.viscous_efficiency,
+                case.id,
+                eta=e,
+                C_eta=C_eta,
+            )
+        )
+    b.assume(
+        "The pump curve is corrected for viscosity by ANSI/HI 9.6.7 (equations as recalled, "
+        "to be verified against the standard); NPSH required is the water curve's."
+    )
+    out.update(applied=True, flow_factor=_q(C_Q), efficiency_factor=_q(C_eta))
+    done[key] = (CurvePoints(flow, head, eff, list(curve.npsh_required)), out)
+    return done[key]
 
 
 def _efficiency_from_power(b: TraceBuilder, model: Model) -> list[Given]:

@@ -122,6 +122,13 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
         )
     if "thermal_min_flow" in results:
         found.append(_thermal(model, results))
+    viscous = [
+        (cid, r["viscous_correction"])
+        for cid, r in results["cases"].items()
+        if "viscous_correction" in r
+    ]
+    if viscous:
+        found.append(_viscous(viscous))
     route = results.get("route", {})
     if "rating_check" in route:
         found.append(_pressure_rating(route))
@@ -722,4 +729,33 @@ def _thermal(model: Model, results: dict[str, Any]) -> Check:
         case=case,
         message="" if ok else "the liquid warms beyond the limit through the pump",
         margin=q - q_th,
+    )
+
+
+def _viscous(corrections: list[tuple[str, dict[str, Any]]]) -> Check:
+    """The viscosity correction: within the method's range, and applied only for review."""
+    case, worst = max(corrections, key=lambda c: c[1]["parameter"]["value"])
+    B = worst["parameter"]["value"]
+    beyond = worst.get("beyond_range", False)
+    status = "fail" if beyond else ("review" if worst["applied"] else "pass")
+    message = {
+        "fail": "too viscous for the method: consider a positive-displacement pump",
+        "review": "the water curve is corrected; verify the factors against ANSI/HI 9.6.7 "
+        "(equations as recalled)",
+        "pass": "no correction needed (B at most 1)",
+    }[status]
+    return Check(
+        id="viscous_correction",
+        title="Viscosity correction of the pump curve",
+        status=status,
+        value=B,
+        unit="",
+        limit=40.0,
+        comparison="<",
+        basis="ANSI/HI 9.6.7 corrects water performance for a viscous liquid from the "
+        "parameter B: none for B up to 1, the method's range ends at B = 40",
+        reference="hi_viscous",
+        case=case,
+        message=message,
+        margin=40.0 - B,
     )

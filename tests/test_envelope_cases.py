@@ -262,3 +262,65 @@ def test_branches_must_follow_flow_order():
     with pytest.raises(InputError) as err:
         loads(text.encode())
     assert any("flow order" in p.message for p in err.value.problems)
+
+
+def test_viscous_liquid_corrects_the_water_curve():
+    # ANSI/HI 9.6.7-2010 (equations from memory): B from the water BEP in US units,
+    # B = 26.6 nu^0.5 H^0.0625 / (Q^0.375 N^0.25) (cSt, ft, gpm, rpm), then
+    # C_Q = 2.71^(-0.165 (log B)^3.15), C_eta = B^(-0.0547 B^0.69). A custom oil of
+    # 0.1 Pa s and 880 kg/m^3 on the section-11 pump at 2900 rpm.
+    import math
+
+    from test_calc import _analytic_curve
+
+    oil = CASE.replace(
+        '[fluid]\ntemperature = "20 degC"',
+        '[fluid]\nkind = "custom"\ntemperature = "20 degC"\ndensity = "880 kg/m^3"\n'
+        'viscosity = "0.1 Pa*s"\nvapor_pressure = "1 kPa"',
+    ).replace("efficiency = 0.78\n", "")
+    t = solve(loads((oil + _analytic_curve(speed='speed = "2900 rpm"\n')).encode()))
+    corr = t.results["viscous_correction"]
+    assert corr["applied"]
+    nu_cst = 0.1 / 880 * 1e6
+    q_bep, h_bep = 22.0, 42 + 0.2 * 22 - 0.02 * 22 * 22  # the efficiency peaks at 22 L/s
+    B_us = (
+        26.6
+        * nu_cst**0.5
+        * (h_bep / 0.3048) ** 0.0625
+        / ((q_bep * 1e-3 / 6.30901964e-5) ** 0.375 * 2900**0.25)
+    )
+    B = corr["parameter"]["value"]
+    assert B == pytest.approx(B_us, rel=6e-3)  # the SI and US constants are rounded
+    assert corr["flow_factor"]["value"] == pytest.approx(
+        2.71 ** (-0.165 * math.log10(B) ** 3.15), rel=1e-12
+    )
+    assert corr["efficiency_factor"]["value"] == pytest.approx(B ** (-0.0547 * B**0.69))
+    # The corrected curve gives less head at a lower efficiency: the oil's operating flow is
+    # below the water's on the same system, and its efficiency below the water curve's.
+    water = solve(
+        loads(
+            (
+                CASE.replace("efficiency = 0.78\n", "")
+                + _analytic_curve(speed='speed = "2900 rpm"\n')
+            ).encode()
+        )
+    )
+    assert "viscous_correction" not in water.results
+    oil_op, water_op = t.results["operating_point"], water.results["operating_point"]
+    assert oil_op["efficiency"]["value"] < water_op["efficiency"]["value"]
+    assert oil_op["efficiency"]["value"] == pytest.approx(
+        corr["efficiency_factor"]["value"]
+        * 0.78
+        * (1 - ((oil_op["flow"]["value"] * 1e3 / corr["flow_factor"]["value"] - 22) / 22) ** 2),
+        rel=1e-3,
+    )
+    review = next(c for c in t.checks if c.id == "viscous_correction")
+    assert review.status == "review" and "ANSI/HI 9.6.7" in review.message
+
+
+def test_water_needs_no_viscosity_correction():
+    from test_calc import _analytic_curve
+
+    t = solve(loads((CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()).encode()))
+    assert "viscous_correction" not in t.results
+    assert all(c.id != "viscous_correction" for c in t.checks)

@@ -178,6 +178,7 @@ _PUMP_KEYS = {
     "standby",
     "arrangement",
     "pressure_rating",
+    "stages",
     *_PROVENANCE_KEYS,
 }
 _CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required", "power", "file"}
@@ -747,9 +748,11 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
             "pump, so the combined curve can be built.",
         )
     rating = r.quantity(data, "pressure_rating", "pump", "pressure", positive=True)
+    stages = _whole(r, data, "stages", 1, 30)
     if elevation is None:
         return None
     return Pump(
+        stages=stages,
         pressure_rating=rating,
         count=count or Given(1.0, "", "pump.count"),
         standby=standby or Given(0.0, "", "pump.standby"),

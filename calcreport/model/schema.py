@@ -183,6 +183,7 @@ class Pump:
     speed_range: tuple[Given, Given] | None = None
     efficiency_basis: str = "pump"  # pump | overall (wire-to-water)
     pressure_rating: Given | None = None  # casing allowable working pressure, gauge
+    stages: Given | None = None  # stages of a multistage pump (viscous correction)
 
 
 @dataclass(frozen=True)

@@ -14,4 +14,5 @@ intake      submergence of the pump intake (ANSI/HI 9.8)
 pump        pump curves, affinity laws, operating point, NPSH margin
 route       pressure along the route: grade lines, maximum pressure
 surge       surge screening: Korteweg wave speed, Joukowsky head rise
+viscous     viscous correction of water pump curves (ANSI/HI 9.6.7)
 """

@@ -171,5 +171,6 @@ def _import_all() -> None:
         pump,
         route,
         surge,
+        viscous,
         water,
     )
