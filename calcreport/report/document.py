@@ -481,6 +481,11 @@ class _Report:
             if self.t["status"]["value"] == "preliminary"
             else []
         )
+        if "pump.curve.flow[1]" not in self.t["given"] and not items:
+            items.append(
+                "Pump not selected: no pump curve is given, so the operating point, NPSH "
+                "required, shutoff pressures and motor rating are not determined."
+            )
         items += [text(n) for n in self.t["notes"]]
         items += [
             f"{text(c['title'])} ({text(c['case'])}): {text(c['message'])}"
