@@ -201,12 +201,23 @@ class Trace:
         return "{\n" + ",\n".join(lines) + "\n}\n"
 
 
-# One encoder for every item: json.dumps with options builds a new one each call.
+# One encoder for every item: json.dumps with options builds a new one each call, and
+# JSONEncoder.encode a new C encoder; the C encoder is made once (no circular check:
+# the trace is a tree).
 _ENCODER = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "))
+_C_ENCODER = (
+    json.encoder.c_make_encoder(
+        None, _ENCODER.default, json.encoder.encode_basestring, None, ": ", ", ", False, False, True
+    )
+    if json.encoder.c_make_encoder is not None
+    else None
+)
 
 
 def _compact(value: Any) -> str:
-    return _ENCODER.encode(value)
+    if _C_ENCODER is None or not isinstance(value, dict | list):
+        return _ENCODER.encode(value)
+    return "".join(_C_ENCODER(value, 0))
 
 
 class TraceBuilder:

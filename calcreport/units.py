@@ -366,6 +366,7 @@ def fmt(x: float, sig: int = 5) -> str:
 _PRETTY = (("**", "^"), ("^3", "³"), ("^2", "²"), ("*", "·"), ("degC", "°C"), ("degF", "°F"))
 
 
+@cache
 def pretty_unit(unit: str) -> str:
     """A unit string as printed: ``m^3/s`` → ``m³/s``, ``Pa*s`` → ``Pa·s``."""
     if unit in ("", "-", "dimensionless"):
