@@ -48,10 +48,21 @@ def _parser() -> Any:
 
 @cache
 def _font(path: str) -> str:
-    """Register a font file with reportlab once; return its reportlab name."""
+    """Register a font file with reportlab once; return its reportlab name.
+
+    A file that is byte for byte one of the report's own DejaVu faces is not loaded
+    again: the equation uses the report's font, embedded once.
+    """
     from reportlab.pdfbase import pdfmetrics
     from reportlab.pdfbase.ttfonts import TTFont
 
+    from calcreport.report import style
+
+    own = style.FONTS / Path(path).name
+    if Path(path).name in style.FACES.values() and own.is_file():
+        if own.read_bytes() == Path(path).read_bytes():
+            style.register_fonts()
+            return next(n for n, f in style.FACES.items() if f == Path(path).name)
     name = f"math-{Path(path).stem}"
     pdfmetrics.registerFont(TTFont(name, path))
     return name

@@ -18,6 +18,13 @@ from reportlab.lib.units import mm
 __all__ = ["PAGE", "Styles", "page_size", "register_fonts", "styles"]
 
 FONTS = Path(__file__).resolve().parent.parent / "fonts"
+# reportlab font name -> file in FONTS
+FACES = {
+    "DejaVu": "DejaVuSans.ttf",
+    "DejaVu-Bold": "DejaVuSans-Bold.ttf",
+    "DejaVu-Oblique": "DejaVuSans-Oblique.ttf",
+    "DejaVuMono": "DejaVuSansMono.ttf",
+}
 
 PAGE = {
     "margin_left": 20 * mm,
@@ -52,13 +59,7 @@ def register_fonts() -> None:
     from reportlab.pdfbase import pdfmetrics
     from reportlab.pdfbase.ttfonts import TTFont
 
-    faces = {
-        "DejaVu": "DejaVuSans.ttf",
-        "DejaVu-Bold": "DejaVuSans-Bold.ttf",
-        "DejaVu-Oblique": "DejaVuSans-Oblique.ttf",
-        "DejaVuMono": "DejaVuSansMono.ttf",
-    }
-    for name, file in faces.items():
+    for name, file in FACES.items():
         pdfmetrics.registerFont(TTFont(name, str(FONTS / file)))
     addMapping("DejaVu", 0, 0, "DejaVu")
     addMapping("DejaVu", 1, 0, "DejaVu-Bold")
