@@ -319,6 +319,20 @@ def summary(trace: dict[str, Any]) -> str:
     if "annual_cost" in energy:
         cost = energy["annual_cost"]
         lines.append(f"  {'Annual energy cost':<{width}}{cost['value']:,.0f} {cost['unit']}")
+    route = results.get("route", {})
+    if "min_pressure_head" in route:
+        lines.append(
+            f"  {'Lowest pressure head (gauge)':<{width}}"
+            f"{show(route['min_pressure_head'], 'length', system)} at "
+            f"{route['min_pressure_node']} ({route['min_pressure_case']})"
+        )
+    if "max_pressure" in route:
+        lines.append(
+            f"  {'Highest pressure (gauge)':<{width}}"
+            f"{show(route['max_pressure'], 'pressure', system)} at {route['max_pressure_node']}"
+        )
+    if "verdict" in results.get("surge", {}):
+        lines.append(f"  {'Surge':<{width}}{results['surge']['verdict']}")
     lines += ["", "  Pipes:"]
     header = f"    {'id':<8}{'v':>10}{'Re':>10}{'f':>9}{'ΣK':>8}{'h_f':>10}{'h_m':>10}"
     lines.append(header)

@@ -296,3 +296,12 @@ def test_installed_command(tmp_path: Path):
     )
     assert result.returncode == 0, result.stderr
     assert "valid" in result.stdout
+
+
+def test_solve_summary_shows_route_pressures_and_surge(capsys):
+    from calcreport.cli import main
+
+    assert main(["solve", str(ROOT / "input_examples" / "reservoir_fill_si.toml")]) == 0
+    out = capsys.readouterr().out
+    assert "Lowest pressure head (gauge)" in out and "Highest pressure (gauge)" in out
+    assert "Surge" in out and "transient analysis" in out
