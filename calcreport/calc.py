@@ -143,6 +143,7 @@ def solve(model: Model) -> Trace:
         default=None,
     )
     top_curve = case_curves[fastest.id] if fastest else curve
+    corrected: dict[tuple[str, float], tuple[CurvePoints, dict[str, Any]]] = {}
     motor_rating = None
     if curve is not None and model.pump.efficiency_basis == "overall":
         notes.append(
@@ -150,12 +151,15 @@ def solve(model: Model) -> Trace:
             "shaft power is unknown; size the motor on the pump's own curve."
         )
     elif top_curve is not None:
-        motor_rating = _motor(b, model, liquid, top_curve)
+        # On the curve as the liquid makes it (ANSI/HI 9.6.7 raises the power of a viscous one).
+        motor_curve, _ = _viscous(
+            b, model, top_curve, fastest or cases[0], liquid, corrected, notes
+        )
+        motor_rating = _motor(b, model, liquid, motor_curve or top_curve)
         if motor_rating and model.motor_class:
             model = _class_efficiency(b, model, motor_rating, notes)
     route = safety.Route(b, model)
     states: dict[str, safety.State] = {}
-    corrected: dict[tuple[str, float], tuple[CurvePoints, dict[str, Any]]] = {}
     for case in cases:
         case_liquid, case_surfaces = liquid, surfaces
         if case.temperature is not None:
@@ -187,6 +191,8 @@ def solve(model: Model) -> Trace:
     if surge:
         results["surge"] = surge
     results["route"] = route.envelope(states, top_curve, notes)
+    if surge:
+        surge["rise_checked"] = "rating_check" in results["route"]
     if motor_rating:
         results["motor"] = _motor_loading(motor_rating, by_case)
     thermal = _thermal_min_flow(b, model, liquid, curve, notes)
@@ -397,7 +403,11 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
     if duty.value > 1:
         out = b.assume(
             "One duty pump is taken out of service in the reduced case "
-            "(the running pumps move to higher flows).",
+            + (
+                "(the running pumps move to higher flows)."
+                if model.pump.arrangement == "parallel"
+                else "(the running pumps give less head: the flow falls)."
+            ),
             1.0,
             "",
         )
@@ -494,9 +504,8 @@ def _viscous(
     key = (liquid.viscosity.key, speed.value)
     if key in done:
         return done[key]
-    p = "" if not done else f"{case.id}."
     nu = b.step(
-        f"{p}pump.viscous.kinematic_viscosity",
+        case.sid("pump.viscous.kinematic_viscosity"),
         "Kinematic viscosity of the liquid",
         viscous.kinematic_viscosity,
         case.id,
@@ -505,13 +514,13 @@ def _viscous(
     )
     q_bep, _ = pump.best_efficiency_point(curve.values("flow"), curve.values("efficiency"))
     Q_bep = b.solution(
-        f"{p}solver.bep_flow",
+        case.sid("solver.bep_flow"),
         q_bep,
         "m^3/s",
         "flow of the highest efficiency on the monotone cubic through the points",
     )
     H_bep = b.step(
-        f"{p}pump.viscous.bep_head",
+        case.sid("pump.viscous.bep_head"),
         "Water head at the BEP",
         pump.head_at,
         case.id,
@@ -521,7 +530,7 @@ def _viscous(
     )
     stages = model.pump.stages or b.assume("A single-stage pump (pump.stages not given).", 1.0, "")
     B = b.step(
-        f"{p}pump.viscous.parameter",
+        case.sid("pump.viscous.parameter"),
         "Viscosity parameter B (ANSI/HI 9.6.7)",
         viscous.viscosity_parameter,
         case.id,
@@ -545,10 +554,14 @@ def _viscous(
         done[key] = (curve, out)
         return done[key]
     C_Q = b.step(
-        f"{p}pump.viscous.flow_factor", "Flow correction factor", viscous.flow_factor, case.id, B=B
+        case.sid("pump.viscous.flow_factor"),
+        "Flow correction factor",
+        viscous.flow_factor,
+        case.id,
+        B=B,
     )
     C_eta = b.step(
-        f"{p}pump.viscous.efficiency_factor",
+        case.sid("pump.viscous.efficiency_factor"),
         "Efficiency correction factor",
         viscous.efficiency_factor,
         case.id,
@@ -557,7 +570,7 @@ def _viscous(
     flow, head, eff = [], [], []
     for i, (q, h, e) in enumerate(zip(curve.flow, curve.head, curve.efficiency, strict=True), 1):
         C_H = b.step(
-            f"{p}pump.viscous.head_factor[{i}]",
+            case.sid(f"pump.viscous.head_factor[{i}]"),
             f"Head correction factor, point {i}",
             viscous.head_factor,
             case.id,
@@ -567,7 +580,7 @@ def _viscous(
         )
         flow.append(
             b.step(
-                f"{p}pump.viscous.flow[{i}]",
+                case.sid(f"pump.viscous.flow[{i}]"),
                 f"Viscous flow, point {i}",
                 viscous.viscous_flow,
                 case.id,
@@ -577,7 +590,7 @@ def _viscous(
         )
         head.append(
             b.step(
-                f"{p}pump.viscous.head[{i}]",
+                case.sid(f"pump.viscous.head[{i}]"),
                 f"Viscous head, point {i}",
                 viscous.viscous_head,
                 case.id,
@@ -587,7 +600,7 @@ def _viscous(
         )
         eff.append(
             b.step(
-                f"{p}pump.viscous.efficiency[{i}]",
+                case.sid(f"pump.viscous.efficiency[{i}]"),
                 f"Viscous efficiency, point {i}",
                 viscous.viscous_efficiency,
                 case.id,
@@ -1071,8 +1084,19 @@ def _thermal_min_flow(
         return limit - rise
 
     found = pump.operating_point(margin, flows[0], q_bep)
-    if found is None or margin(np.array([flows[0]]))[0] >= 0.0:
-        return None  # warmer than the limit even at the BEP, or never (no root to state)
+    if found is None:
+        notes.append(
+            f"The pump warms the liquid by more than {limit:g} K even at its best-efficiency "
+            "flow: its losses need another path (a bypass, a cooler); the thermal minimum flow "
+            "is not defined on this curve."
+        )
+        return None
+    if margin(np.array([flows[0]]))[0] >= 0.0:
+        notes.append(
+            "The thermal minimum flow lies below the curve's first point: the rise there is "
+            f"within {limit:g} K, and the curve gives no lower flow to find it."
+        )
+        return None
     Q = b.step(
         "pump.thermal_min_flow",
         "Thermal minimum flow (temperature rise at the limit)",
@@ -2134,11 +2158,13 @@ def _profile_point(
         row.update(pump_head=_q(H), throttling_loss=_q(h_thr), efficiency=_q(eta),
                    electrical_power=_q(P_e))  # fmt: skip
         return P_e, P_thr
-    assert curve.flow and model.pump.curve is not None and model.pump.curve.speed is not None
-    n0 = model.pump.curve.speed
-    base = model.pump.curve
-    q0 = [g.value for g in base.flow]
-    h0 = [g.value for g in base.head]
+    # The case's own curve (at the operating speed, corrected for viscosity where it
+    # applies) is moved by the affinity laws; the drive is held to the top speed.
+    assert model.pump.curve is not None
+    n0 = model.pump.speed or model.pump.curve.speed
+    assert n0 is not None
+    top = model.pump.speed_range[1].value if model.pump.speed_range else n0.value
+    q0, h0 = curve.values("flow"), curve.values("head")
 
     def difference(speeds: np.ndarray) -> np.ndarray:
         at = Q.value * n0.value / speeds
@@ -2147,9 +2173,9 @@ def _profile_point(
         return lift * (speeds / n0.value) ** 2 * head - H_sys.value
 
     low = max(Q.value * n0.value / q0[-1], 1e-6 * n0.value)
-    speed = pump.operating_point(difference, low, 3.0 * n0.value)
+    speed = pump.operating_point(difference, low, top) if low < top else None
     if speed is None:
-        row["reason"] = "no speed up to three times the curve speed meets the system head"
+        row["reason"] = f"it needs more than the top speed of {top * 60:.5g} rpm"
         return None
     found = b.solution(sid("solver.speed"), speed, "1/s",
                        "bracketed root of H_pump(n, Q) − H_system(Q), Illinois method")  # fmt: skip
@@ -2158,7 +2184,7 @@ def _profile_point(
     Q0 = b.step(sid("pump.curve_flow"), "Corresponding flow on the curve's speed",
                 pump.affinity_flow, pid, Q0=Q, n=n0, n0=n_op)  # fmt: skip
     H0 = b.step(sid("pump.curve_head"), "Curve head at the corresponding flow", pump.head_at,
-                pid, Q=Q0, flow=list(base.flow), head=list(base.head))  # fmt: skip
+                pid, Q=Q0, flow=curve.flow, head=curve.head)  # fmt: skip
     H = b.step(sid("pump.head"), "Pump head at the profile speed", pump.affinity_head, pid,
                H0=H0, n=n_op, n0=n0)  # fmt: skip
     if lift > 1:
@@ -2166,7 +2192,7 @@ def _profile_point(
                    pid, H1=H, n_run=point.running)  # fmt: skip
     b.step(sid("pump.head_balance"), "Head balance at the profile point (zero)",
            pump.head_balance, pid, H_pump=H, H_system=H_sys)  # fmt: skip
-    eta = _profile_efficiency(b, model, point, curve, Q0, base=True)
+    eta = _profile_efficiency(b, model, point, curve, Q0)
     P_h = b.step(sid("power.hydraulic"), "Hydraulic power", power.hydraulic_power, pid,
                  rho=liquid.density, Q=point.flow, H=H_sys)  # fmt: skip
     _, P_e = _electrical(b, model, point, P_h, eta, eta_drive)
@@ -2176,20 +2202,19 @@ def _profile_point(
 
 
 def _profile_efficiency(
-    b: TraceBuilder, model: Model, point: Case, curve: CurvePoints, Q: Given, base: bool = False
+    b: TraceBuilder, model: Model, point: Case, curve: CurvePoints, Q: Given
 ) -> Given:
     """Pump efficiency at a profile flow from the curve (unchanged at corresponding points)."""
     if not curve.efficiency:
         assert model.pump.efficiency is not None
         return model.pump.efficiency
-    assert model.pump.curve is not None
     return b.step(
         point.sid("pump.efficiency"),
         "Pump efficiency at the profile point",
         pump.efficiency_at,
         point.id,
         Q=Q,
-        flow=list(model.pump.curve.flow) if base else curve.flow,
+        flow=curve.flow,
         efficiency=curve.efficiency,
     )
 

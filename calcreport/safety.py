@@ -306,7 +306,10 @@ class Route:
         out["max_pressure_basis"] = top["basis"]
         out["shutoff_basis"] = basis
         out["pressure_case"] = (
-            "shutoff at the top speed, highest source level"
+            "the highest curve head at the top speed (the curve's first point, which may be "
+            "below the shutoff head), highest source level"
+            if basis == "first curve point"
+            else "shutoff at the top speed, highest source level"
             if H_max is not None
             else "the operating cases only, no pump curve being given"
         )
@@ -319,6 +322,14 @@ class Route:
             return recorded[point["node"]]
 
         rated = [(p, item) for p in points for item in p["ratings"]]
+        placed = {p.id for p in model.pipes if p.elevation_start and p.elevation_end}
+        unplaced = [f"pipe {p.id}" for p in model.pipes if p.pressure_rating and p.id not in placed]
+        unplaced += [c.id for c in model.components if c.at not in placed]
+        if unplaced:
+            notes.append(
+                "Ratings not checked because their pipes have no elevations: "
+                f"{', '.join(unplaced)}; give elevation_start and elevation_end."
+            )
         if rated:
             gov, item = min(rated, key=lambda pi: pi[1]["rating"] - pi[0]["max"])
             out["rating_check"] = {
@@ -329,6 +340,7 @@ class Route:
                 "basis": gov["basis"],
                 "case": self.surge_case if gov["basis"] == "surge" else "all",
                 "shutoff_known": basis == "shutoff",
+                "unplaced": unplaced,
             }
         record(top)
         if H_max is not None and points[0]["basis"] == "static":
@@ -414,6 +426,10 @@ class Route:
             return [{"item": "pump casing", "rating": rating.value}] if rating else []
         pipe: Pipe = self.pipes[node["pipe"]][1]
         found = []
+        first = next((p for p in model.pipes if p.line == "discharge"), None)
+        if model.pump.pressure_rating and pipe is first and node["end"] == "start":
+            # The casing also sees what the first discharge pipe sees in operation and surge.
+            found.append({"item": "pump casing", "rating": model.pump.pressure_rating.value})
         if pipe.pressure_rating:
             found.append({"item": f"pipe {pipe.id}", "rating": pipe.pressure_rating.value})
         for c in model.components:

@@ -324,3 +324,30 @@ def test_water_needs_no_viscosity_correction():
     t = solve(loads((CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()).encode()))
     assert "viscous_correction" not in t.results
     assert all(c.id != "viscous_correction" for c in t.checks)
+
+
+def test_cold_glycol_below_freezing_water_solves():
+    # 50 % propylene glycol at -10 degC: water's saturation pressure is taken at its
+    # 0.01 degC limit for Raoult's law (a higher vapour pressure: the safe side).
+    text = CASE.replace(
+        '[fluid]\ntemperature = "20 degC"',
+        '[fluid]\nkind = "propylene_glycol"\nmass_fraction = 0.5\ntemperature = "-10 degC"',
+    )
+    t = solve(loads(text.encode()))
+    assert 0 < t.results["fluid"]["vapor_pressure"]["value"] < 611.7
+
+
+def test_motor_is_sized_on_the_viscous_curve():
+    from test_calc import _analytic_curve
+
+    curve = _analytic_curve(speed='speed = "2900 rpm"\n')
+    water = solve(loads((CASE.replace("efficiency = 0.78\n", "") + curve).encode()))
+    oil = CASE.replace(
+        '[fluid]\ntemperature = "20 degC"',
+        '[fluid]\nkind = "custom"\ntemperature = "20 degC"\ndensity = "998 kg/m^3"\n'
+        'viscosity = "0.1 Pa*s"\nvapor_pressure = "1 kPa"',
+    ).replace("efficiency = 0.78\n", "")
+    viscous = solve(loads((oil + curve).encode()))
+    peak_w = water.results["motor"]["peak_shaft_power"]["value"]
+    peak_v = viscous.results["motor"]["peak_shaft_power"]["value"]
+    assert peak_v > 1.05 * peak_w  # the corrected curve takes more power at equal density

@@ -209,13 +209,16 @@ def test_surge_screening_of_a_pump_trip():
 
 def test_slow_valve_closure_passes_the_period_test():
     extra = '[surge]\nevent = "valve_closure"\nclosure_time = "30 s"\n'
-    t = _with_curve("", extra=extra)
+    # Slower than 2L/a, and the estimated rise is set against a rating (the casing's).
+    t = _with_curve('pressure_rating = "5000 kPa"\n', extra=extra)
     s = t.results["surge"]
     assert s["closure_time"]["value"] == 30.0
     T = s["line_period"]["value"]
     jouk = s["pipes"]["D1"]["joukowsky_head"]["value"]
     assert s["pipes"]["D1"]["head_change"]["value"] == pytest.approx(jouk * T / 30.0)
     assert _check(t, "surge").status == "pass"
+    # With no rating anywhere the rise is checked against nothing: review.
+    assert _check(_with_curve("", extra=extra), "surge").status == "review"
     fast = _with_curve("", extra='[surge]\nevent = "valve_closure"\nclosure_time = "0.1 s"\n')
     assert _check(fast, "surge").status == "review"
     assert fast.results["surge"]["head_rise"]["value"] == pytest.approx(
@@ -283,3 +286,19 @@ def test_suction_line_may_run_below_atmospheric_but_not_to_vapour():
     assert t.results["cases"]["C1"]["route"]["suction_min_pressure_node"] == "S1 end"
     _, check = lift(12.0)  # a 10 m lift at 20 degC: below the vapour head (-10.1 m)
     assert check.status == "fail" and "boils" in check.message
+
+
+def test_a_rating_on_a_pipe_without_elevations_is_not_silently_passed():
+    text = ROUTE.replace("CREST", "26.0") + CURVE
+    text = text.replace(
+        'id = "D2"\nside = "discharge"\nlength = "50 m"\nnominal_size = "4"\nschedule = "40"\n'
+        'roughness = "0.045 mm"\nelevation_start = "26.0 m"\nelevation_end = "24 m"\n',
+        'id = "D2"\nside = "discharge"\nlength = "50 m"\nnominal_size = "4"\nschedule = "40"\n'
+        'roughness = "0.045 mm"\npressure_rating = "200 kPa"\n',
+    ).replace(
+        '[pump]\nelevation = "0 m"\n', '[pump]\nelevation = "0 m"\npressure_rating = "2 MPa"\n'
+    )
+    t = solve(loads(text.encode()))
+    check = _check(t, "pressure_rating")
+    assert check.status == "review" and "pipe D2" in check.message
+    assert any("not checked" in n and "pipe D2" in n for n in t.notes)

@@ -35,6 +35,7 @@ M_WATER = 18.015  # g/mol
 MOLAR_MASS = {"MEG": 62.068, "MPG": 76.094}  # ethylene and propylene glycol, g/mol
 CODE = {"ethylene_glycol": "MEG", "propylene_glycol": "MPG"}  # fluid.kind -> CoolProp name
 MAX_FRACTION = 0.6
+_T_MIN_SAT = 273.16  # water's saturation pressure is taken no colder than its triple point
 
 
 @cache
@@ -189,10 +190,12 @@ def propylene_glycol_viscosity(T: Any, w: Any) -> Any:
 def _raoult_text(values: dict[str, Any], result: float, fmt: Any) -> str:
     T, w, M = values["T"], values["w"], values["M_glycol"]
     x = _water_mole_fraction(w, M)
+    T_sat = max(T, _T_MIN_SAT)
+    at = f"{fmt(T_sat)} K" + (" (its 0.01 °C limit)" if T_sat > T else "")
     return (
         f"x_w = ((1 − {fmt(w)})/{M_WATER}) / ((1 − {fmt(w)})/{M_WATER} + {fmt(w)}/{fmt(M)})"
-        f" = {fmt(x)}; p_v = {fmt(x)} × p_sat,water({fmt(T)} K) = {fmt(x)} × "
-        f"{fmt(water.saturation_pressure(T))} Pa"
+        f" = {fmt(x)}; p_v = {fmt(x)} × p_sat,water({at}) = {fmt(x)} × "
+        f"{fmt(water.saturation_pressure(T_sat))} Pa"
     )
 
 
@@ -232,7 +235,9 @@ def raoult_vapor_pressure(T: Any, w: Any, M_glycol: Any) -> Any:
     Ideal-solution approximation (common practice, no published source):
     the glycol's own vapour pressure is neglected, and aqueous glycols
     deviate from Raoult's law by some per cent; the NPSH margin should
-    allow for it.
+    allow for it. Below 0.01 °C water's saturation pressure is taken at
+    0.01 °C (the formulation's lower limit): a higher vapour pressure than
+    the liquid's, so the NPSH available is understated, on the safe side.
 
     Examples
     --------
@@ -243,4 +248,4 @@ def raoult_vapor_pressure(T: Any, w: Any, M_glycol: Any) -> Any:
     ----------
     1. Raoult's law; water saturation pressure by IAPWS-IF97 region 4.
     """
-    return _water_mole_fraction(w, M_glycol) * water.saturation_pressure(T)
+    return _water_mole_fraction(w, M_glycol) * water.saturation_pressure(max(T, _T_MIN_SAT))
