@@ -309,13 +309,18 @@ class _Report:
         out.append(banner)
         out.append(Spacer(1, 6 * mm))
         system = self.system_phrase()
-        preliminary = status["value"] == "preliminary"
+        preliminary = "pump.curve.flow[1]" not in self.t["given"]
+        route = self.r.get("route", {})
+        surge = self.r.get("surge", {})
         out.append(
             self.p(
                 _template(
                     "scope.j2",
                     system=system,
                     preliminary=preliminary,
+                    route="min_pressure_head" in route or "max_pressure" in route,
+                    ratings="rating_check" in route,
+                    surge=str(surge.get("event", "")).replace("_", " ") if surge else "",
                     flow=self.q(self.r.get("duty_point", self.r)["flow"], "flow"),
                     purpose=pr.get("report", {}).get("purpose", ""),
                     exclusions=pr.get("report", {}).get("exclusions", []),
@@ -712,7 +717,14 @@ class _Report:
         out.append(self.heading("Conventions", 2))
         box = [
             [self.p(f"C{n}. {line}", self.s.small)]
-            for n, line in enumerate(_lines("conventions.j2", us=self.system == "US"), 1)
+            for n, line in enumerate(
+                _lines(
+                    "conventions.j2",
+                    us=self.system == "US",
+                    route="max_pressure" in self.r.get("route", {}),
+                ),
+                1,
+            )
         ]
         conventions = Table(box, colWidths=[self.width])
         conventions.setStyle(
@@ -1205,7 +1217,8 @@ class _Report:
             out.append(self.p(f"{n}. {item}"))
         out.append(self.heading("Standing cautions and code deferral", 2))
         extra = [text(c) for c in self.t["project"].get("report", {}).get("cautions", [])]
-        for n, line in enumerate(_lines("cautions.j2") + extra, start=1):
+        assessed = "rating_check" in self.r.get("route", {}) or "surge" in self.r
+        for n, line in enumerate(_lines("cautions.j2", assessed=assessed) + extra, start=1):
             out.append(self.p(f"{n}. {line}"))
         return out
 
