@@ -325,3 +325,18 @@ def test_route_pressures_and_surge_are_reported(built):
     rating = ids["pressure_rating"]
     assert rating["status"] == "fail" and "D1 start" in rating["message"]
     assert rating["message"].split(":")[0] in text.replace("\n", " ")
+
+
+@pytest.mark.parametrize("flag", [True, False])
+def test_template_lines_stay_separate_whatever_the_conditions(flag):
+    # A conditional block must not swallow the line break after it (two sentences run
+    # together in the cautions once did).
+    from calcreport.report.document import _lines
+
+    cautions = _lines("cautions.j2", assessed=flag)
+    assert len(cautions) == 6
+    assert all(line.endswith(".") and line.count(". M") == 0 for line in cautions)
+    conventions = _lines("conventions.j2", us=False, route=flag)
+    assert len(conventions) == (10 if flag else 9)
+    assert all(line.rstrip().endswith(".") for line in conventions)
+    assert not any(".Along" in line or ".Flow" in line for line in conventions)
