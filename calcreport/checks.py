@@ -132,7 +132,7 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
         found.append(_viscous(viscous))
     route = results.get("route", {})
     if "rating_check" in route:
-        found.append(_pressure_rating(route))
+        found.append(_pressure_rating(model, route))
     if "surge" in results:
         found.append(_surge(results["surge"]))
     motor = results.get("motor", {})
@@ -508,12 +508,14 @@ def _min_pressure(model: Model, route: dict[str, Any], case: str) -> Check:
     elif h < 0.0:
         status = "fail"
         message = (
-            f"sub-atmospheric at {node} ({h:.3g} m gauge): air and groundwater drawn in, or a "
-            "siphon the flow depends on"
+            f"sub-atmospheric at {node} ({_shown(model, h, 'm', 'length')} gauge): air and "
+            "groundwater drawn in, or a siphon the flow depends on"
         )
     else:
         status = _status(h >= limit, project)
-        message = f"lowest at {node}" + ("" if h >= limit else f", below {limit:.3g} m")
+        message = f"lowest at {node}" + (
+            "" if h >= limit else f", below {_shown(model, limit, 'm', 'length')}"
+        )
     return Check(
         id="min_pressure",
         title="Lowest pressure head in the discharge line",
@@ -530,7 +532,14 @@ def _min_pressure(model: Model, route: dict[str, Any], case: str) -> Check:
     )
 
 
-def _pressure_rating(route: dict[str, Any]) -> Check:
+def _shown(model: Model, value: float, si_unit: str, kind: str) -> str:
+    """A value for a check's message, in the report's units."""
+    from calcreport.units import show
+
+    return show({"value": value, "unit": si_unit}, kind, model.project.units)
+
+
+def _pressure_rating(model: Model, route: dict[str, Any]) -> Check:
     """The highest pressure against the least rating, at the point where they come closest."""
     rc = route["rating_check"]
     p, rating = rc["pressure"]["value"], rc["rating"]["value"]
@@ -545,7 +554,8 @@ def _pressure_rating(route: dict[str, Any]) -> Check:
     known = rc["shutoff_known"] and not unplaced
     status = "fail" if not within else ("pass" if known else "review")
     message = (
-        f"{rc['item']} at {rc['node']}: {p / 1e3:.4g} kPa(g) {when}, rating {rating / 1e3:.4g} kPa"
+        f"{rc['item']} at {rc['node']}: {_shown(model, p, 'Pa', 'pressure')}(g) {when}, "
+        f"rating {_shown(model, rating, 'Pa', 'pressure')}(g)"
     )
     if within and not rc["shutoff_known"]:
         message += "; confirm against the selected pump's shutoff head"

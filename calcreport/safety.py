@@ -601,7 +601,7 @@ class Route:
                 out["min_transient_pressure_head"] = _q(h_down)
                 out["min_transient_node"] = low["name"]
                 out["vapour_head"] = _q(self.vapour_head(st))
-        out["verdict"] = _verdict(out)
+        out["verdict"] = _verdict(out, model.project.units)
         return out
 
     def _bulk_modulus(self, st: State) -> Given | None:
@@ -725,8 +725,14 @@ def _high_points(nodes: list[dict[str, Any]]) -> list[dict[str, Any]]:
     return found
 
 
-def _verdict(out: dict[str, Any]) -> str:
-    """One sentence: what the screening found and what it asks for."""
+def _verdict(out: dict[str, Any], system: str) -> str:
+    """One sentence: what the screening found and what it asks for (heads in ``system``'s
+    units)."""
+    from calcreport.units import show
+
+    def m(value: float) -> str:
+        return show({"value": value, "unit": "m"}, "length", system)
+
     rise = out["head_rise"]["value"]
     pipe = out["governing_pipe"]
     if out["event"] == "valve_closure":
@@ -734,35 +740,35 @@ def _verdict(out: dict[str, Any]) -> str:
         if t_c <= T:
             return (
                 f"Valve closure in {t_c:g} s is within the line period {T:.3g} s: the full "
-                f"Joukowsky rise of {rise:.4g} m applies (pipe {pipe}). A detailed transient "
+                f"Joukowsky rise of {m(rise)} applies (pipe {pipe}). A detailed transient "
                 "analysis is required."
             )
         return (
             f"Valve closure in {t_c:g} s is slower than the line period {T:.3g} s: an "
-            f"estimated rise of {rise:.4g} m (pipe {pipe}). The estimate assumes a linear "
+            f"estimated rise of {m(rise)} (pipe {pipe}). The estimate assumes a linear "
             "effective closure; confirm with the valve's characteristic."
         )
     if "min_transient_pressure_head" not in out:
         return (
-            f"Pump trip: a head change of up to {rise:.4g} m (pipe {pipe}); the downsurge is "
+            f"Pump trip: a head change of up to {m(rise)} (pipe {pipe}); the downsurge is "
             "not set against the route (no pipe elevations given)."
         )
     h = out["min_transient_pressure_head"]["value"]
     node = out["min_transient_node"]
     if h <= out["vapour_head"]["value"]:
         return (
-            f"Pump trip: the downsurge of up to {rise:.4g} m takes {node} to vapour pressure: "
+            f"Pump trip: the downsurge of up to {m(rise)} takes {node} to vapour pressure: "
             "column separation is likely. A detailed transient analysis and surge protection "
             "are required."
         )
     if h < 0.0:
         return (
             f"Pump trip: the downsurge takes {node} below atmospheric pressure "
-            f"({h:.3g} m gauge): air valves would admit air. A detailed transient analysis "
+            f"({m(h)} gauge): air valves would admit air. A detailed transient analysis "
             "is required."
         )
     return (
-        f"Pump trip: the downsurge of up to {rise:.4g} m keeps every pipe end above "
-        f"atmospheric pressure (lowest {h:.3g} m gauge at {node}). Screening passes; it "
+        f"Pump trip: the downsurge of up to {m(rise)} keeps every pipe end above "
+        f"atmospheric pressure (lowest {m(h)} gauge at {node}). Screening passes; it "
         "neglects pump inertia, friction and reflections."
     )
