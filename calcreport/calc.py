@@ -578,36 +578,26 @@ def _viscous(
             Q=q,
             Q_bep=Q_bep,
         )
-        flow.append(
-            b.step(
-                case.sid(f"pump.viscous.flow[{i}]"),
-                f"Viscous flow, point {i}",
-                viscous.viscous_flow,
-                case.id,
-                Q=q,
-                C_Q=C_Q,
-            )
-        )
-        head.append(
-            b.step(
-                case.sid(f"pump.viscous.head[{i}]"),
-                f"Viscous head, point {i}",
-                viscous.viscous_head,
-                case.id,
-                H=h,
-                C_H=C_H,
-            )
-        )
-        eff.append(
-            b.step(
-                case.sid(f"pump.viscous.efficiency[{i}]"),
-                f"Viscous efficiency, point {i}",
+        for name, label, law, args, points in (
+            ("flow", "Viscous flow", viscous.viscous_flow, {"Q": q, "C_Q": C_Q}, flow),
+            ("head", "Viscous head", viscous.viscous_head, {"H": h, "C_H": C_H}, head),
+            (
+                "efficiency",
+                "Viscous efficiency",
                 viscous.viscous_efficiency,
-                case.id,
-                eta=e,
-                C_eta=C_eta,
+                {"eta": e, "C_eta": C_eta},
+                eff,
+            ),
+        ):
+            points.append(
+                b.step(
+                    case.sid(f"pump.viscous.{name}[{i}]"),
+                    f"{label}, point {i}",
+                    law,
+                    case.id,
+                    **args,
+                )
             )
-        )
     b.assume(
         "The pump curve is corrected for viscosity by ANSI/HI 9.6.7 (equations as recalled, "
         "to be verified against the standard); NPSH required is the water curve's."
