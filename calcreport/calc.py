@@ -255,14 +255,20 @@ def _status(model: Model, results: dict[str, Any], found: list[Check]) -> dict[s
             "value": "not feasible",
             "reason": "the pump curve does not meet the system curve in the design case",
         }
-    if any(c.status == "fail" for c in found):
-        return {"value": "does not comply", "reason": "one or more design checks fail"}
-    if model.pump.curve is None:
+    fails = sum(1 for c in found if c.status == "fail")
+    if model.pump.curve is None:  # DESIGN.md: preliminary while the pump is not selected
         return {
             "value": "preliminary",
             "reason": "pump not selected: no pump curve is given, so the operating point, "
-            "NPSH required and motor rating are not determined",
+            "NPSH required and motor rating are not determined"
+            + (
+                f"; {fails} design check{'s already fail' if fails != 1 else ' already fails'}"
+                if fails
+                else ""
+            ),
         }
+    if fails:
+        return {"value": "does not comply", "reason": "one or more design checks fail"}
     return {
         "value": "for checking",
         "reason": "pump curve given; every check is a pass or marked for review",

@@ -110,7 +110,10 @@ def test_sub_atmospheric_crest_fails_naming_the_node():
     assert "D1 end" in check.message and "sub-atmospheric" in check.message
     assert t.results["route"]["crest"]["node"] == "D1 end"
     assert t.results["route"]["crest"]["above_destination"]["value"] == pytest.approx(5.0)
-    assert t.status["value"] == "does not comply"
+    # No pump curve: still preliminary (DESIGN.md), the failure said in the reason.
+    assert (
+        t.status["value"] == "preliminary" and "1 design check already fails" in t.status["reason"]
+    )
 
 
 def test_high_point_is_listed():
