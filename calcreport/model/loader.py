@@ -1361,20 +1361,14 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                 f"{roughness.value * 1e3:.6g} mm.",
             )
         fittings = _fittings(r, data.get("fittings", []), path)
+        material = _material_name(data)
         hw_c = r.quantity(data, "hazen_williams_c", path, "dimensionless", positive=True)
-        if hw_c is None and isinstance(data.get("material"), str):
-            from calcreport.catalog.pipes import CatalogLookupError
-            from calcreport.catalog.pipes import roughness as _rough
-
-            try:
-                material = _rough(data["material"]).material
-            except CatalogLookupError:
-                material = ""
+        if hw_c is None and material:
             if material in catalog.hazen_williams_c():
                 value, source = catalog.hazen_williams_c()[material]
                 hw_c = Given(value, "", f"catalog.hazen_williams_c[{material}]")
                 sources["hazen_williams_c"] = f"C = {value:g} for {material}: {source}"
-        wall, modulus, poisson = _wall(r, data, path, sources, diameter, catalog_wall)
+        wall, modulus, poisson = _wall(r, data, path, sources, diameter, catalog_wall, material)
         rating = r.quantity(data, "pressure_rating", path, "pressure", positive=True)
         restraint = r.text(data, "restraint", path, "", RESTRAINTS) if "restraint" in data else ""
         if restraint in ("anchored", "upstream_anchor") and poisson is None:
@@ -1480,6 +1474,20 @@ def _surge(r: _Reader, data: dict[str, Any]) -> Surge | None:
     return Surge(event, closure)
 
 
+def _material_name(data: dict[str, Any]) -> str:
+    """The catalog's name of the pipe's material ("" when none is given or it is unknown:
+    the roughness lookup reports that)."""
+    from calcreport.catalog.pipes import CatalogLookupError
+    from calcreport.catalog.pipes import roughness as _rough
+
+    if not isinstance(data.get("material"), str):
+        return ""
+    try:
+        return _rough(data["material"]).material
+    except CatalogLookupError:
+        return ""
+
+
 # Catalog families whose wall material follows from the family alone.
 _FAMILY_MATERIAL = {
     "steel": "commercial_steel",
@@ -1497,10 +1505,10 @@ def _wall(
     sources: dict[str, str],
     diameter: Given | None,
     catalog_wall: Given | None,
+    material: str,
 ) -> tuple[Given | None, Given | None, Given | None]:
-    """Wall thickness, elastic modulus and Poisson's ratio: as given, else from the catalog."""
-    from calcreport.catalog.pipes import CatalogLookupError
-    from calcreport.catalog.pipes import roughness as _rough
+    """Wall thickness, elastic modulus and Poisson's ratio: as given, else from the catalog
+    (by the pipe's catalog material, else its size family's)."""
 
     wall = r.quantity(data, "wall_thickness", path, "diameter", positive=True)
     if wall and catalog_wall:
@@ -1519,12 +1527,6 @@ def _wall(
     poisson = r.quantity(data, "poisson_ratio", path, "dimensionless", positive=True)
     if poisson and poisson.value >= 0.5:
         r.problem(f"{path}.poisson_ratio", "Poisson's ratio of a solid is below 0.5.")
-    material = ""
-    if isinstance(data.get("material"), str):
-        try:
-            material = _rough(data["material"]).material
-        except CatalogLookupError:
-            material = ""
     material = material or _FAMILY_MATERIAL.get(sources.get("family", ""), "")
     entry = catalog.elastic_moduli().get(material)
     if entry:
