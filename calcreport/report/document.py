@@ -1099,12 +1099,8 @@ class _Report:
                 f"h_m [{sym['length']}]",
             ]
         ]
+        num = self.num
         for ident, p in self.r["pipes"].items():
-
-            def num(qty: dict[str, Any], kind: str) -> str:
-                return fmt(
-                    to_display(qty["value"], qty["unit"], display_unit(kind, self.system)), 4
-                )
 
             rows.append(
                 [
