@@ -1915,12 +1915,12 @@ def _energy(
     """Annual energy and cost on the basis of the duty: continuous, fill, or a profile."""
     op = model.operation
     energy: dict[str, Any] = {"control": op.control}
-    demand = P_e
+    demand, burnt = P_e, None
     if op.profile:
         found = _duty_profile(b, model, case, liquid, surfaces, curve, P_e, eta_drive, notes)
         if found is None:
             return None
-        E, hours, e_v, demand, extra = found
+        E, hours, e_v, demand, burnt, extra = found
         energy.update(extra)
     else:
         if op.hours_per_year is not None:
@@ -1964,13 +1964,12 @@ def _energy(
                 price=op.energy_price,
             )
         )
-        if "throttling_energy" in energy:
-            lost = Given(energy["throttling_energy"]["value"], "J", "energy.throttling")
+        if burnt is not None:
             C_thr = b.step(
                 "energy.throttling_cost",
                 "Annual cost of the energy burnt in throttling",
                 power.annual_cost,
-                E=lost,
+                E=burnt,
                 price=op.energy_price,
             )
             energy["throttling_cost"] = quantity(C_thr.value, op.currency)
@@ -2019,8 +2018,9 @@ def _duty_profile(
     P_e: Given,
     eta_drive: Given,
     notes: list[str],
-) -> tuple[Given, Given, Given, Given, dict[str, Any]] | None:
-    """Energy over operation.profile: annual energy, time, specific energy, demand, rows.
+) -> tuple[Given, Given, Given, Given, Given | None, dict[str, Any]] | None:
+    """Energy over operation.profile: annual energy, time, specific energy, demand, the
+    energy burnt throttling (None for other controls) and the rows.
 
     On-off control runs the pump at its operating point for as long as the
     profile's volume needs; throttled control holds the fixed-speed pump at each
@@ -2051,6 +2051,7 @@ def _duty_profile(
         for i, (q, h) in enumerate(op.profile, start=1)
     ]
     extra: dict[str, Any] = {"annual_volume": _q(V), "profile": rows}
+    E_thr = None
     if op.control == "on_off":
         hours = b.step(
             "energy.operating_time",
@@ -2104,7 +2105,7 @@ def _duty_profile(
         E=E,
         V=V,
     )
-    return E, hours, e_v, demand, extra
+    return E, hours, e_v, demand, E_thr, extra
 
 
 def _profile_point(
