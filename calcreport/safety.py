@@ -136,6 +136,7 @@ class Route:
         self.b = b
         self.model = model
         self.pipes = {p.id: (i, p) for i, p in enumerate(model.pipes)}
+        self.first_discharge = next((p for p in model.pipes if p.line == "discharge"), None)
         self._heads: dict[tuple[str, str], Given] = {}
         self._vapour: dict[str, Given] = {}
         self.rises: dict[str, Given] = {}  # surge head change by pipe, once screened
@@ -360,14 +361,13 @@ class Route:
         (elevation plus pressure head at the densest liquid) for the profile chart."""
         z = p["elevation"]
         design = states["C1"]
-        first = next(
-            (n for n in design.profile["nodes"] if n.get("side") == "discharge"),
-            design.profile["nodes"][-1],
-        )
         node = _node(design, p["node"])
+        first = self.first_discharge
+        # The pump discharge stands where the first discharge pipe starts.
+        at = node or (first and _node(design, f"{first.id} start")) or design.profile["nodes"][-1]
         entry: dict[str, Any] = {
             "node": p["node"],
-            "distance": quantity((node or first)["distance"], "m"),
+            "distance": quantity(at["distance"], "m"),
             "elevation": quantity(z, "m"),
             "max_pressure": quantity(p["max"], "Pa"),
             "max_grade": quantity(z + p["max"] / (rho * losses.G), "m"),
@@ -426,8 +426,7 @@ class Route:
             return [{"item": "pump casing", "rating": rating.value}] if rating else []
         pipe: Pipe = self.pipes[node["pipe"]][1]
         found = []
-        first = next((p for p in model.pipes if p.line == "discharge"), None)
-        if model.pump.pressure_rating and pipe is first and node["end"] == "start":
+        if model.pump.pressure_rating and pipe is self.first_discharge and node["end"] == "start":
             # The casing also sees what the first discharge pipe sees in operation and surge.
             found.append({"item": "pump casing", "rating": model.pump.pressure_rating.value})
         if pipe.pressure_rating:
