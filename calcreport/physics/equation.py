@@ -30,7 +30,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-__all__ = ["Equation", "equation", "lookup", "registered"]
+__all__ = ["Equation", "equation", "listed", "lookup", "paired", "registered"]
 
 _PARAM_LINE = re.compile(r"^(\w+)\s*:\s*\S.*$")
 _UNIT_AT_END = re.compile(r"\[([^\[\]]*)\]\s*$")
@@ -136,6 +136,47 @@ def equation(
         return func
 
     return register
+
+
+def listed(
+    name: str, unit: str = "", *, sep: str = " + ", around: str = "{}", empty: str | None = None
+) -> Callable[..., str]:
+    """A substitution printing the values of the list argument ``name``, each with ``unit``,
+    joined by ``sep`` and put in ``around``; ``empty`` stands for no values (when given)."""
+
+    def text(values: dict[str, Any], result: float, fmt: Any) -> str:
+        items = values[name]
+        if not items and empty is not None:
+            return empty
+        return around.format(sep.join(f"{fmt(v)} {unit}".strip() for v in items))
+
+    return text
+
+
+def paired(
+    first: str,
+    first_unit: str,
+    op: str,
+    second: str,
+    second_unit: str,
+    *,
+    around: str = "{}",
+    empty: str | None = None,
+) -> Callable[..., str]:
+    """A substitution printing two list arguments element by element, ``a op b``, joined
+    by " + " and put in ``around``; ``empty`` stands for no values (when given)."""
+
+    def text(values: dict[str, Any], result: float, fmt: Any) -> str:
+        pairs = list(zip(values[first], values[second], strict=True))
+        if not pairs and empty is not None:
+            return empty
+        terms = (
+            f"{f'{fmt(a)} {first_unit}'.strip()} {op} {f'{fmt(b)} {second_unit}'.strip()}"
+            for a, b in pairs
+        )
+        return around.format(" + ".join(terms))
+
+    return text
 
 
 def lookup(name: str) -> Equation:

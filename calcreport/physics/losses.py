@@ -16,7 +16,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from calcreport.physics.equation import equation
+from calcreport.physics.equation import equation, listed, paired
 
 __all__ = [
     "G",
@@ -142,16 +142,11 @@ def darcy_weisbach(f: Any, L: Any, D: Any, v: Any) -> Any:
     return f * L / D * v**2 / (2.0 * G)
 
 
-def _k_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
-    terms = [f"{fmt(n)} × {fmt(k)}" for k, n in zip(values["K"], values["count"], strict=True)]
-    return " + ".join(terms) if terms else "0 (no fittings)"
-
-
 @equation(
     symbol="ΣK",
     text="ΣK = Σ n_i·K_i",
     latex=r"\Sigma K = \sum_i n_i K_i",
-    substitute=_k_terms,
+    substitute=paired("count", "", "×", "K", "", empty="0 (no fittings)"),
     reference="crane_tp410",
 )
 def k_total(K: Any, count: Any) -> Any:
@@ -268,16 +263,11 @@ def rated_loss(dp: Any, Q: Any, Q_rated: Any, rho: Any) -> Any:
     return dp / (rho * G) * (Q / Q_rated) ** 2
 
 
-def _sum_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
-    terms = [f"{fmt(h)} m" for h in values["h"]]
-    return " + ".join(terms) if terms else "0 m"
-
-
 @equation(
     symbol="Σh",
     text="Σh = h_1 + h_2 + …",
     latex=r"\Sigma h = \sum_i h_i",
-    substitute=_sum_terms,
+    substitute=listed("h", "m", empty="0 m"),
     reference="white_fm",
 )
 def head_sum(h: Any) -> Any:

@@ -17,7 +17,7 @@ from typing import Any
 
 import numpy as np
 
-from calcreport.physics.equation import equation
+from calcreport.physics.equation import equation, listed, paired
 from calcreport.physics.losses import G
 
 __all__ = [
@@ -522,15 +522,11 @@ def demand_cost(P_e: Any, rate: Any) -> Any:
     return P_e / 1000.0 * rate * 12.0
 
 
-def _cost_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
-    return " + ".join(fmt(c) for c in values["costs"])
-
-
 @equation(
     symbol="C",
     text="C = ΣC_i",
     latex=r"C = \sum_i C_i",
-    substitute=_cost_terms,
+    substitute=listed("costs"),
     reference="hi_power",
 )
 def cost_sum(costs: Any) -> Any:
@@ -602,16 +598,11 @@ def present_value(C: Any, rate: Any, years: Any) -> Any:
     return C * (1.0 - (1.0 + rate) ** -years) / rate
 
 
-def _product_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
-    pairs = zip(values["P"], values["t"], strict=True)
-    return " + ".join(f"{fmt(p)} W × {fmt(t)} s" for p, t in pairs) or "0 J"
-
-
 @equation(
     symbol="E",
     text="E = Σ P_e,i·t_i",
     latex=r"E = \sum_i P_{e,i}\, t_i",
-    substitute=_product_terms,
+    substitute=paired("P", "W", "×", "t", "s", empty="0 J"),
     reference="hi_power",
 )
 def profile_energy(P: Any, t: Any) -> Any:
@@ -644,16 +635,11 @@ def profile_energy(P: Any, t: Any) -> Any:
     return sum(p * s for p, s in zip(P, t, strict=True))
 
 
-def _volume_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
-    pairs = zip(values["Q"], values["t"], strict=True)
-    return " + ".join(f"{fmt(q)} m³/s × {fmt(t)} s" for q, t in pairs) or "0 m³"
-
-
 @equation(
     symbol="V",
     text="V = Σ Q_i·t_i",
     latex=r"V = \sum_i Q_i\, t_i",
-    substitute=_volume_terms,
+    substitute=paired("Q", "m³/s", "×", "t", "s", empty="0 m³"),
     reference="hi_power",
 )
 def profile_volume(Q: Any, t: Any) -> Any:
@@ -763,15 +749,11 @@ def throttling_power(P_e: Any, h_thr: Any, H: Any) -> Any:
     return P_e * h_thr / H
 
 
-def _max_text(values: dict[str, Any], result: float, fmt: Any) -> str:
-    return "max(" + ", ".join(f"{fmt(p)} W" for p in values["P"]) + ")"
-
-
 @equation(
     symbol="P_max",
     text="P_max = max_i P_e,i",
     latex=r"P_{max} = \max_i P_{e,i}",
-    substitute=_max_text,
+    substitute=listed("P", "W", sep=", ", around="max({})"),
     reference="hi_power",
 )
 def peak_power(P: Any) -> Any:
@@ -806,7 +788,7 @@ def peak_power(P: Any) -> Any:
     symbol="t",
     text="t = Σ t_i",
     latex=r"t = \sum_i t_i",
-    substitute=lambda values, result, fmt: " + ".join(f"{fmt(t)} s" for t in values["t"]),
+    substitute=listed("t", "s"),
     reference="hi_power",
 )
 def time_sum(t: Any) -> Any:

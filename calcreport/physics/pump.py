@@ -26,7 +26,7 @@ from typing import Any
 import numpy as np
 
 from calcreport.errors import ConvergenceError
-from calcreport.physics.equation import equation
+from calcreport.physics.equation import equation, listed
 from calcreport.physics.losses import G
 
 __all__ = [
@@ -716,15 +716,11 @@ def per_pump_flow(Q: Any, n_run: Any) -> Any:
     return Q / n_run
 
 
-def _max_text(values: dict[str, Any], result: float, fmt: Any) -> str:
-    return "max(" + ", ".join(f"{fmt(h)} m" for h in values["head"]) + ")"
-
-
 @equation(
     symbol="H_max",
     text="H_max = max_i H_i",
     latex=r"H_{max} = \max_i H_i",
-    substitute=_max_text,
+    substitute=listed("head", "m", sep=", ", around="max({})"),
     reference="fritsch_carlson_1980",
 )
 def curve_max_head(head: Any) -> Any:

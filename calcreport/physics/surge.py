@@ -20,7 +20,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from calcreport.physics.equation import equation
+from calcreport.physics.equation import equation, paired
 from calcreport.physics.losses import G
 
 __all__ = [
@@ -232,16 +232,11 @@ def pipe_period(L: Any, a: Any) -> Any:
     return 2.0 * L / a
 
 
-def _period_terms(values: dict[str, Any], result: float, fmt: Any) -> str:
-    terms = [f"{fmt(L)} m / {fmt(a)} m/s" for L, a in zip(values["L"], values["a"], strict=True)]
-    return "2 × (" + " + ".join(terms) + ")"
-
-
 @equation(
     symbol="T_r",
     text="T_r = 2·Σ(L_i/a_i)",
     latex=r"T_r = 2 \sum_i \frac{L_i}{a_i}",
-    substitute=_period_terms,
+    substitute=paired("L", "m", "/", "a", "m/s", around="2 × ({})"),
     reference="wylie_streeter_1993",
 )
 def line_period(L: Any, a: Any) -> Any:
