@@ -1101,7 +1101,6 @@ class _Report:
         ]
         num = self.num
         for ident, p in self.r["pipes"].items():
-
             rows.append(
                 [
                     text(ident),
