@@ -535,6 +535,11 @@ def _viscous(
         head=curve.head,
     )
     stages = model.pump.stages or b.assume("A single-stage pump (pump.stages not given).", 1.0, "")
+    eyes = (
+        b.assume("A double-suction impeller: the BEP flow per eye enters B.", 2.0, "")
+        if model.pump.impeller == "double_suction"
+        else b.assume("A single-suction impeller (pump.impeller not given).", 1.0, "")
+    )
     B = b.step(
         case.sid("pump.viscous.parameter"),
         "Viscosity parameter B (ANSI/HI 9.6.7)",
@@ -545,6 +550,7 @@ def _viscous(
         Q=Q_bep,
         n=speed,
         stages=stages,
+        eyes=eyes,
     )
     out: dict[str, Any] = {"parameter": _q(B), "applied": False}
     if B.value <= 1.0:

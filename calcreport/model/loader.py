@@ -154,6 +154,7 @@ DIAMETER_CHANGES = ("expander", "reducer")
 EFFICIENCY_BASES = ("pump", "overall")
 MOTOR_CLASSES = ("IE2", "IE3")
 ARRANGEMENTS = ("parallel", "series")
+IMPELLERS = ("single_suction", "double_suction")
 MAX_PUMPS = 12
 _PROVENANCE_KEYS = (
     "acceptance_grade",
@@ -179,6 +180,7 @@ _PUMP_KEYS = {
     "arrangement",
     "pressure_rating",
     "stages",
+    "impeller",
     *_PROVENANCE_KEYS,
 }
 _CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required", "power", "file"}
@@ -749,10 +751,12 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
         )
     rating = r.quantity(data, "pressure_rating", "pump", "pressure", positive=True)
     stages = _whole(r, data, "stages", 1, 30)
+    impeller = r.text(data, "impeller", "pump", "single_suction", IMPELLERS)
     if elevation is None:
         return None
     return Pump(
         stages=stages,
+        impeller=impeller,
         pressure_rating=rating,
         count=count or Given(1.0, "", "pump.count"),
         standby=standby or Given(0.0, "", "pump.standby"),

@@ -184,6 +184,7 @@ class Pump:
     efficiency_basis: str = "pump"  # pump | overall (wire-to-water)
     pressure_rating: Given | None = None  # casing allowable working pressure, gauge
     stages: Given | None = None  # stages of a multistage pump (viscous correction)
+    impeller: str = "single_suction"  # single_suction | double_suction (viscous correction)
 
 
 @dataclass(frozen=True)

@@ -11,10 +11,13 @@ The Hydraulic Institute's method (ANSI/HI 9.6.7-2010) scales the water
 curve by factors C_Q, C_H and C_η that depend on one parameter B, a pump
 Reynolds number adjusted for specific speed, computed at the water BEP. No
 correction applies for B ≤ 1; the method covers B < 40, beyond which a
-positive-displacement pump is to be considered. The equations here are as
-recalled from the standard (from memory; not checked against its worked
-example): verify against ANSI/HI 9.6.7 before relying on a viscous
-selection.
+positive-displacement pump is to be considered. B is taken per stage and,
+for a double-suction impeller, per eye. The equations here are as recalled
+from the standard (from memory). The tests hold them against the sample of
+the Hydraulic Institute's earlier chart method, which they replaced, to
+within 0.05 on each factor; the standard's own worked example was not
+available to check them: verify against ANSI/HI 9.6.7 before relying on a
+viscous selection.
 """
 
 from __future__ import annotations
@@ -77,16 +80,16 @@ def kinematic_viscosity(mu: Any, rho: Any) -> Any:
 
 @equation(
     symbol="B",
-    text="B = 16.5·ν^0.5·H^0.0625/(Q^0.375·N^0.25)  (ν cSt, H m, Q m³/h, N rpm)",
-    latex=r"B = 16.5 \frac{\nu^{0.5} H^{0.0625}}{Q^{0.375} N^{0.25}}",
+    text="B = 16.5·ν^0.5·(H/stages)^0.0625/((Q/eyes)^0.375·N^0.25)  (ν cSt, H m, Q m³/h, N rpm)",
+    latex=r"B = 16.5 \frac{\nu^{0.5} (H/i)^{0.0625}}{(Q/e)^{0.375} N^{0.25}}",
     substitute="16.5 × ({nu} × 1e6 cSt/(m²/s))^0.5 × ({H} / {stages})^0.0625 / "
-    "(({Q} × 3600 s/h)^0.375 × ({n} × 60 s/min)^0.25)",
+    "(({Q} / {eyes} × 3600 s/h)^0.375 × ({n} × 60 s/min)^0.25)",
     reference="hi_viscous",
 )
-def viscosity_parameter(nu: Any, H: Any, Q: Any, n: Any, stages: Any) -> Any:
+def viscosity_parameter(nu: Any, H: Any, Q: Any, n: Any, stages: Any, eyes: Any) -> Any:
     r"""The Hydraulic Institute's viscosity parameter B at the pump's water BEP.
 
-    .. math:: B = 16.5 \frac{\nu^{0.5} H_{BEP}^{0.0625}}{Q_{BEP}^{0.375} N^{0.25}}
+    .. math:: B = 16.5 \frac{\nu^{0.5} (H_{BEP}/i)^{0.0625}}{(Q_{BEP}/e)^{0.375} N^{0.25}}
 
     Parameters
     ----------
@@ -99,7 +102,10 @@ def viscosity_parameter(nu: Any, H: Any, Q: Any, n: Any, stages: Any) -> Any:
     n : float
         Pump speed [1/s]
     stages : float
-        Number of stages; the head per stage enters [-]
+        Number of stages i; the head per stage enters [-]
+    eyes : float
+        Impeller eyes e: 1 for a single-suction, 2 for a double-suction impeller;
+        the flow per eye enters [-]
 
     Returns
     -------
@@ -109,11 +115,11 @@ def viscosity_parameter(nu: Any, H: Any, Q: Any, n: Any, stages: Any) -> Any:
     Notes
     -----
     The constant 16.5 is for ν in cSt, H in m, Q in m³/h and N in rpm; the
-    US form's 26.6 (cSt, ft, gpm, rpm) gives the same B.
+    US form's 26.6 (cSt, ft, US gpm, rpm) gives the same B.
 
     Examples
     --------
-    >>> round(viscosity_parameter(100e-6, 40.0, 0.05, 24.2, 1.0), 3)
+    >>> round(viscosity_parameter(100e-6, 40.0, 0.05, 24.2, 1.0, 1.0), 3)
     4.802
 
     References
@@ -125,7 +131,7 @@ def viscosity_parameter(nu: Any, H: Any, Q: Any, n: Any, stages: Any) -> Any:
         16.5
         * (nu * 1e6) ** 0.5
         * (H / stages) ** 0.0625
-        / ((Q * 3600.0) ** 0.375 * (n * 60.0) ** 0.25)
+        / ((Q / eyes * 3600.0) ** 0.375 * (n * 60.0) ** 0.25)
     )
 
 
