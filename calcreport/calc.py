@@ -701,13 +701,20 @@ def _solve_case(
             **(
                 {"efficiency": quantity(curve.values("efficiency"), "")} if curve.efficiency else {}
             ),
-            **(
-                {"npsh_required": quantity(curve.values("npsh_required"), "m")}
-                if curve.npsh_required
-                else {}
-            ),
+            **(_npsh_curves(model, curve) if curve.npsh_required else {}),
         }
     return results
+
+
+def _npsh_curves(model: Model, curve: CurvePoints) -> dict[str, Any]:
+    """NPSH required at the curve points and the NPSH available its margin criterion asks for."""
+    npshr = np.asarray(curve.values("npsh_required"))
+    ratio, _, _, _ = checks.criterion(model, "npsh_margin_ratio")
+    minimum, _, _, _ = checks.criterion(model, "npsh_margin_min")
+    return {
+        "npsh_required": quantity(npshr.tolist(), "m"),
+        "npsh_needed": quantity(pump.npsh_needed(npshr, ratio, minimum).tolist(), "m"),
+    }
 
 
 def _intake(b: TraceBuilder, model: Model, case: Case, h: dict[str, Any]) -> dict[str, Any] | None:

@@ -15,6 +15,7 @@ from typing import Any
 
 from calcreport import catalog
 from calcreport.model.schema import Model
+from calcreport.physics import pump
 from calcreport.trace import Check
 
 __all__ = ["criterion", "evaluate", "governing", "once", "preferred_range"]
@@ -359,7 +360,7 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], c
     npshr = point["npsh_required"]["value"]
     ratio, basis_r, ref, project_r = criterion(model, "npsh_margin_ratio")
     minimum, _, _, project_m = criterion(model, "npsh_margin_min")
-    needed = max(ratio * npshr, npshr + minimum)
+    needed = float(pump.npsh_needed(npshr, ratio, minimum))
     ok = npsha >= needed
     status = "pass" if ok else ("fail" if npsha <= npshr or project_r or project_m else "review")
     return Check(

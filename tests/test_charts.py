@@ -132,7 +132,7 @@ def test_every_chart_is_a_one_page_pdf_of_report_width(drawn, key: str, name: st
     assert fig.pdf.startswith(b"%PDF") and len(fig.pdf) > 1000
     assert fig.pdf.rstrip().endswith(b"%%EOF")
     assert fig.width_pt == pytest.approx(WIDTH_PT)
-    assert 3.2 * 72 - 1e-9 <= fig.height_pt <= 3.8 * 72 + 1e-9
+    assert 3.2 * 72 - 1e-9 <= fig.height_pt <= 5.0 * 72 + 1e-9  # two panels at most
     assert fig.title.strip() and "\n" not in fig.title
     assert not fig.title.lower().startswith("figure")
     assert fig.figure is not None
@@ -329,9 +329,43 @@ def test_pump_curve_and_operating_point_are_drawn_when_given(traces) -> None:
     legend = [x.get_text() for x in curve.figure.axes[0].get_legend().get_texts()]
     assert "pump curve" in legend and "operating point" in legend
     assert "operating point" in curve.title
+    assert "end of pump curve" in legend
+    end = next(x for x in curve.figure.axes[0].lines if x.get_label() == "end of pump curve")
+    assert list(end.get_xdata()) == [40.0] and list(end.get_ydata()) == [44.0]  # L/s, m
     npsh = charts.npsh(t)
     legend = [x.get_text() for x in npsh.figure.axes[0].get_legend().get_texts()]
     assert "NPSH required (pump data)" in legend
+    assert len(npsh.figure.axes) == 1  # no efficiency in the pump data: no efficiency panel
+
+
+def test_npsh_chart_adds_efficiency_and_the_margin_line_from_the_trace(traces) -> None:
+    t = copy.deepcopy(traces["si"])
+    r = t["results"]
+    r["pump_curve"] = {
+        "flow": {"value": [0.0, 0.02, 0.04], "unit": "m^3/s"},
+        "head": {"value": [70.0, 63.0, 44.0], "unit": "m"},
+        "efficiency": {"value": [0.0, 0.78, 0.6], "unit": ""},
+        "npsh_required": {"value": [1.5, 2.8, 5.6], "unit": "m"},
+        "npsh_needed": {"value": [2.1, 3.4, 6.2], "unit": "m"},
+    }
+    r["operating_point"] = {
+        "flow": {"value": 0.03, "unit": "m^3/s"},
+        "head": {"value": 55.0, "unit": "m"},
+        "efficiency": {"value": 0.74, "unit": ""},
+        "npsh_required": {"value": 4.1, "unit": "m"},
+    }
+    fig = charts.npsh(t)
+    top, bottom = fig.figure.axes
+    assert top.get_ylabel() == "Efficiency [%]" and bottom.get_ylabel().startswith("NPSH")
+    eff = next(x for x in top.lines if x.get_label() == "pump efficiency")
+    assert list(eff.get_ydata()) == pytest.approx([0.0, 78.0, 60.0])
+    op = next(x for x in top.lines if x.get_label() == "operating point")
+    assert list(op.get_ydata()) == pytest.approx([74.0])
+    needed = next(x for x in bottom.lines if "margin criterion" in x.get_label())
+    assert list(needed.get_ydata()) == [2.1, 3.4, 6.2]  # drawn as traced, not recomputed
+    labels = [x.get_text() for x in top.get_legend().get_texts()]
+    assert len(labels) == len(set(labels)) and "NPSH available" in " ".join(labels)
+    assert fig.title.startswith("Pump efficiency (above) and NPSH available")
 
 
 def test_other_cases_with_their_own_curve_are_drawn(traces) -> None:

@@ -42,6 +42,7 @@ __all__ = [
     "monotone_cubic",
     "npsh_margin",
     "npsh_margin_ratio",
+    "npsh_needed",
     "npsh_required_at",
     "operating_point",
     "per_pump_flow",
@@ -495,6 +496,40 @@ def npsh_margin(npsha: Any, npshr: Any) -> Any:
     1. ANSI/HI 9.6.1, Rotodynamic Pumps - Guideline for NPSH Margin.
     """
     return npsha - npshr
+
+
+def npsh_needed(npshr: Any, ratio: float, minimum: float) -> Any:
+    r"""NPSH available that a margin criterion asks for at a given NPSH required.
+
+    .. math:: NPSH_{a,min} = \max(R\, NPSH_r,\; NPSH_r + \Delta_{min})
+
+    Parameters
+    ----------
+    npshr : float or ndarray
+        NPSH required (NPSH3 of the pump data) [m]
+    ratio : float
+        Margin ratio R the criterion asks for [-]
+    minimum : float
+        Margin in head the criterion asks for [m]
+
+    Returns
+    -------
+    needed : float or ndarray
+        Lowest NPSH available that meets both parts of the criterion [m]
+
+    Examples
+    --------
+    >>> float(npsh_needed(4.0, 1.1, 0.6))
+    4.6
+    >>> npsh_needed(np.array([2.0, 8.0]), 1.1, 0.6).round(3).tolist()
+    [2.6, 8.8]
+
+    References
+    ----------
+    1. ANSI/HI 9.6.1, Rotodynamic Pumps - Guideline for NPSH Margin: a margin stated
+       both as a ratio and in head, the greater governing.
+    """
+    return np.maximum(ratio * npshr, npshr + minimum)
 
 
 def operating_point(

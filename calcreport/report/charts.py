@@ -777,6 +777,18 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
             label="pump curve",
         )
         handles.append(line)
+        # The curve is never extended: its last point is a limit of the pump data.
+        (end,) = ax.plot(
+            line.get_xdata()[-1:],
+            line.get_ydata()[-1:],
+            ls="none",
+            marker="|",
+            ms=11,
+            mew=1.6,
+            color=INK,
+            label="end of pump curve",
+        )
+        handles.append(end)
         ymax = max(ymax, float(np.max(line.get_ydata())))
         xmax = max(xmax, float(np.max(line.get_xdata())))
 
@@ -932,9 +944,16 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
     q_duty = d(duty_point["flow"], "flow")
     a_duty = d(duty_point["npsh_available"], "length")
     qu, hu = d.label("flow"), d.label("length")
+    pump = r.get("pump_curve") if isinstance(r.get("pump_curve"), dict) else {}
+    op = r.get("operating_point") if isinstance(r.get("operating_point"), dict) else {}
 
-    fig = _new_figure(3.2)
-    ax = fig.add_subplot()
+    # With the pump's efficiency, a panel above shares the flow axis.
+    with_efficiency = "flow" in pump and "efficiency" in pump
+    fig = _new_figure(4.9 if with_efficiency else 3.2)
+    if with_efficiency:
+        top, ax = fig.subplots(2, 1, sharex=True, gridspec_kw={"height_ratios": [1.0, 1.6]})
+    else:
+        top, ax = None, fig.add_subplot()
     _style_axes(ax)
     handles = []
     basis = " at the lowest source level" if _given(trace, "source.level_low") else ""
@@ -943,10 +962,10 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
     ymax = float(np.max(a))
     xmax = float(np.max(q))
 
-    pump = r.get("pump_curve")
-    if isinstance(pump, dict) and "flow" in pump and "npsh_required" in pump:
+    if "flow" in pump and "npsh_required" in pump:
+        pq = d(pump["flow"], "flow")
         (line,) = ax.plot(
-            d(pump["flow"], "flow"),
+            pq,
             d(pump["npsh_required"], "length"),
             color=RUST,
             lw=1.3,
@@ -958,7 +977,18 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
         )
         handles.append(line)
         ymax = max(ymax, float(np.max(line.get_ydata())))
-        xmax = max(xmax, float(np.max(line.get_xdata())))
+        xmax = max(xmax, float(np.max(pq)))
+        if "npsh_needed" in pump:
+            (line,) = ax.plot(
+                pq,
+                d(pump["npsh_needed"], "length"),
+                color=RUST,
+                lw=0.9,
+                ls=(0, (1, 1.2)),
+                label="NPSH required with the margin criterion",
+            )
+            handles.append(line)
+            ymax = max(ymax, float(np.max(line.get_ydata())))
 
     (duty,) = ax.plot(
         [q_duty], [a_duty], ls="none", marker="o", ms=6, mfc=RUST, mec=INK, mew=0.6, zorder=5
@@ -967,8 +997,7 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
     handles.append(duty)
     ax.axvline(q_duty, color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
 
-    op = r.get("operating_point")
-    if isinstance(op, dict) and "flow" in op and "npsh_required" in op:
+    if "flow" in op and "npsh_required" in op:
         (opm,) = ax.plot(
             [d(op["flow"], "flow")],
             [d(op["npsh_required"], "length")],
@@ -978,15 +1007,17 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
             mfc="white",
             mec=INK,
             zorder=6,
-            label="NPSH required at the operating point",
+            label="operating point",
         )
         handles.append(opm)
 
+    if top is not None:
+        handles += _efficiency_panel(top, d, pump, op, r.get("operating_region"), q_duty)
     ax.set_xlim(0, xmax * 1.02)
     ax.set_ylim(0, ymax * 1.3)
     ax.set_xlabel(f"Flow [{qu}]")
     ax.set_ylabel(f"NPSH [{hu}]")
-    _legend_above(ax, handles)
+    _legend_above(top if top is not None else ax, _unique(handles))
 
     placer = _Placer(fig, ax)
     placer.add_lines()
@@ -1000,7 +1031,67 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
         f"NPSH available against flow at the design case; at the duty flow "
         f"{_num(q_duty)} {qu}, NPSHa = {_num(a_duty)} {hu}"
     )
+    if "npsh_needed" in pump:
+        title += "; the dotted line is the NPSH available the margin criterion asks for"
+    if top is not None:
+        title = "Pump efficiency (above) and " + title
     return fig, title
+
+
+def _efficiency_panel(
+    ax: Any,
+    d: Any,
+    pump: dict[str, Any],
+    op: dict[str, Any],
+    regions: dict[str, Any] | None,
+    q_duty: float,
+) -> list[Any]:
+    """The pump's efficiency against flow, in percent, with BEP and the operating point."""
+    _style_axes(ax)
+    eta = np.asarray(pump["efficiency"]["value"], dtype=float) * 100.0
+    (line,) = ax.plot(
+        d(pump["flow"], "flow"),
+        eta,
+        color=INK,
+        lw=1.3,
+        ls=(0, (7, 2, 1.5, 2)),
+        label="pump efficiency",
+    )
+    handles = [line]
+    if "flow" in op and "efficiency" in op:
+        (opm,) = ax.plot(
+            [d(op["flow"], "flow")],
+            [op["efficiency"]["value"] * 100.0],
+            ls="none",
+            marker="D",
+            ms=5.5,
+            mfc="white",
+            mec=INK,
+            zorder=6,
+            label="operating point",
+        )
+        handles.append(opm)
+    if regions and "bep_flow" in regions:
+        bep = d(regions["bep_flow"], "flow")
+        handles.append(
+            ax.axvline(bep, color=BLUE, lw=0.8, ls=(0, (2, 2)), zorder=1, label="BEP flow")
+        )
+    ax.axvline(q_duty, color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
+    ax.set_ylim(0, 100)
+    ax.set_ylabel("Efficiency [%]")
+    ax.tick_params(labelbottom=False)
+    return handles
+
+
+def _unique(handles: list[Any]) -> list[Any]:
+    """Legend handles with one entry for each label (the first drawn)."""
+    seen: set[str] = set()
+    out = []
+    for h in handles:
+        if h.get_label() not in seen:
+            seen.add(h.get_label())
+            out.append(h)
+    return out
 
 
 # --------------------------------------------------------------------------
