@@ -17,6 +17,7 @@ from calcreport import catalog
 from calcreport.model.schema import Model
 from calcreport.physics import pump
 from calcreport.trace import Check
+from calcreport.units import show
 
 __all__ = ["criterion", "evaluate", "governing", "once", "preferred_range"]
 
@@ -32,15 +33,15 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         found += _velocity(model, results["pipes"][pipe.id], pipe.id, pipe.line, case)
         found.append(_regime(results["pipes"][pipe.id], pipe.id, case))
         if "check_valve_min_velocity" in results["pipes"][pipe.id]:
-            found.append(_check_valve(results["pipes"][pipe.id], pipe.id, case))
-    found.append(_npsh_positive(results, case))
+            found.append(_check_valve(model, results["pipes"][pipe.id], pipe.id, case))
+    found.append(_npsh_positive(model, results, case))
     route = results.get("route", {})
     if "min_pressure_head" in route:
         found.append(_min_pressure(model, route, case))
     if "suction_min_pressure_head" in route:
         found.append(_suction_pressure(route, case))
     if "intake" in results:
-        found.append(_submergence(results["intake"], case))
+        found.append(_submergence(model, results["intake"], case))
     if model.pump.curve is None:
         found.append(_npsh_open_item(results, case))
         return found
@@ -249,6 +250,14 @@ def _default_value(name: str) -> float:
     return parse(default["value"], default["kind"])
 
 
+_KINDS = {"m": "length", "m/s": "velocity", "m^3/s": "flow"}
+
+
+def _say(model: Model, value: float, si_unit: str) -> str:
+    """A value for a check's message, in the report's units (``"4.92 ft/s"``)."""
+    return show({"value": value, "unit": si_unit}, _KINDS[si_unit], model.project.units, 3)
+
+
 def _status(ok: bool, project_set: bool) -> str:
     if ok:
         return "pass"
@@ -273,7 +282,9 @@ def _velocity(
             basis=basis,
             reference=ref,
             case=case,
-            message="" if v <= limit else f"{v:.3g} m/s exceeds the {side} limit {limit:.3g} m/s",
+            message=""
+            if v <= limit
+            else f"{_say(model, v, 'm/s')} exceeds the {side} limit {_say(model, limit, 'm/s')}",
             margin=limit - v,
         )
     ]
@@ -290,7 +301,9 @@ def _velocity(
             basis=basis,
             reference=ref,
             case=case,
-            message="" if v >= low else f"{v:.3g} m/s is below {low:.3g} m/s",
+            message=""
+            if v >= low
+            else f"{_say(model, v, 'm/s')} is below {_say(model, low, 'm/s')}",
             margin=v - low,
         )
     )
@@ -317,7 +330,7 @@ def _regime(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
     )
 
 
-def _npsh_positive(results: dict[str, Any], case: str) -> Check:
+def _npsh_positive(model: Model, results: dict[str, Any], case: str) -> Check:
     npsha = results["npsh_available"]["value"]
     return Check(
         id="npsh_available",
@@ -331,7 +344,9 @@ def _npsh_positive(results: dict[str, Any], case: str) -> Check:
         "inlet whatever pump is chosen (suction lift beyond what the site allows)",
         reference="hi_npsh",
         case=case,
-        message="" if npsha > 0.0 else f"NPSHa = {npsha:.3g} m: reduce suction lift or losses",
+        message=""
+        if npsha > 0.0
+        else f"NPSHa = {_say(model, npsha, 'm')}: reduce suction lift or losses",
         margin=npsha,
     )
 
@@ -378,7 +393,7 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], c
         message=""
         if ok
         else (
-            f"NPSHa {npsha:.3g} m against NPSHr {npshr:.3g} m"
+            f"NPSHa {_say(model, npsha, 'm')} against NPSHr {_say(model, npshr, 'm')}"
             + (": the pump cavitates" if npsha <= npshr else "")
         ),
         margin=npsha - needed,
@@ -412,7 +427,9 @@ def _duty(model: Model, results: dict[str, Any], point: dict[str, Any], case: st
         + f"; {tolerance}",
         reference="input",
         case=case,
-        message="" if ok else f"delivers {q * 1e3:.4g} L/s of the {needed * 1e3:.4g} L/s required",
+        message=""
+        if ok
+        else f"delivers {_say(model, q, 'm^3/s')} of the {_say(model, needed, 'm^3/s')} required",
         margin=q - needed,
     )
 
@@ -616,7 +633,7 @@ def _surge(result: dict[str, Any]) -> Check:
     )
 
 
-def _submergence(intake: dict[str, Any], case: str) -> Check:
+def _submergence(model: Model, intake: dict[str, Any], case: str) -> Check:
     """Submergence of the inlet at the lowest level: the standard's minimum, for review."""
     S, S_min = intake["submergence"]["value"], intake["minimum_submergence"]["value"]
     ok = S >= S_min
@@ -633,12 +650,14 @@ def _submergence(intake: dict[str, Any], case: str) -> Check:
         "a model study may justify less)",
         reference="hi_intake",
         case=case,
-        message="" if ok else f"{S:.3g} m of submergence is less than {S_min:.3g} m",
+        message=""
+        if ok
+        else f"{_say(model, S, 'm')} of submergence is less than {_say(model, S_min, 'm')}",
         margin=S - S_min,
     )
 
 
-def _check_valve(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
+def _check_valve(model: Model, pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
     """A swing check valve below its full-lift velocity: its disc floats part-open."""
     v, v_min = pipe["velocity"]["value"], pipe["check_valve_min_velocity"]["value"]
     ok = v >= v_min
@@ -657,7 +676,8 @@ def _check_valve(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
         case=case,
         message=""
         if ok
-        else f"{v:.3g} m/s is below {v_min:.3g} m/s: size the valve smaller or choose another type",
+        else f"{_say(model, v, 'm/s')} is below {_say(model, v_min, 'm/s')}: "
+        "size the valve smaller or choose another type",
         margin=v - v_min,
     )
 

@@ -723,3 +723,15 @@ def test_overall_efficiency_basis_never_divides_by_the_motor_efficiency():
     assert r["electrical_power"]["value"] == pytest.approx(
         r["hydraulic_power"]["value"] / 0.65, rel=1e-14
     )
+
+
+def test_check_messages_speak_the_report_units():
+    # A US report states a failing check in US units: 1 ft/s = 0.3048 m/s exactly
+    # (NIST SP 811), so a project limit of "2 ft/s" prints back as 2.00 ft/s.
+    text = (EXAMPLES / "process_transfer_us.toml").read_text()
+    text += '\n[criteria]\ndischarge_velocity_max = "2 ft/s"\n'
+    t = solve(loads(text.encode()))
+    check = next(c for c in t.checks if c.id == "velocity_max.D1")
+    assert check.status == "fail"
+    assert check.message.endswith("exceeds the discharge limit 2.00 ft/s")
+    assert "m/s" not in check.message
