@@ -815,11 +815,7 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
     op_xy = None
     if isinstance(op, dict) and "flow" in op and "head" in op:
         op_xy = (d(op["flow"], "flow"), d(op["head"], "length"))
-        (opm,) = ax.plot(
-            [op_xy[0]], [op_xy[1]], ls="none", marker="D", ms=5.5, mfc="white", mec=INK, zorder=6
-        )
-        opm.set_label("operating point")
-        handles.append(opm)
+        handles.append(_operating_marker(ax, *op_xy))
         others = [
             (d(c["operating_point"]["flow"], "flow"), d(c["operating_point"]["head"], "length"))
             for cid, c in (r.get("cases") or {}).items()
@@ -998,18 +994,9 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
     ax.axvline(q_duty, color=RUST, lw=0.7, ls=(0, (1, 1.5)), zorder=1)
 
     if "flow" in op and "npsh_required" in op:
-        (opm,) = ax.plot(
-            [d(op["flow"], "flow")],
-            [d(op["npsh_required"], "length")],
-            ls="none",
-            marker="D",
-            ms=5.5,
-            mfc="white",
-            mec=INK,
-            zorder=6,
-            label="operating point",
+        handles.append(
+            _operating_marker(ax, d(op["flow"], "flow"), d(op["npsh_required"], "length"))
         )
-        handles.append(opm)
 
     if top is not None:
         handles += _efficiency_panel(top, d, pump, op, r.get("operating_region"), q_duty)
@@ -1059,18 +1046,9 @@ def _efficiency_panel(
     )
     handles = [line]
     if "flow" in op and "efficiency" in op:
-        (opm,) = ax.plot(
-            [d(op["flow"], "flow")],
-            [op["efficiency"]["value"] * 100.0],
-            ls="none",
-            marker="D",
-            ms=5.5,
-            mfc="white",
-            mec=INK,
-            zorder=6,
-            label="operating point",
+        handles.append(
+            _operating_marker(ax, d(op["flow"], "flow"), op["efficiency"]["value"] * 100)
         )
-        handles.append(opm)
     if regions and "bep_flow" in regions:
         bep = d(regions["bep_flow"], "flow")
         handles.append(
@@ -1081,6 +1059,22 @@ def _efficiency_panel(
     ax.set_ylabel("Efficiency [%]")
     ax.tick_params(labelbottom=False)
     return handles
+
+
+def _operating_marker(ax: Any, x: float, y: float) -> Any:
+    """The open diamond that marks the operating point on every chart."""
+    (marker,) = ax.plot(
+        [x],
+        [y],
+        ls="none",
+        marker="D",
+        ms=5.5,
+        mfc="white",
+        mec=INK,
+        zorder=6,
+        label="operating point",
+    )
+    return marker
 
 
 def _unique(handles: list[Any]) -> list[Any]:
