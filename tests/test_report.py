@@ -340,3 +340,23 @@ def test_template_lines_stay_separate_whatever_the_conditions(flag):
     assert len(conventions) == (10 if flag else 9)
     assert all(line.rstrip().endswith(".") for line in conventions)
     assert not any(".Along" in line or ".Flow" in line for line in conventions)
+
+
+def test_a_step_on_the_whole_curve_lists_its_points_as_ranges(built):
+    # The cooling-water example's curve has 6 points: a step that reads all of them
+    # names them pump.curve.flow[1–6], not six keys a line.
+    _, trace, pages = built["cooling_water_selected_pump"]
+    step = next(s for s in trace["steps"] if s["id"] == "pump.head")
+    assert [f"pump.curve.flow[{i}]" for i in range(1, 7)] == [
+        k for k in step["inputs"] if k.startswith("pump.curve.flow")
+    ]  # the trace keeps every key
+    text = "\n".join(pages).replace("\n", " ")
+    assert "pump.curve.flow[1–6]" in text and "pump.curve.head[1–6]" in text
+    assert "pump.curve.flow[2]," not in text
+
+
+def test_key_runs_join_consecutive_indices_only():
+    from calcreport.report.document import _key_runs
+
+    keys = ["q", "a[1]", "a[2]", "a[3]", "b[1]", "b[2]", "a[5]", "a[6]", "a[7]", "a[9]"]
+    assert _key_runs(keys) == ["q", "a[1–3]", "b[1]", "b[2]", "a[5–7]", "a[9]"]

@@ -13,7 +13,7 @@ from __future__ import annotations
 import io
 import re
 import tomllib
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from functools import cache
 from pathlib import Path
 from typing import Any
@@ -792,7 +792,7 @@ class _Report:
         parts.append(self.p(text(st["substituted"]), s.substituted))
         result = {"value": st["value"], "unit": st["unit"]}
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
-        inputs = ", ".join(text(i) for i in st["inputs"])
+        inputs = ", ".join(text(i) for i in _key_runs(st["inputs"]))
         parts.append(
             self.p(
                 f"<b>Result:</b> {result_text}    <font size='7'>inputs: {inputs}</font>",
@@ -1447,3 +1447,33 @@ def render_pdf(
         report.story(), canvasmaker=_canvas_maker(project, trace["status"]["value"], doc.headings)
     )
     return buffer.getvalue(), doc.step_pages
+
+
+_INDEXED = re.compile(r"^(.*)\[(\d+)\]$")
+
+
+def _key_runs(keys: Sequence[str]) -> list[str]:
+    """Input keys with each run of three or more consecutive indices written as one:
+    ``pump.curve.flow[1]``, ``[2]``, … ``[81]`` become ``pump.curve.flow[1–81]``."""
+    out: list[str] = []
+    run: list[tuple[str, int]] = []
+
+    def close() -> None:
+        if len(run) >= 3:
+            out.append(f"{run[0][0]}[{run[0][1]}–{run[-1][1]}]")
+        else:
+            out.extend(f"{name}[{i}]" for name, i in run)
+        run.clear()
+
+    for key in keys:
+        m = _INDEXED.match(key)
+        if m and run and m.group(1) == run[-1][0] and int(m.group(2)) == run[-1][1] + 1:
+            run.append((m.group(1), int(m.group(2))))
+            continue
+        close()
+        if m:
+            run.append((m.group(1), int(m.group(2))))
+        else:
+            out.append(key)
+    close()
+    return out
