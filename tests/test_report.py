@@ -360,3 +360,18 @@ def test_key_runs_join_consecutive_indices_only():
 
     keys = ["q", "a[1]", "a[2]", "a[3]", "b[1]", "b[2]", "a[5]", "a[6]", "a[7]", "a[9]"]
     assert _key_runs(keys) == ["q", "a[1–3]", "b[1]", "b[2]", "a[5–7]", "a[9]"]
+
+
+def test_preliminary_conclusion_names_the_case_of_highest_head(built):
+    # Without a curve the pump is selected on the worst case, not the design case alone:
+    # the US example's C2 (source low, destination high) has the higher TDH.
+    _, trace, pages = built["process_transfer_us"]
+    cases = trace["results"]["cases"]
+    assert cases["C2"]["total_dynamic_head"]["value"] > cases["C1"]["total_dynamic_head"]["value"]
+    feet = cases["C2"]["total_dynamic_head"]["value"] / 0.3048  # NIST SP 811
+    text = " ".join(pages[1].split())
+    conclusion = text[text.index("1.3 Conclusion") :]
+    assert f"in the design case and {feet:.1f} ft in C2 (Highest static head" in conclusion
+    # One case only: the sentence names no other.
+    _, _, single = built["check_case"]
+    assert "in the design case and" not in " ".join(single[1].split())

@@ -635,9 +635,11 @@ class _Report:
             )
         if self.t["status"]["value"] == "preliminary":
             return (
-                f"The pump must deliver {flow} against a total dynamic head of {tdh} with "
-                f"NPSH available of {self.q(self.r['npsh_available'], 'length')}; select the "
-                "pump on its certified curve and recheck this calculation against it."
+                f"The pump must deliver {flow} against a total dynamic head of {tdh}"
+                f"{self.worst_case('total_dynamic_head', max)}, with NPSH available of "
+                f"{self.q(self.r['npsh_available'], 'length')}"
+                f"{self.worst_case('npsh_available', min)}; select the pump on its certified "
+                "curve for every case and recheck this calculation against it."
             )
         reviews = [c for c in self.t["checks"] if c["status"] == "review"]
         if reviews:
@@ -647,6 +649,24 @@ class _Report:
                 f"{'s are' if len(reviews) != 1 else ' is'} marked for review."
             )
         return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
+
+    def worst_case(self, key: str, pick: Callable[..., Any]) -> str:
+        """ ", and X in case Cn (title)" where another case's traced ``key`` is the worst
+        (``max`` or ``min``), at that case's flow when it differs; "" when the design case is."""
+        cases = [(cid, c) for cid, c in (self.r.get("cases") or {}).items() if key in c]
+        if not cases:
+            return ""
+        cid, worst = pick(cases, key=lambda item: item[1][key]["value"])
+        if worst[key]["value"] == self.r[key]["value"]:
+            return ""
+        titles = {c["id"]: c.get("title", "") for c in self.t.get("cases", [])}
+        at = (
+            f" at {self.q(worst['flow'], 'flow')}"
+            if "flow" in worst and worst["flow"]["value"] != self.r["flow"]["value"]
+            else ""
+        )
+        title = f" ({text(titles[cid])})" if titles.get(cid) else ""
+        return f" in the design case and {self.q(worst[key], 'length')}{at} in {cid}{title}"
 
     def contents(self) -> list[Flowable]:
         return [Paragraph("Contents", self.s.h1), _ContentsMark()]
