@@ -90,10 +90,6 @@ class CheckChange:
     new_limit: float | None = None
     title: str = ""
 
-    @property
-    def status_changed(self) -> bool:
-        return self.old_status != self.new_status
-
     def to_json(self) -> dict[str, Any]:
         return {
             "id": self.id,
