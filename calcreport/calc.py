@@ -538,7 +538,12 @@ def _viscous(
     eyes = (
         b.assume("A double-suction impeller: the BEP flow per eye enters B.", 2.0, "")
         if model.pump.impeller == "double_suction"
-        else b.assume("A single-suction impeller (pump.impeller not given).", 1.0, "")
+        else b.assume(
+            'A single-suction impeller (pump.impeller = "single_suction", the default): '
+            "the whole BEP flow enters B.",
+            1.0,
+            "",
+        )
     )
     B = b.step(
         case.sid("pump.viscous.parameter"),

@@ -651,8 +651,9 @@ class _Report:
         return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
 
     def worst_case(self, key: str, pick: Callable[..., Any]) -> str:
-        """ ", and X in case Cn (title)" where another case's traced ``key`` is the worst
-        (``max`` or ``min``), at that case's flow when it differs; "" when the design case is."""
+        """``" in the design case and X in Cn (title)"`` where another case's traced head
+        ``key`` is the worst (``pick`` is ``max`` or ``min``), with that case's flow when it
+        differs; ``""`` when the design case is the worst."""
         cases = [(cid, c) for cid, c in (self.r.get("cases") or {}).items() if key in c]
         if not cases:
             return ""
