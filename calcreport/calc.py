@@ -160,6 +160,7 @@ def solve(model: Model) -> Trace:
             model = _class_efficiency(b, model, motor_rating, notes)
     route = safety.Route(b, model)
     states: dict[str, safety.State] = {}
+    design_curve = curve
     for case in cases:
         case_liquid, case_surfaces = liquid, surfaces
         if case.temperature is not None:
@@ -175,6 +176,8 @@ def solve(model: Model) -> Trace:
         case_curve, correction = _viscous(
             b, model, case_curves.get(case.id, curve), case, case_liquid, corrected, notes
         )
+        if case.id == "C1":
+            design_curve = case_curve
         result = _solve_case(
             b, case_model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
         )
@@ -185,6 +188,17 @@ def solve(model: Model) -> Trace:
             result["route"] = case_route
         by_case[case.id] = result
         found += checks.evaluate(model, result, case.id)
+    profile = _profile_states(b, model, states["C1"], design_curve, eta_drive, states)
+    for pid, result in profile.items():
+        state_route = route.case_route(states[pid])
+        if state_route:
+            result["route"] = state_route
+        found += checks.evaluate(model, result, pid)
+    if "electrical_power" in by_case["C1"]:
+        P_e = Given(by_case["C1"]["electrical_power"]["value"], "W", "power.electrical")
+        energy = _energy(b, model, states["C1"].case, P_e, profile, notes)
+        if energy:
+            by_case["C1"]["energy"] = energy
     results = dict(by_case["C1"])
     # The highest pressures: the pump's highest head on its fastest curve.
     surge = route.surge_screening(states, notes)
@@ -194,7 +208,7 @@ def solve(model: Model) -> Trace:
     if surge:
         surge["rise_checked"] = "rating_check" in results["route"]
     if motor_rating:
-        results["motor"] = _motor_loading(motor_rating, by_case)
+        results["motor"] = _motor_loading(motor_rating, {**by_case, **profile})
     thermal = _thermal_min_flow(b, model, liquid, curve, notes)
     if thermal:
         results["thermal_min_flow"] = thermal
@@ -202,6 +216,8 @@ def solve(model: Model) -> Trace:
     if lift is not None:
         results["minimum_lift_speed"] = _q(lift)
     results["cases"] = by_case
+    if profile:
+        results["profile_states"] = profile
     found = checks.governing(found) + checks.once(model, results)
     status = _status(model, results, found)
     if "shaft_power" not in results:
@@ -681,20 +697,13 @@ def _solve_case(
         eta_pump = eta_curve or eta_pump
         if "bep_flow" in point:
             results["operating_region"] = _regions(model, point["bep_flow"]["value"])
-    results.update(_power(b, model, case, liquid, surfaces, curve, h, eta_pump, eta_drive, notes))
+    results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive))
     results["required_flow"] = _q(required)
     results["pumps_running"] = _q(case.running)
     results["duty_case"] = case.duty
-    if case.running.value > 1 and "shaft_power" in results:
-        per_pump = b.step(
-            case.sid("power.shaft_per_pump"),
-            "Shaft power of each pump",
-            power.per_pump_power,
-            case.id,
-            P=Given(results["shaft_power"]["value"], "W", case.sid("power.shaft")),
-            n_run=case.running,
-        )
-        results["shaft_power_per_pump"] = _q(per_pump)
+    if "shaft_power" in results:
+        P_s = Given(results["shaft_power"]["value"], "W", case.sid("power.shaft"))
+        _per_pump_power(b, case, P_s, results)
     results["system_curve"], results["duty_point"] = _system_curve(
         model, case, liquid, surfaces, curve
     )
@@ -800,8 +809,10 @@ def _commissioning(
     surfaces: tuple[Given, Given, Given, Given | None],
     h: dict[str, Any],
     curve: CurvePoints | None,
+    H: Given | None = None,
 ) -> dict[str, Any]:
-    """Gauge pressures expected at the pump flanges, at the operating point and shutoff."""
+    """Gauge pressures expected at the pump flanges, at the operating point (the pump giving
+    ``H``, default the TDH) and, with a ``curve``, at shutoff."""
     sid = case.sid
     suction = model.suction_pipes
     discharge = [p for p in model.pipes if p.line == "discharge"]
@@ -823,7 +834,7 @@ def _commissioning(
         "",
         "at the operating point",
         h_L=h["suction_loss"],
-        H=h["tdh"],
+        H=H or h["tdh"],
         v_in=v_in,
         v_out=v_out,
     )
@@ -998,6 +1009,27 @@ def _operating_point(
     if several:
         point["flow_per_pump"] = _q(Q)
         point["head_per_pump"] = _q(H)
+    eta = _curve_values(b, case, curve, Q, h["npsh_available"], point)
+    return point, eta
+
+
+def _curve_values(
+    b: TraceBuilder,
+    case: Case,
+    curve: CurvePoints,
+    Q_curve: Given,
+    npsha: Given,
+    point: dict[str, Any],
+    speed: tuple[Given, Given] | None = None,
+) -> Given | None:
+    """Efficiency, BEP ratio, NPSH required and margins of a state, read on ``curve`` at each
+    pump's flow ``Q_curve``; fills ``point``.
+
+    With ``speed`` = (n, n0) the state runs at n on a curve given at n0 and ``Q_curve`` is
+    the corresponding flow Q·n0/n (affinity laws): the efficiency is unchanged, NPSH
+    required moves ∝ n² (an approximation) and the BEP flow ∝ n.
+    """
+    sid = case.sid
     eta = None
     if curve.efficiency:
         eta = b.step(
@@ -1005,7 +1037,7 @@ def _operating_point(
             "Pump efficiency at the operating flow",
             pump.efficiency_at,
             case.id,
-            Q=Q,
+            Q=Q_curve,
             flow=curve.flow,
             efficiency=curve.efficiency,
         )
@@ -1013,25 +1045,30 @@ def _operating_point(
         q_bep, eta_bep = pump.best_efficiency_point(
             curve.values("flow"), curve.values("efficiency")
         )
-        point["bep_flow"] = quantity(q_bep, "m^3/s")
+        scale = speed[0].value / speed[1].value if speed is not None else 1.0
+        point["bep_flow"] = quantity(q_bep * scale, "m^3/s")
         point["bep_efficiency"] = quantity(eta_bep, "")
-        point["flow_ratio_bep"] = quantity(Q.value / q_bep, "")
+        point["flow_ratio_bep"] = quantity(Q_curve.value / q_bep, "")
     if curve.npsh_required:
         npshr = b.step(
-            sid("pump.npsh_required"),
-            "NPSH required at the operating flow",
+            sid("pump.npsh_required" if speed is None else "pump.curve_npsh_required"),
+            "NPSH required at the operating flow" + ("" if speed is None else " (curve speed)"),
             pump.npsh_required_at,
             case.id,
-            Q=Q,
+            Q=Q_curve,
             flow=curve.flow,
             npsh=curve.npsh_required,
         )
+        if speed is not None:
+            npshr = b.step(sid("pump.npsh_required"), "NPSH required at the state's speed",
+                           pump.affinity_head, case.id, H0=npshr, n=speed[0],
+                           n0=speed[1])  # fmt: skip
         ratio = b.step(
             sid("npsh.margin_ratio"),
             "NPSH margin ratio",
             pump.npsh_margin_ratio,
             case.id,
-            npsha=h["npsh_available"],
+            npsha=npsha,
             npshr=npshr,
         )
         margin = b.step(
@@ -1039,13 +1076,13 @@ def _operating_point(
             "NPSH margin",
             pump.npsh_margin,
             case.id,
-            npsha=h["npsh_available"],
+            npsha=npsha,
             npshr=npshr,
         )
         point["npsh_required"] = _q(npshr)
         point["npsh_margin_ratio"] = _q(ratio)
         point["npsh_margin"] = _q(margin)
-    return point, eta
+    return eta
 
 
 def _regions(model: Model, q_bep: float) -> dict[str, Any]:
@@ -1884,12 +1921,9 @@ def _power(
     model: Model,
     case: Case,
     liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
-    curve: CurvePoints | None,
     hydraulics: dict[str, Any],
     eta_pump: Given | None,
     eta_drive: Given,
-    notes: list[str],
 ) -> dict[str, Any]:
     sid = case.sid
     out: dict[str, Any] = {}
@@ -1908,14 +1942,8 @@ def _power(
     P_s, P_e = _electrical(b, model, case, P_h, eta_pump, eta_drive)
     if P_s is not None:
         out["shaft_power"] = _q(P_s)
-    if P_e is None:
-        return out
-    out["electrical_power"] = _q(P_e)
-    if case.id != "C1":  # the annual energy is that of the design case
-        return out
-    energy = _energy(b, model, case, liquid, surfaces, curve, P_e, eta_drive, notes)
-    if energy:
-        out["energy"] = energy
+    if P_e is not None:
+        out["electrical_power"] = _q(P_e)
     return out
 
 
@@ -1923,19 +1951,17 @@ def _energy(
     b: TraceBuilder,
     model: Model,
     case: Case,
-    liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
-    curve: CurvePoints | None,
     P_e: Given,
-    eta_drive: Given,
+    profile: dict[str, dict[str, Any]],
     notes: list[str],
 ) -> dict[str, Any] | None:
-    """Annual energy and cost on the basis of the duty: continuous, fill, or a profile."""
+    """Annual energy and cost on the basis of the duty: continuous, fill, or a profile
+    (``profile``: the solved states of its points, for throttled or variable-speed control)."""
     op = model.operation
     energy: dict[str, Any] = {"control": op.control}
     demand, burnt = P_e, None
     if op.profile:
-        found = _duty_profile(b, model, case, liquid, surfaces, curve, P_e, eta_drive, notes)
+        found = _duty_profile(b, model, case, P_e, profile, notes)
         if found is None:
             return None
         E, hours, e_v, demand, burnt, extra = found
@@ -2030,20 +2056,16 @@ def _duty_profile(
     b: TraceBuilder,
     model: Model,
     case: Case,
-    liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
-    curve: CurvePoints | None,
     P_e: Given,
-    eta_drive: Given,
+    profile: dict[str, dict[str, Any]],
     notes: list[str],
 ) -> tuple[Given, Given, Given, Given, Given | None, dict[str, Any]] | None:
     """Energy over operation.profile: annual energy, time, specific energy, demand, the
     energy burnt throttling (None for other controls) and the rows.
 
-    On-off control runs the pump at its operating point for as long as the
-    profile's volume needs; throttled control holds the fixed-speed pump at each
-    profile flow with a valve; variable speed finds the speed at which the
-    affinity-scaled curve meets the system curve at each flow.
+    On-off control runs the pump at its operating point (``case``, power ``P_e``) for as
+    long as the profile's volume needs; throttled and variable-speed control take each
+    point's electrical power from its solved state in ``profile``.
     """
     op = model.operation
     times = [
@@ -2081,21 +2103,31 @@ def _duty_profile(
         E = b.step("energy.annual", "Annual energy", power.annual_energy, P_e=P_e, t=hours)
         demand = P_e
     else:
-        assert curve is not None
         powers, lost = [], []
-        for i, (row, q) in enumerate(zip(rows, flows, strict=True), start=1):
-            point = replace(case, id=f"P{i}", title=f"Profile point P{i}", flow=q)
-            found = _profile_point(b, model, point, liquid, surfaces, curve, eta_drive, row)
-            if found is None:
+        for row, t in zip(rows, times, strict=True):
+            pid = row["point"]
+            state = profile[pid]
+            point = state.get("operating_point", {})
+            row["system_head"] = state["total_dynamic_head"]
+            if "electrical_power" not in state:
                 notes.append(
-                    f"Annual energy is not computed: profile point P{i} cannot be served "
-                    f"({row['reason']})."
+                    f"Annual energy is not computed: profile point {pid} cannot be served "
+                    f"({state.get('unserved', 'no electrical power')})."
                 )
                 return None
-            powers.append(found[0])
-            lost.append(found[1])
+            row.update(
+                {k: point[k] for k in ("speed", "efficiency") if k in point},
+                pump_head=point["head"],
+                electrical_power=state["electrical_power"],
+            )
+            powers.append(Given(state["electrical_power"]["value"], "W", f"{pid}.power.electrical"))
+            if "throttling_loss" in point:
+                row["throttling_loss"] = point["throttling_loss"]
+                lost.append(
+                    Given(state["throttling_power"]["value"], "W", f"{pid}.energy.throttling_power")
+                )
             # Each point's share of the year, for the energy chart (the total is a step).
-            row["annual_energy"] = quantity(found[0].value * times[i - 1].value, "J")
+            row["annual_energy"] = quantity(powers[-1].value * t.value, "J")
             if op.energy_price is not None:
                 cost = float(
                     power.annual_cost(row["annual_energy"]["value"], op.energy_price.value)
@@ -2107,12 +2139,11 @@ def _duty_profile(
         demand = b.step("energy.peak_power", "Peak electrical demand over the profile",
                         power.peak_power, P=powers)  # fmt: skip
         if op.control == "throttled":
-            burnt = [g for g in lost if g is not None]
             E_thr = b.step(
                 "energy.throttling",
                 "Annual energy burnt in the throttling valve",
                 power.profile_energy,
-                P=burnt,
+                P=lost,
                 t=times,
             )
             extra["throttling_energy"] = _q(E_thr)
@@ -2126,19 +2157,59 @@ def _duty_profile(
     return E, hours, e_v, demand, E_thr, extra
 
 
-def _profile_point(
+def _profile_states(
+    b: TraceBuilder,
+    model: Model,
+    design: safety.State,
+    curve: CurvePoints | None,
+    eta_drive: Given,
+    states: dict[str, safety.State],
+) -> dict[str, dict[str, Any]]:
+    """The duty profile's points as operating states, each a result of the shape of a case.
+
+    Under throttled or variable-speed control the pump runs at every profile flow (on-off
+    control runs it at its operating point only): each point is solved at the design
+    case's levels and pump count, at its own flow and, for variable speed, its own speed.
+    """
+    op = model.operation
+    if not op.profile or op.control == "on_off" or curve is None:
+        return {}
+    return {
+        f"P{i}": _profile_state(
+            b,
+            model,
+            replace(design.case, id=f"P{i}", title=f"Duty profile point P{i}", flow=q),
+            design,
+            curve,
+            eta_drive,
+            states,
+        )
+        for i, (q, _) in enumerate(op.profile, start=1)
+    }
+
+
+def _profile_state(
     b: TraceBuilder,
     model: Model,
     point: Case,
-    liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
+    design: safety.State,
     curve: CurvePoints,
     eta_drive: Given,
-    row: dict[str, Any],
-) -> tuple[Given, Given | None] | None:
-    """Electrical power at one profile flow (and the part burnt throttling), as steps."""
+    states: dict[str, safety.State],
+) -> dict[str, Any]:
+    """Hydraulics, pump state, NPSH and power of one profile point (its state kept in
+    ``states``); ``unserved`` says why when the pump cannot run there."""
     sid, pid = point.sid, point.id
+    liquid, surfaces = design.liquid, design.surfaces
     h = _hydraulics(b, model, point, liquid, surfaces)
+    result = _results(h, liquid, surfaces[0], model, point.flow)
+    result["profile"] = safety.profile(model, point, liquid, h, surfaces[1], surfaces[2])
+    result.update(
+        required_flow=_q(point.flow),
+        pumps_running=_q(point.running),
+        duty_case=True,
+        state_kind="profile",
+    )
     n = point.running.value
     parallel = model.pump.arrangement == "parallel"
     Q = point.flow
@@ -2146,35 +2217,92 @@ def _profile_point(
         Q = b.step(sid("pump.flow_per_pump"), "Flow of each pump", pump.per_pump_flow, pid,
                    Q=point.flow, n_run=point.running)  # fmt: skip
     H_sys = h["tdh"]
-    row["system_head"] = _q(H_sys)
     flows = curve.values("flow")
     lift = n if n > 1 and not parallel else 1.0  # pumps in series share the head
+    found: dict[str, Any] = {"flow": _q(point.flow), "pumps_running": _q(point.running)}
+    if n > 1:
+        found["flow_per_pump"] = _q(Q)
+    H_pump = H = H_sys
+    eta: Given | None = None
+    h_thr: Given | None = None
     if model.operation.control == "throttled":
         if not flows[0] <= Q.value <= flows[-1]:
-            row["reason"] = "its flow is outside the pump curve"
-            return None
-        H = b.step(sid("pump.head"), "Pump head at the profile flow (fixed speed)",
-                   pump.head_at, pid, Q=Q, flow=curve.flow, head=curve.head)  # fmt: skip
-        if lift > 1:
-            H = b.step(sid("pump.series_head"), "Head of the pumps in series",
-                       pump.series_head, pid, H1=H, n_run=point.running)  # fmt: skip
-        if H.value < H_sys.value:
-            row["reason"] = "at fixed speed the pump's head is below the system head"
-            return None
-        h_thr = b.step(sid("energy.throttling_loss"), "Head burnt in the throttling valve",
-                       pump.throttling_loss, pid, H_pump=H, H_system=H_sys)  # fmt: skip
-        eta = _profile_efficiency(b, model, point, curve, Q)
-        P_h = b.step(sid("power.hydraulic"), "Hydraulic power (the pump's own head)",
-                     power.hydraulic_power, pid, rho=liquid.density, Q=point.flow, H=H)  # fmt: skip
-        _, P_e = _electrical(b, model, point, P_h, eta, eta_drive)
-        assert P_e is not None
-        P_thr = b.step(sid("energy.throttling_power"), "Input power burnt in the valve",
-                       power.throttling_power, pid, P_e=P_e, h_thr=h_thr, H=H)  # fmt: skip
-        row.update(pump_head=_q(H), throttling_loss=_q(h_thr), efficiency=_q(eta),
-                   electrical_power=_q(P_e))  # fmt: skip
-        return P_e, P_thr
-    # The case's own curve (at the operating speed, corrected for viscosity where it
-    # applies) is moved by the affinity laws; the drive is held to the top speed.
+            result["unserved"] = "its flow is outside the pump curve"
+        else:
+            H = b.step(sid("pump.head"), "Pump head at the profile flow (fixed speed)",
+                       pump.head_at, pid, Q=Q, flow=curve.flow, head=curve.head)  # fmt: skip
+            if lift > 1:
+                H = b.step(sid("pump.series_head"), "Head of the pumps in series",
+                           pump.series_head, pid, H1=H, n_run=point.running)  # fmt: skip
+            if H.value < H_sys.value:
+                result["unserved"] = "at fixed speed the pump's head is below the system head"
+            else:
+                H_pump = H
+                h_thr = b.step(sid("energy.throttling_loss"), "Head burnt in the throttling valve",
+                               pump.throttling_loss, pid, H_pump=H, H_system=H_sys)  # fmt: skip
+                found["throttling_loss"] = _q(h_thr)
+                eta = _curve_values(b, point, curve, Q, h["npsh_available"], found)
+    else:
+        speed = _profile_speed(b, model, point, curve, Q, H_sys, lift)
+        if isinstance(speed, str):
+            result["unserved"] = speed
+        else:
+            n0 = model.pump.speed or model.pump.curve.speed  # type: ignore[union-attr]
+            assert n0 is not None
+            point = replace(point, speed=speed)
+            found["speed"] = _q(speed)
+            Q0 = b.step(sid("pump.curve_flow"), "Corresponding flow on the curve's speed",
+                        pump.affinity_flow, pid, Q0=Q, n=n0, n0=speed)  # fmt: skip
+            found["curve_flow"] = _q(Q0)
+            H0 = b.step(sid("pump.curve_head"), "Curve head at the corresponding flow",
+                        pump.head_at, pid, Q=Q0, flow=curve.flow, head=curve.head)  # fmt: skip
+            H = b.step(sid("pump.head"), "Pump head at the profile speed", pump.affinity_head,
+                       pid, H0=H0, n=speed, n0=n0)  # fmt: skip
+            if lift > 1:
+                H = b.step(sid("pump.series_head"), "Head of the pumps in series",
+                           pump.series_head, pid, H1=H, n_run=point.running)  # fmt: skip
+            b.step(sid("pump.head_balance"), "Head balance at the profile point (zero)",
+                   pump.head_balance, pid, H_pump=H, H_system=H_sys)  # fmt: skip
+            eta = _curve_values(b, point, curve, Q0, h["npsh_available"], found, (speed, n0))
+    states[pid] = safety.State(point, liquid, surfaces, h, result["profile"], H_pump)
+    if "unserved" in result:
+        return result
+    found["head"] = _q(H)
+    result["operating_point"] = found
+    if "bep_flow" in found:
+        result["operating_region"] = _regions(model, found["bep_flow"]["value"])
+    eta = eta or model.pump.efficiency
+    assert eta is not None
+    # Throttled, the pump gives its own head (the valve burns the excess); at speed, the
+    # system's.
+    P_h = b.step(sid("power.hydraulic"), "Hydraulic power", power.hydraulic_power, pid,
+                 rho=liquid.density, Q=point.flow, H=H_pump)  # fmt: skip
+    result["hydraulic_power"] = _q(P_h)
+    P_s, P_e = _electrical(b, model, point, P_h, eta, eta_drive)
+    if P_s is not None:
+        result["shaft_power"] = _q(P_s)
+        _per_pump_power(b, point, P_s, result)
+    if P_e is not None:
+        result["electrical_power"] = _q(P_e)
+        if h_thr is not None:
+            P_thr = b.step(sid("energy.throttling_power"), "Input power burnt in the valve",
+                           power.throttling_power, pid, P_e=P_e, h_thr=h_thr, H=H)  # fmt: skip
+            result["throttling_power"] = _q(P_thr)
+    result["commissioning"] = _commissioning(b, model, point, liquid, surfaces, h, None, H_pump)
+    return result
+
+
+def _profile_speed(
+    b: TraceBuilder,
+    model: Model,
+    point: Case,
+    curve: CurvePoints,
+    Q: Given,
+    H_sys: Given,
+    lift: float,
+) -> Given | str:
+    """The speed at which the affinity-moved curve meets the system head at each pump's flow
+    ``Q`` (or why there is none); the drive is held to the top speed."""
     assert model.pump.curve is not None
     n0 = model.pump.speed or model.pump.curve.speed
     assert n0 is not None
@@ -2190,48 +2318,25 @@ def _profile_point(
     low = max(Q.value * n0.value / q0[-1], 1e-6 * n0.value)
     speed = pump.operating_point(difference, low, top) if low < top else None
     if speed is None:
-        row["reason"] = f"it needs more than the top speed of {top * 60:.5g} rpm"
-        return None
-    found = b.solution(sid("solver.speed"), speed, "1/s",
+        return f"it needs more than the top speed of {top * 60:.5g} rpm"
+    found = b.solution(point.sid("solver.speed"), speed, "1/s",
                        "bracketed root of H_pump(n, Q) − H_system(Q), Illinois method")  # fmt: skip
-    n_op = b.step(sid("pump.speed"), "Speed that meets the system head at the profile flow",
-                  pump.solved_speed, pid, n=found)  # fmt: skip
-    Q0 = b.step(sid("pump.curve_flow"), "Corresponding flow on the curve's speed",
-                pump.affinity_flow, pid, Q0=Q, n=n0, n0=n_op)  # fmt: skip
-    H0 = b.step(sid("pump.curve_head"), "Curve head at the corresponding flow", pump.head_at,
-                pid, Q=Q0, flow=curve.flow, head=curve.head)  # fmt: skip
-    H = b.step(sid("pump.head"), "Pump head at the profile speed", pump.affinity_head, pid,
-               H0=H0, n=n_op, n0=n0)  # fmt: skip
-    if lift > 1:
-        H = b.step(sid("pump.series_head"), "Head of the pumps in series", pump.series_head,
-                   pid, H1=H, n_run=point.running)  # fmt: skip
-    b.step(sid("pump.head_balance"), "Head balance at the profile point (zero)",
-           pump.head_balance, pid, H_pump=H, H_system=H_sys)  # fmt: skip
-    eta = _profile_efficiency(b, model, point, curve, Q0)
-    P_h = b.step(sid("power.hydraulic"), "Hydraulic power", power.hydraulic_power, pid,
-                 rho=liquid.density, Q=point.flow, H=H_sys)  # fmt: skip
-    _, P_e = _electrical(b, model, point, P_h, eta, eta_drive)
-    assert P_e is not None
-    row.update(speed=_q(n_op), pump_head=_q(H), efficiency=_q(eta), electrical_power=_q(P_e))
-    return P_e, None
+    return b.step(point.sid("pump.speed"), "Speed that meets the system head at the profile flow",
+                  pump.solved_speed, point.id, n=found)  # fmt: skip
 
 
-def _profile_efficiency(
-    b: TraceBuilder, model: Model, point: Case, curve: CurvePoints, Q: Given
-) -> Given:
-    """Pump efficiency at a profile flow from the curve (unchanged at corresponding points)."""
-    if not curve.efficiency:
-        assert model.pump.efficiency is not None
-        return model.pump.efficiency
-    return b.step(
-        point.sid("pump.efficiency"),
-        "Pump efficiency at the profile point",
-        pump.efficiency_at,
-        point.id,
-        Q=Q,
-        flow=curve.flow,
-        efficiency=curve.efficiency,
-    )
+def _per_pump_power(b: TraceBuilder, case: Case, P_s: Given, results: dict[str, Any]) -> None:
+    """Each pump's share of the shaft power when several run."""
+    if case.running.value > 1:
+        per_pump = b.step(
+            case.sid("power.shaft_per_pump"),
+            "Shaft power of each pump",
+            power.per_pump_power,
+            case.id,
+            P=P_s,
+            n_run=case.running,
+        )
+        results["shaft_power_per_pump"] = _q(per_pump)
 
 
 def _results(

@@ -19,7 +19,7 @@ from calcreport.physics import pump
 from calcreport.trace import Check
 from calcreport.units import show
 
-__all__ = ["criterion", "evaluate", "governing", "once", "preferred_range"]
+__all__ = ["criterion", "evaluate", "governing", "once", "preferred_range", "states"]
 
 _SEVERITY = {"fail": 0, "review": 1, "pass": 2}
 
@@ -46,6 +46,7 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         found.append(_npsh_open_item(results, case))
         return found
     point = results.get("operating_point")
+    profile_point = results.get("state_kind") == "profile"
     if point is None:
         found.append(
             Check(
@@ -58,14 +59,18 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
                 limit=None,
                 comparison="exists",
                 basis="The pump runs where its curve meets the system curve; without an "
-                "intersection within the curve data the pump cannot serve this case",
+                "intersection within the curve data the pump cannot serve this case"
+                + (" (a duty-profile point must be served at its flow)" if profile_point else ""),
                 reference="karassik_2008",
                 case=case,
-                message="no intersection within the curve data; see the notes",
+                message=f"the pump cannot run at this profile point: {results['unserved']}"
+                if profile_point
+                else "no intersection within the curve data; see the notes",
             )
         )
         return found
-    if results.get("duty_case", True):
+    # A profile point runs at its own flow by its control: no duty margin to meet there.
+    if results.get("duty_case", True) and not profile_point:
         found.append(_duty(model, results, point, case))
     if "npsh_required" in point:
         found.append(_npsh_margin(model, results, point, case))
@@ -75,7 +80,8 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
         found += _operating_region(model, point, case)
     if model.pump.min_continuous_flow is not None:
         minimum = model.pump.min_continuous_flow.value
-        q = point.get("flow_per_pump", point["flow"])["value"]
+        # At another speed, the flow that corresponds to the curve's speed (affinity laws).
+        q = point.get("curve_flow", point.get("flow_per_pump", point["flow"]))["value"]
         found.append(
             Check(
                 id="min_continuous_flow",
@@ -85,7 +91,9 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
                 unit="m^3/s",
                 limit=minimum,
                 comparison=">=",
-                basis="Pump data: minimum continuous stable flow (pump.min_continuous_flow)",
+                basis="Pump data: minimum continuous stable flow (pump.min_continuous_flow) at "
+                "the curve's speed; a state at another speed is compared at its corresponding "
+                "flow Q·n0/n (affinity laws)",
                 reference="input",
                 case=case,
                 message="" if q >= minimum else "the pump would run below its minimum flow",
@@ -160,6 +168,8 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
                 case="all",
             )
         )
+        if motor.get("loading"):
+            found.append(_motor_loading(motor))
     elif "peak_shaft_power" in motor:
         found.append(
             Check(
@@ -176,6 +186,30 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
             )
         )
     return found
+
+
+def _motor_loading(motor: dict[str, Any]) -> Check:
+    """The most loaded state: each pump's shaft power within the motor's rated output."""
+    loading = motor["loading"]
+    state = max(loading, key=lambda k: loading[k]["value"])
+    value = loading[state]["value"]
+    limit = motor.get("derating", {"value": 1.0})["value"]
+    ok = value <= limit
+    return Check(
+        id="motor_loading",
+        title="Motor loading in every operating state",
+        status="pass" if ok else "fail",
+        value=value,
+        unit="",
+        limit=limit,
+        comparison="<=",
+        basis="Each pump's shaft power in every case and duty-profile point, over the motor "
+        "rating (times the site derating, where given), at most 1 at service factor 1.0",
+        reference="karassik_2008",
+        case=state,
+        message=f"most loaded in {state}" + ("" if ok else ": the motor is overloaded"),
+        margin=limit - value,
+    )
 
 
 def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
@@ -213,6 +247,11 @@ def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
         ),
         margin=shutoff - peak,
     )
+
+
+def states(results: dict[str, Any]) -> dict[str, dict[str, Any]]:
+    """Every operating state of a solve's results: the cases, then the duty-profile points."""
+    return {**results["cases"], **results.get("profile_states", {})}
 
 
 def governing(checks: list[Check]) -> list[Check]:
@@ -741,11 +780,13 @@ def _motor_site(model: Model, motor: dict[str, Any]) -> Check | None:
 
 
 def _thermal(model: Model, results: dict[str, Any]) -> Check:
-    """Every case's operating flow (each pump's) above the thermal minimum flow."""
+    """Every state's operating flow (each pump's) above the thermal minimum flow (at a reduced
+    speed the temperature rise is lower at the same flow: the full-speed limit is on the
+    safe side)."""
     q_th = results["thermal_min_flow"]["flow"]["value"]
     flows = {
         cid: r["operating_point"].get("flow_per_pump", r["operating_point"]["flow"])["value"]
-        for cid, r in results["cases"].items()
+        for cid, r in states(results).items()
         if "operating_point" in r
     }
     if not flows:

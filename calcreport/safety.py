@@ -36,6 +36,12 @@ class State:
     surfaces: tuple[Given, Given, Given, Given | None]
     h: dict[str, Any]
     profile: dict[str, Any]
+    pump_head: Given | None = None  # the pump's own head where a valve burns part of it
+
+    @property
+    def lift(self) -> Given:
+        """The head the pump adds at its flanges: its own head, or the system's TDH."""
+        return self.pump_head or self.h["tdh"]
 
     @cached_property
     def pipe_nodes(self) -> dict[str, dict[str, Any]]:

@@ -1913,12 +1913,13 @@ def _draw_route_pressure(trace: dict[str, Any]) -> tuple[Any, str]:
         grade_cases.append(low_case)
     styles = {0: (BLUE, "-", 1.3), 1: (BLUE, (0, (5, 2)), 1.0)}
     for i, cid in enumerate(grade_cases):
-        profile = r["profile"] if cid == "C1" else r["cases"][cid]["profile"]
+        states = {**r.get("cases", {}), **r.get("profile_states", {})}
+        profile = r["profile"] if cid == "C1" else states[cid]["profile"]
         pts = [n for n in profile["nodes"] if "pressure_head" in n]
         xs = np.array([d.raw(n["distance"], "m", "length") for n in pts])
         hs = np.array([d.raw(n["hgl"], "m", "length") for n in pts])
         color, ls, lw = styles[i]
-        label = "HGL, design case C1" if cid == "C1" else f"HGL, case {cid} (lowest pressure)"
+        label = "HGL, design case C1" if cid == "C1" else f"HGL, state {cid} (lowest pressure)"
         (line,) = ax.plot(xs, hs, color=color, ls=ls, lw=lw, label=label, zorder=4)
         handles.append(line)
         shown.append(hs)

@@ -446,6 +446,7 @@ class _Report:
         w = self.width
         out.append(self.table(rows, [w * 0.25] + [w * 0.75 / 8] * 8))
         out.append(Spacer(1, 4 * mm))
+        out += self.profile_states_table()
         energy = self.r.get("energy", {})
         if energy:
             control = energy.get("control", "on_off").replace("_", "-")
@@ -502,6 +503,59 @@ class _Report:
         out.append(self.heading("Conclusion", 2))
         out.append(self.p(self.conclusion()))
         return out
+
+    def profile_states_table(self) -> list[Flowable]:
+        """The duty-profile points as operating states, each checked like a case."""
+        states = self.r.get("profile_states", {})
+        if not states:
+            return []
+        length = pretty_unit(display_unit("length", self.system))
+        flow = pretty_unit(display_unit("flow", self.system))
+        rows = [
+            [
+                "Point",
+                f"Flow [{flow}]",
+                f"Head [{length}]",
+                "Speed [rpm]",
+                "Pump eff.",
+                "Q / Q_BEP",
+                f"NPSH margin [{length}]",
+                f"Lowest pressure head [{length}]",
+            ]
+        ]
+        dash = "—"
+        for pid, res in states.items():
+            point = res.get("operating_point", {})
+            route = res.get("route", {})
+            low = route.get("min_pressure_head")
+            rows.append(
+                [
+                    text(pid),
+                    self.num(res["flow"], "flow"),
+                    self.num(point["head"], "length") if "head" in point else dash,
+                    self.num(point["speed"], "speed") if "speed" in point else dash,
+                    fmt(point["efficiency"]["value"], 3) if "efficiency" in point else dash,
+                    fmt(point["flow_ratio_bep"]["value"], 3) if "flow_ratio_bep" in point else dash,
+                    self.num(point["npsh_margin"], "length") if "npsh_margin" in point else dash,
+                    (
+                        f"{self.num(low, 'length')} at {text(route['min_pressure_node'])}"
+                        if low
+                        else dash
+                    ),
+                ]
+            )
+        w = self.width
+        caption = self.p(
+            "<b>Duty-profile states.</b> Each point of the duty profile runs at its own flow"
+            + (" and speed" if any("speed" in r.get("operating_point", {}) for r in states.values())
+               else "")
+            + "; every design check is evaluated at each point as at each case."
+        )  # fmt: skip
+        return [
+            caption,
+            self.table(rows, [w * 0.08, *([w * 0.11] * 6), w * 0.26]),
+            Spacer(1, 4 * mm),
+        ]
 
     def equipment_phrase(self) -> str:
         given = self.t["given"]
@@ -654,7 +708,8 @@ class _Report:
         """``" in the design case and X in Cn (title)"`` where another case's traced head
         ``key`` is the worst (``pick`` is ``max`` or ``min``), with that case's flow when it
         differs; ``""`` when the design case is the worst."""
-        cases = [(cid, c) for cid, c in (self.r.get("cases") or {}).items() if key in c]
+        every = {**(self.r.get("cases") or {}), **self.r.get("profile_states", {})}
+        cases = [(cid, c) for cid, c in every.items() if key in c]
         if not cases:
             return ""
         cid, worst = pick(cases, key=lambda item: item[1][key]["value"])
