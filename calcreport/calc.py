@@ -1592,7 +1592,9 @@ def _pipe(
     method: str = "darcy_weisbach",
     water_liquid: bool = True,
     fittings_method: str = "two_k",
-) -> dict[str, Given]:
+) -> tuple[dict[str, Given], list[safety.FittingLoss]]:
+    """Velocity, Reynolds number, friction factor, friction and minor losses of one pipe,
+    with the loss of each fitting item (where along the pipe it is taken is the route's)."""
     sid = case.sid
     name = f"pipe.{pipe.id}"
     D = pipe.inner_diameter
@@ -1675,17 +1677,17 @@ def _pipe(
             out["friction_loss"] = hw
     coefficients: list[Given] = []
     counts: list[Given] = []
+    by_fitting: dict[int, Given] = {}  # K of each fitting item, by its index
     for i, ft in enumerate(pipe.fittings, start=1):
         if ft.K is not None:
-            coefficients.append(ft.K)
+            by_fitting[i] = ft.K
         elif ft.other_diameter is not None:
-            coefficients.append(_diameter_change_k(ev, case, pipe, ft, i))
+            by_fitting[i] = _diameter_change_k(ev, case, pipe, ft, i)
         elif ft.kind:
-            coefficients.append(
-                _catalog_k(ev, case, pipe, ft.kind, ft.label, i, Re, fittings_method)
-            )
+            by_fitting[i] = _catalog_k(ev, case, pipe, ft.kind, ft.label, i, Re, fittings_method)
         else:
             continue
+        coefficients.append(by_fitting[i])
         counts.append(ft.count)
     lift = catalog.check_valve_lift()
     for i, ft in enumerate(pipe.fittings, start=1):
@@ -1716,8 +1718,8 @@ def _pipe(
         K_total=K,
         v=v,
     )
-    rated = [
-        ev.step(
+    heads = {
+        i: ev.step(
             sid(f"{name}.equipment[{i}]"),
             f"Loss of {ft.label} in {pipe.id}",
             losses.rated_loss,
@@ -1729,6 +1731,11 @@ def _pipe(
         )
         for i, ft in enumerate(pipe.fittings, start=1)
         if ft.dp is not None
+    }
+    rated = list(heads.values())
+    items = [
+        safety.FittingLoss(ft, by_fitting.get(i), heads.get(i))
+        for i, ft in enumerate(pipe.fittings, start=1)
     ]
     if rated:
         out["equipment_loss"] = ev.step(
@@ -1747,7 +1754,7 @@ def _pipe(
         )
     else:
         out["minor_loss"] = out["fitting_loss"]
-    return out
+    return out, items
 
 
 def _hydraulics(
@@ -1779,7 +1786,7 @@ def _hydraulics(
                 Q=Q,
                 n_run=case.running,
             )
-    pipes = {
+    solved = {
         p.id: _pipe(
             ev,
             case,
@@ -1792,7 +1799,11 @@ def _hydraulics(
         )
         for p in model.pipes
     }
-    out: dict[str, Any] = {"pipes": pipes}
+    pipes = {ident: values for ident, (values, _) in solved.items()}
+    out: dict[str, Any] = {
+        "pipes": pipes,
+        "fittings": {ident: items for ident, (_, items) in solved.items()},
+    }
     out["static_head"] = ev.step(
         sid("system.static_head"),
         "Static head",

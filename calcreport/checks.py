@@ -9,21 +9,19 @@ requirement of that project: exceeding it fails. Physical impossibilities
 
 from __future__ import annotations
 
-import re
 from functools import cache
 from typing import Any
 
 from calcreport import catalog
 from calcreport.model.schema import Model
 from calcreport.physics import pump
+from calcreport.safety import EXIT_NOTE
 from calcreport.trace import Check
 from calcreport.units import show
 
 __all__ = ["criterion", "evaluate", "governing", "once", "preferred_range", "states"]
 
 _SEVERITY = {"fail": 0, "review": 1, "pass": 2}
-
-_EXIT = re.compile(r"\bexit\b|\boutlet\b|discharge into", re.IGNORECASE)
 
 
 def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
@@ -141,8 +139,7 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
     if viscous:
         found.append(_viscous(viscous))
     route = results.get("route", {})
-    if "rating_check" in route:
-        found.append(_pressure_rating(model, route))
+    found += [_pressure_rating(model, rated) for rated in route.get("ratings", [])]
     if "surge" in results:
         found.append(_surge(results["surge"]))
     motor = results.get("motor", {})
@@ -534,7 +531,7 @@ def _exit_item(model: Model, case: str) -> Check | None:
     if model.destination.inlet != "submerged":
         return None
     has_exit = any(
-        ft.kind == "exit" or _EXIT.search(ft.note) for pipe in model.pipes for ft in pipe.fittings
+        ft.kind == "exit" or EXIT_NOTE.search(ft.note) for pipe in model.pipes for ft in pipe.fittings
     )
     return Check(
         id="exit_loss_item",
@@ -596,38 +593,48 @@ def _shown(model: Model, value: float, si_unit: str, kind: str) -> str:
     return show({"value": value, "unit": si_unit}, kind, model.project.units)
 
 
-def _pressure_rating(model: Model, route: dict[str, Any]) -> Check:
-    """The highest pressure against the least rating, at the point where they come closest."""
-    rc = route["rating_check"]
-    p, rating = rc["pressure"]["value"], rc["rating"]["value"]
+def _pressure_rating(model: Model, rc: dict[str, Any]) -> Check:
+    """One rated item's highest pressure against its rating, at the point where they come
+    closest; an operating pressure above it fails whether or not the pump is selected."""
+    rating = rc["rating"]["value"]
+    if "pressure" not in rc:
+        return Check(
+            id=f"pressure_rating.{rc['id']}",
+            title=f"Highest pressure on {rc['item']} within its rating",
+            status="review",
+            value=None,
+            unit="Pa",
+            limit=rating,
+            comparison="<=",
+            basis="A rating is checked where the route gives the pipe's end elevations",
+            reference="input",
+            case="all",
+            message=f"{rc['item']}: not checked, pipe {rc['pipe']} having no elevations; give "
+            "its elevation_start and elevation_end",
+        )
+    p = rc["pressure"]["value"]
     within = p <= rating
     when = {
         "static": "with no flow and the pump at its highest curve head (top speed, highest "
         "source level)",
-        "surge": f"during the screened surge (case {rc['case']})",
-        "operating": "in operation (the shutoff pressure is unknown: pump not selected)",
+        "surge": f"during the screened surge (state {rc['case']})",
+        "operating": f"in operation (state {rc['case']})",
     }[rc["basis"]]
-    unplaced = rc.get("unplaced", [])
-    known = rc["shutoff_known"] and not unplaced
-    status = "fail" if not within else ("pass" if known else "review")
-    message = (
-        f"{rc['item']} at {rc['node']}: {_shown(model, p, 'Pa', 'pressure')}(g) {when}, "
-        f"rating {_shown(model, rating, 'Pa', 'pressure')}(g)"
-    )
+    status = "fail" if not within else ("pass" if rc["shutoff_known"] else "review")
+    # The value and the rating stand in the check's own columns.
+    message = f"at {rc['node']}, {when}"
     if within and not rc["shutoff_known"]:
         message += "; confirm against the selected pump's shutoff head"
-    if unplaced:
-        message += f"; not checked, their pipes having no elevations: {', '.join(unplaced)}"
     return Check(
-        id="pressure_rating",
-        title="Highest pressure within the pressure ratings",
+        id=f"pressure_rating.{rc['id']}",
+        title=f"Highest pressure on {rc['item']} within its rating",
         status=status,
         value=p,
         unit="Pa",
         limit=rating,
         comparison="<=",
-        basis="The highest pressure each pipe, component and the pump casing can see, the "
-        "pump's highest head against a closed line or the screened surge, must not exceed its "
+        basis="The highest pressure the item can see, over the pump's highest head against a "
+        "closed line, every operating state and the screened surge, must not exceed its "
         "rating (gauge, at the design temperature); ratings and test pressures per the "
         "applicable piping code",
         reference="input",

@@ -1,35 +1,122 @@
 """Pressure safety along the route and surge screening: their part of the solve stage.
 
-:func:`calcreport.calc.solve` calls these once its operating cases are
-solved. For each case, :func:`profile` lays the energy and hydraulic grade
-lines over every pipe end and :func:`case_route` finds the lowest pressure
-in the pressurised line. Over all cases, :func:`envelope` finds the highest
-pressure at every point (the pump at its highest head against a closed
-line, and the upsurge of the screened event) and sets it against the
-ratings of the pipes, the listed components and the pump casing;
-:func:`surge_screening` estimates wave speeds, periods and the Joukowsky
-head change. Every value a check relies on is a step.
+:func:`calcreport.calc.solve` calls these once its operating states are
+solved. For each state, :func:`profile` lays the energy and hydraulic grade
+lines over every point where the route's pressure is read (each pipe's
+stations, both sides of every fitting location, and the pump's flanges) and
+:meth:`Route.case_route` finds the lowest pressure in the pressurised line.
+Over all states, :meth:`Route.envelope` finds the highest pressure at every
+point (the pump at its highest head against a closed line, operation in
+every state, and the upsurge of the screened events) and sets it against
+the ratings of the pipes, the listed components and the pump casing, one
+entry per rated item; :meth:`Route.surge_screening` estimates wave speeds,
+periods and head changes. Every value a check relies on is a step.
+
+Where losses happen: an entrance as the liquid enters its pipe, an exit as it
+leaves, friction uniformly along the pipe, any other fitting at the pipe's
+start unless the input places it (``at = "end"`` or a distance).
 """
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from functools import cached_property
 from typing import TYPE_CHECKING, Any
 
-from calcreport.model.schema import Given, Model, Pipe
+from calcreport.model.schema import Fitting, Given, Model, Pipe
 from calcreport.physics import head, losses, pump, route, surge, water
 from calcreport.trace import TraceBuilder, quantity
 
 if TYPE_CHECKING:
     from calcreport.calc import Case, CurvePoints, Liquid
 
-__all__ = ["Route", "State", "profile"]
+__all__ = ["EXIT_NOTE", "FittingLoss", "Route", "State", "Station", "placement", "profile"]
+
+# A fitting noted as the exit (or entrance) of its pipe, when it names no kind.
+EXIT_NOTE = re.compile(r"\bexit\b|\boutlet\b|discharge into", re.IGNORECASE)
+ENTRANCE_NOTE = re.compile(r"\bentrance\b|\bbell ?mouth\b", re.IGNORECASE)
+
+SUCTION_FLANGE = "pump suction flange"
+DISCHARGE_FLANGE = "pump discharge flange"
+
+
+def placement(ft: Fitting) -> str:
+    """Where along its pipe a fitting's loss is taken: "entrance" (as the liquid enters the
+    pipe), "start", "along" (at ``ft.distance``), "end" or "exit" (as it leaves)."""
+    if ft.at:
+        return ft.at
+    if ft.kind.startswith("entrance") or (not ft.kind and ENTRANCE_NOTE.search(ft.note)):
+        return "entrance"
+    if ft.kind == "exit" or (not ft.kind and EXIT_NOTE.search(ft.note)):
+        return "exit"
+    return "start"
+
+
+@dataclass(frozen=True)
+class FittingLoss:
+    """One fitting item of a pipe in one state: its coefficient, or its rated head loss."""
+
+    fitting: Fitting
+    K: Given | None  # resistance coefficient of one item (None for a rated loss)
+    head: Given | None  # head loss of a rated item (None for a coefficient)
+
+    def value(self, hv: float) -> float:
+        """Its head loss at velocity head ``hv`` [m]."""
+        if self.head is not None:
+            return float(self.head.value)
+        assert self.K is not None
+        return float(self.K.value) * float(self.fitting.count.value) * hv
+
+
+@dataclass(frozen=True)
+class Station:
+    """A point along a pipe where the route's pressure is read."""
+
+    key: str  # step-id part: start, start.after_fittings, at_120m, end, ...
+    name: str  # as printed: "D1 start", "D1 start, after fittings", ...
+    x: float  # distance from the pipe's start [m]
+    upstream: tuple[FittingLoss, ...]  # the pipe's own fitting losses before the point
+
+
+def stations(pipe: Pipe, items: list[FittingLoss], label: Any = None) -> list[Station]:
+    """The pipe's stations in flow order: its start, both sides of every fitting location
+    along it, its end (``label`` prints a distance along the pipe, in metres by default)."""
+    L = pipe.length.value
+    groups: dict[str, list[FittingLoss]] = {"entrance": [], "start": [], "end": [], "exit": []}
+    along: dict[float, list[FittingLoss]] = {}
+    for item in items:
+        where = placement(item.fitting)
+        if where == "along":
+            assert item.fitting.distance is not None
+            d = item.fitting.distance.value
+            if 0.0 < d < L:
+                along.setdefault(d, []).append(item)
+                continue
+            where = "start" if d <= 0.0 else "end"
+        groups[where].append(item)
+    before = list(groups["entrance"])
+    out = [Station("start", f"{pipe.id} start", 0.0, tuple(before))]
+
+    def after(key: str, name: str, x: float, more: list[FittingLoss]) -> None:
+        before.extend(more)
+        out.append(Station(f"{key}.after_fittings", f"{name}, after fittings", x, tuple(before)))
+
+    if groups["start"]:
+        after("start", f"{pipe.id} start", 0.0, groups["start"])
+    for d in sorted(along):
+        key, name = f"at_{d:.6g}m", f"{pipe.id} at {label(d) if label else f'{d:.6g} m'}"
+        out.append(Station(key, name, d, tuple(before)))
+        after(key, name, d, along[d])
+    out.append(Station("end", f"{pipe.id} end", L, tuple(before)))
+    if groups["end"]:
+        after("end", f"{pipe.id} end", L, groups["end"])
+    return out
 
 
 @dataclass(frozen=True)
 class State:
-    """What the route needs of one solved case: the case at its flow, liquid and heads."""
+    """What the route needs of one solved state: the state at its flow, liquid and heads."""
 
     case: Case
     liquid: Liquid
@@ -40,12 +127,12 @@ class State:
 
     @property
     def lift(self) -> Given:
-        """The head the pump adds at its flanges: its own head, or the system's TDH."""
+        """The head the pump adds between its flanges: its own head, or the system's TDH."""
         return self.pump_head or self.h["tdh"]
 
     @cached_property
     def pipe_nodes(self) -> dict[str, dict[str, Any]]:
-        """The profile's pipe-end nodes by name."""
+        """The profile's pipe and flange nodes by name."""
         return {n["name"]: n for n in self.profile["nodes"] if "pipe" in n}
 
 
@@ -53,63 +140,88 @@ def _q(given: Given) -> dict[str, Any]:
     return quantity(float(given.value), given.unit)
 
 
-def profile(
-    model: Model, case: Case, liquid: Liquid, h: dict[str, Any], p_source: Given, p_dest: Given
-) -> dict[str, Any]:
-    """Energy and hydraulic grade lines at every pipe end, source to destination.
+def _label(model: Model) -> Any:
+    """A distance along a pipe as the report prints it."""
+    from calcreport.units import show
 
-    A pipe's fitting and equipment losses are taken at its upstream end and
-    its friction along it, so the pressure at each pipe end follows every
-    loss upstream of it; the pump adds the TDH between the last suction pipe
-    and the first discharge pipe. Where the input gives the pipe's end
-    elevations, a node carries its gauge pressure head (HGL less elevation).
-    Elevations in metres on the input's datum.
+    return lambda d: show({"value": d, "unit": "m"}, "length", model.project.units)
+
+
+def profile(
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    h: dict[str, Any],
+    p_source: Given,
+    p_dest: Given,
+    pump_head: Given | None = None,
+) -> dict[str, Any]:
+    """Energy and hydraulic grade lines at every station, source to destination.
+
+    Each loss is taken where it happens (see the module's docstring), so the pressure at
+    a station follows every loss upstream of it. The pump adds its head between its
+    flanges: ``pump_head`` at the discharge flange where a throttling valve just
+    downstream burns part of it, the TDH beyond. Where the input gives the pipe's end
+    elevations, a station carries its gauge pressure head (HGL less elevation); the
+    flanges stand at the pump datum. Elevations in metres on the input's datum.
     """
     rho_g = liquid.density.value * losses.G
-    egl = case.source_level.value + p_source.value / rho_g
+    source = case.source_level.value + p_source.value / rho_g
+    tdh = h["tdh"].value
     nodes: list[dict[str, Any]] = [
         {
             "name": "source surface",
             "distance": 0.0,
-            "egl": egl,
-            "hgl": egl,
+            "egl": source,
+            "hgl": source,
             "elevation": case.source_level.value,
         }
     ]
-    distance = 0.0
+    z_pump = model.pump.elevation.value
+    label = _label(model)
+    lost = distance = 0.0
     pumped = False
+    previous: Pipe | None = None
     for pipe in model.pipes:
         values = h["pipes"][pipe.id]
-        if pipe.line == "discharge" and not pumped:
-            egl += h["tdh"].value
-            pumped = True
         hv = float(losses.velocity_head(values["velocity"].value))
-        egl -= values["minor_loss"].value
-        for end, given in (("start", pipe.elevation_start), ("end", pipe.elevation_end)):
-            if end == "end":
-                distance += pipe.length.value
-                egl -= values["friction_loss"].value
+        if pipe.line == "discharge" and not pumped:
+            pumped = True
+            if previous is not None:
+                v_in = float(losses.velocity_head(h["pipes"][previous.id]["velocity"].value))
+                egl = source - lost
+                nodes.append(_flange(SUCTION_FLANGE, previous, "suction", distance, egl, v_in, z_pump))
+            egl = source - lost + (pump_head.value if pump_head else tdh)
+            nodes.append(_flange(DISCHARGE_FLANGE, pipe, "discharge", distance, egl, hv, z_pump))
+        lift = tdh if pumped else 0.0
+        f_loss, L = values["friction_loss"].value, pipe.length.value
+        for stn in stations(pipe, h["fittings"][pipe.id], label):
+            spent = sum(item.value(hv) for item in stn.upstream) + f_loss * stn.x / L
+            egl = source + lift - lost - spent
+            z = _elevation_value(pipe, stn.x)
             node = {
-                "name": f"{pipe.id} {end}",
+                "name": stn.name,
                 "pipe": pipe.id,
-                "end": end,
+                "station": stn.key,
+                "x": stn.x,
                 "side": pipe.line,
-                "distance": distance,
+                "distance": distance + stn.x,
                 "egl": egl,
                 "hgl": egl - hv,
-                "elevation": given.value if given else None,
+                "elevation": z,
             }
-            if given:
-                node["pressure_head"] = egl - hv - given.value
+            if z is not None:
+                node["pressure_head"] = egl - hv - z
             nodes.append(node)
-    if not pumped:
-        egl += h["tdh"].value
+        lost += f_loss + values["minor_loss"].value
+        distance += pipe.length.value
+        previous = pipe
     final = case.destination_level.value + p_dest.value / rho_g
     nodes.append(
         {
             "name": "destination surface",
             "distance": distance,
-            "egl": egl,
+            "egl": source + tdh - lost,
             "hgl": final,
             "elevation": case.destination_level.value,
         }
@@ -118,20 +230,57 @@ def profile(
         "nodes": nodes,
         "unit": "m",
         "pump_after": model.suction_pipes[-1].id if model.suction_pipes else "",
-        "losses_at": "upstream end of each pipe",
+        "losses_at": "where each happens: entrance at a pipe's start, exit at its end, friction "
+        "along it, other fittings at the start unless placed",
     }
 
 
+def _flange(
+    name: str, pipe: Pipe, side: str, distance: float, egl: float, hv: float, z: float
+) -> dict[str, Any]:
+    """A pump flange node: at the pump datum, with the velocity of the pipe it joins."""
+    return {
+        "name": name,
+        "pipe": pipe.id,
+        "station": "flange",
+        "x": 0.0 if side == "discharge" else pipe.length.value,
+        "side": side,
+        "distance": distance,
+        "egl": egl,
+        "hgl": egl - hv,
+        "elevation": z,
+        "pressure_head": egl - hv - z,
+    }
+
+
+def _distance(pipe: Pipe, x: float) -> Given:
+    """The input's distance of the fittings placed at ``x`` along ``pipe``."""
+    found = next(ft.distance for ft in pipe.fittings if ft.distance and ft.distance.value == x)
+    assert found is not None
+    return found
+
+
+def _elevation_value(pipe: Pipe, x: float) -> float | None:
+    z1, z2 = pipe.elevation_start, pipe.elevation_end
+    if x <= 0.0:
+        return z1.value if z1 else None
+    if x >= pipe.length.value:
+        return z2.value if z2 else None
+    if z1 is None or z2 is None:
+        return None
+    return float(route.elevation_along(z1.value, z2.value, x, pipe.length.value))
+
+
 def _line_nodes(model: Model, nodes: list[dict[str, Any]]) -> list[dict[str, Any]]:
-    """Pipe ends of the pressurised (discharge) line with an elevation, outlet excluded:
+    """Points of the pressurised (discharge) line with an elevation, outlet excluded:
     the outlet's pressure is the destination's, not the line's."""
-    last = model.pipes[-1].id
+    last = model.pipes[-1]
     return [
         n
         for n in nodes
         if n.get("side") == "discharge"
         and "pressure_head" in n
-        and not (n["pipe"] == last and n["end"] == "end")
+        and not (n["pipe"] == last.id and n["station"] != "flange" and n["x"] >= last.length.value)
     ]
 
 
@@ -143,41 +292,62 @@ class Route:
         self.model = model
         self.pipes = {p.id: (i, p) for i, p in enumerate(model.pipes)}
         self.first_discharge = next((p for p in model.pipes if p.line == "discharge"), None)
+        self.last_suction = model.suction_pipes[-1] if model.suction_pipes else None
         self._heads: dict[tuple[str, str], Given] = {}
         self._vapour: dict[str, Given] = {}
+        self._elevations: dict[str, Given] = {}
         self.rises: dict[str, Given] = {}  # surge head change by pipe, once screened
         self.surge_case = ""
+        self.label = _label(model)
 
-    # -- one case ------------------------------------------------------------
+    # -- one state -----------------------------------------------------------
+
+    def elevation(self, node: dict[str, Any]) -> Given:
+        """The elevation of a node: the pump datum, a pipe end, or a step along the pipe."""
+        if node["station"] == "flange":
+            return self.model.pump.elevation
+        pipe = self.pipes[node["pipe"]][1]
+        if node["x"] <= 0.0 and pipe.elevation_start is not None:
+            return pipe.elevation_start
+        if node["x"] >= pipe.length.value and pipe.elevation_end is not None:
+            return pipe.elevation_end
+        key = f"route.{pipe.id}.at_{node['x']:.6g}m.elevation"
+        if key not in self._elevations:
+            assert pipe.elevation_start is not None and pipe.elevation_end is not None
+            self._elevations[key] = self.b.step(
+                key,
+                f"Centreline elevation of {pipe.id} at {self.label(node['x'])}",
+                route.elevation_along,
+                z_1=pipe.elevation_start,
+                z_2=pipe.elevation_end,
+                x=_distance(pipe, node["x"]),
+                L=pipe.length,
+            )
+        return self._elevations[key]
+
+    def _where(self, node: dict[str, Any]) -> str:
+        """The step-id stem of a node."""
+        if node["station"] == "flange":
+            return f"route.{node['name'].replace(' ', '_')}"
+        return f"route.{node['pipe']}.{node['station']}"
 
     def node_head(self, st: State, node: dict[str, Any]) -> Given:
-        """The step of a node's gauge pressure head in case ``st``."""
+        """The step of a node's gauge pressure head in state ``st``."""
         key = (st.case.id, node["name"])
         if key in self._heads:
             return self._heads[key]
         b, case, h = self.b, st.case, st.h
         index, pipe = self.pipes[node["pipe"]]
-        terms: list[Given] = []
-        for other in self.model.pipes[:index]:
-            terms += [h["pipes"][other.id]["friction_loss"], h["pipes"][other.id]["minor_loss"]]
-        terms.append(h["pipes"][pipe.id]["minor_loss"])
-        if node["end"] == "end":
-            terms.append(h["pipes"][pipe.id]["friction_loss"])
-        where = f"route.{pipe.id}.{node['end']}"
-        h_L = b.step(
-            case.sid(f"{where}.head_loss"),
-            f"Head lost from the source surface to {node['name']}",
-            losses.head_sum,
-            case.id,
-            h=terms,
-        )
-        lift = (
-            h["tdh"]
-            if pipe.line == "discharge"
-            else b.assume("No pump head is added upstream of the pump.", 0.0, "m")
-        )
-        z = pipe.elevation_start if node["end"] == "start" else pipe.elevation_end
-        assert z is not None
+        where = self._where(node)
+        velocity = h["pipes"][pipe.id]["velocity"]
+        if node["station"] == "flange":
+            h_L = h["suction_loss"]
+        else:
+            h_L = self._head_loss(st, pipe, index, node, where)
+        if node["side"] == "suction":
+            lift = b.assume("No pump head is added upstream of the pump.", 0.0, "m")
+        else:
+            lift = st.lift if node["station"] == "flange" else h["tdh"]
         value = b.step(
             case.sid(f"{where}.pressure_head"),
             f"Pressure head at {node['name']} (gauge)",
@@ -188,14 +358,74 @@ class Route:
             rho=st.liquid.density,
             H=lift,
             h_L=h_L,
-            v=h["pipes"][pipe.id]["velocity"],
-            z=z,
+            v=velocity,
+            z=self.elevation(node),
         )
         self._heads[key] = value
         return value
 
+    def _head_loss(
+        self, st: State, pipe: Pipe, index: int, node: dict[str, Any], where: str
+    ) -> Given:
+        """The step of the head lost from the source surface to a pipe's station."""
+        b, case, h = self.b, st.case, st.h
+        values = h["pipes"][pipe.id]
+        terms: list[Given] = []
+        for other in self.model.pipes[:index]:
+            terms += [h["pipes"][other.id]["friction_loss"], h["pipes"][other.id]["minor_loss"]]
+        found = stations(pipe, h["fittings"][pipe.id], self.label)
+        stn = next(s for s in found if s.key == node["station"])
+        every = h["fittings"][pipe.id]
+        if len(stn.upstream) == len(every) and every:
+            terms.append(values["minor_loss"])
+        elif stn.upstream:
+            coefficients = [i for i in stn.upstream if i.K is not None]
+            if len(coefficients) == sum(1 for i in every if i.K is not None):
+                terms.append(values["fitting_loss"])
+            elif coefficients:
+                K = b.step(
+                    case.sid(f"{where}.k_upstream"),
+                    f"Fitting coefficients of {pipe.id} upstream of {node['name']}",
+                    losses.k_total,
+                    case.id,
+                    K=[i.K for i in coefficients if i.K is not None],
+                    count=[i.fitting.count for i in coefficients],
+                )
+                terms.append(
+                    b.step(
+                        case.sid(f"{where}.fitting_loss"),
+                        f"Fitting losses of {pipe.id} upstream of {node['name']}",
+                        losses.minor_loss,
+                        case.id,
+                        K_total=K,
+                        v=values["velocity"],
+                    )
+                )
+            terms += [i.head for i in stn.upstream if i.head is not None]
+        if stn.x >= pipe.length.value:
+            terms.append(values["friction_loss"])
+        elif stn.x > 0.0:
+            terms.append(
+                b.step(
+                    case.sid(f"{where}.friction_loss"),
+                    f"Friction loss of {pipe.id} up to {node['name']}",
+                    losses.friction_share,
+                    case.id,
+                    h_f=values["friction_loss"],
+                    x=_distance(pipe, stn.x),
+                    L=pipe.length,
+                )
+            )
+        return b.step(
+            case.sid(f"{where}.head_loss"),
+            f"Head lost from the source surface to {node['name']}",
+            losses.head_sum,
+            case.id,
+            h=terms,
+        )
+
     def vapour_head(self, st: State) -> Given:
-        """The gauge pressure head at which the liquid of case ``st`` boils."""
+        """The gauge pressure head at which the liquid of state ``st`` boils."""
         if st.case.id not in self._vapour:
             self._vapour[st.case.id] = self.b.step(
                 st.case.sid("route.vapour_head"),
@@ -209,7 +439,7 @@ class Route:
         return self._vapour[st.case.id]
 
     def case_route(self, st: State) -> dict[str, Any] | None:
-        """Lowest pressures of the discharge line and of the suction line in one case, as
+        """Lowest pressures of the discharge line and of the suction line in one state, as
         steps (the suction may run below atmospheric by design, but not to vapour)."""
         line = _line_nodes(self.model, st.profile["nodes"])
         suction = [
@@ -228,7 +458,7 @@ class Route:
             out["suction_min_pressure_node"] = lowest["name"]
         return out
 
-    # -- all cases -----------------------------------------------------------
+    # -- all states ----------------------------------------------------------
 
     def envelope(
         self,
@@ -236,7 +466,7 @@ class Route:
         curve: CurvePoints | None,
         notes: list[str],
     ) -> dict[str, Any]:
-        """Highest and lowest pressures over every case, ratings, high points and crest."""
+        """Highest and lowest pressures over every state, ratings, high points and crest."""
         model = self.model
         design = states["C1"]
         nodes = [n for n in design.profile["nodes"] if "pressure_head" in n]
@@ -254,7 +484,7 @@ class Route:
             crest = max(line, key=lambda n: n["elevation"])
             above = crest["elevation"] - design.case.destination_level.value
             if above > 0.0:
-                # Full-pipe flow over the crest needs a positive head there in every case;
+                # Full-pipe flow over the crest needs a positive head there in every state;
                 # where it is negative the crest, not the destination, sets the lift.
                 below = [st.case.id for st in states.values() if _head_at(st, crest["name"]) < 0.0]
                 out["crest"] = {
@@ -266,7 +496,7 @@ class Route:
                 }
                 if below:
                     notes.append(
-                        f"The crest at {crest['name']} controls the flow in case(s) "
+                        f"The crest at {crest['name']} controls the flow in state(s) "
                         f"{', '.join(below)}: its grade line falls below the pipe, so beyond it "
                         "the line runs part-full, or as a siphon only if primed and kept free of "
                         "air; the pump must lift to the crest, not to the destination."
@@ -281,25 +511,22 @@ class Route:
             lift = H_max.value if H_max is not None and side == "discharge" else 0.0
             return float(route.static_pressure(p_s.value, rho.value, z_s.value, lift, z))
 
-        pump_node = {"name": "pump discharge", "side": "discharge", "elevation": None}
         points: list[dict[str, Any]] = []
-        for n in [pump_node, *nodes] if H_max is not None else nodes:
-            z = model.pump.elevation.value if n is pump_node else n["elevation"]
-            entry: dict[str, Any] = {"node": n["name"], "elevation": z}
+        for n in nodes:
+            entry: dict[str, Any] = {"node": n["name"], "elevation": n["elevation"]}
             if H_max is not None or n["side"] == "suction":
-                entry["static"] = static(z, n["side"])
-            if n is not pump_node:
-                entry["operating"] = max(
-                    st.liquid.density.value * losses.G * _head_at(st, n["name"])
-                    for st in states.values()
+                entry["static"] = static(n["elevation"], n["side"])
+            entry["operating"] = max(
+                st.liquid.density.value * losses.G * _head_at(st, n["name"])
+                for st in states.values()
+            )
+            if self.rises:
+                sst = states[self.surge_case]
+                entry["surge"] = (
+                    sst.liquid.density.value
+                    * losses.G
+                    * (_head_at(sst, n["name"]) + self.rises[n["pipe"]].value)
                 )
-                if self.rises:
-                    sst = states[self.surge_case]
-                    entry["surge"] = (
-                        sst.liquid.density.value
-                        * losses.G
-                        * (_head_at(sst, n["name"]) + self.rises[n["pipe"]].value)
-                    )
             candidates = {k: entry[k] for k in ("static", "surge", "operating") if k in entry}
             entry["basis"] = max(candidates, key=lambda k: candidates[k])
             entry["max"] = candidates[entry["basis"]]
@@ -318,7 +545,7 @@ class Route:
             if basis == "first curve point"
             else "shutoff at the top speed, highest source level"
             if H_max is not None
-            else "the operating cases only, no pump curve being given"
+            else "the operating states only, no pump curve being given"
         )
 
         recorded: dict[str, Given] = {}
@@ -328,37 +555,85 @@ class Route:
                 recorded[point["node"]] = self._pressure_step(states, point, H_max, rho, z_s, p_s)
             return recorded[point["node"]]
 
-        rated = [(p, item) for p in points for item in p["ratings"]]
         placed = {p.id for p in model.pipes if p.elevation_start and p.elevation_end}
-        unplaced = [f"pipe {p.id}" for p in model.pipes if p.pressure_rating and p.id not in placed]
-        unplaced += [c.id for c in model.components if c.at not in placed]
+        unplaced = [
+            {"id": f"pipe.{p.id}", "item": f"pipe {p.id}", "at": p.id, "rating": p.pressure_rating}
+            for p in model.pipes
+            if p.pressure_rating and p.id not in placed
+        ] + [
+            {"id": c.id, "item": c.id, "at": c.at, "rating": c.pressure_rating}
+            for c in model.components
+            if c.at not in placed
+        ]
         if unplaced:
             notes.append(
                 "Ratings not checked because their pipes have no elevations: "
-                f"{', '.join(unplaced)}; give elevation_start and elevation_end."
+                f"{', '.join(u['item'] for u in unplaced)}; give elevation_start and "
+                "elevation_end."
             )
-        if rated:
-            gov, item = min(rated, key=lambda pi: pi[1]["rating"] - pi[0]["max"])
-            out["rating_check"] = {
-                "node": gov["node"],
-                "item": item["item"],
-                "rating": quantity(item["rating"], "Pa"),
-                "pressure": _q(record(gov)),
-                "basis": gov["basis"],
-                "case": self.surge_case if gov["basis"] == "surge" else "all",
-                "shutoff_known": basis == "shutoff",
-                "unplaced": unplaced,
+        # Each rated item at the point where its pressure comes closest to its rating.
+        worst: dict[str, tuple[dict[str, Any], dict[str, Any]]] = {}
+        for p in points:
+            for item in p["ratings"]:
+                held = worst.get(item["id"])
+                if held is None or item["rating"] - p["max"] < held[1]["rating"] - held[0]["max"]:
+                    worst[item["id"]] = (p, item)
+        ratings = []
+        for point, item in worst.values():
+            ratings.append(
+                {
+                    "id": item["id"],
+                    "item": item["item"],
+                    "node": point["node"],
+                    "rating": quantity(item["rating"], "Pa"),
+                    "pressure": _q(record(point)),
+                    "basis": point["basis"],
+                    "case": self._basis_state(states, point),
+                    "shutoff_known": basis == "shutoff",
+                }
+            )
+        ratings += [
+            {
+                "id": u["id"],
+                "item": u["item"],
+                "node": "",
+                "rating": _q(u["rating"]),
+                "basis": "not placed",
+                "case": "all",
+                "pipe": u["at"],
             }
+            for u in unplaced
+        ]
+        if ratings:
+            out["ratings"] = ratings
+            checked = [r for r in ratings if "pressure" in r]
+            if checked:
+                out["rating_check"] = min(
+                    checked, key=lambda r: r["rating"]["value"] - r["pressure"]["value"]
+                )
         record(top)
-        if H_max is not None and points[0]["basis"] == "static":
-            record(points[0])  # the pump discharge at shutoff: the casing's pressure
+        flange = next((p for p in points if p["node"] == DISCHARGE_FLANGE), None)
+        if H_max is not None and flange is not None and flange["basis"] == "static":
+            record(flange)  # the pump discharge at shutoff: the casing's pressure
         out["nodes"] = [self._node_entry(states, p, rho.value) for p in points]
-        if not rated:
+        if not ratings:
             notes.append(
                 "No pressure rating is given (pipe pressure_rating, [[component]], "
                 "pump.pressure_rating): the maximum pressures are reported but not checked."
             )
         return out
+
+    def _basis_state(self, states: dict[str, State], point: dict[str, Any]) -> str:
+        """The state that sets a point's highest pressure ("all" for the no-flow static)."""
+        if point["basis"] == "surge":
+            return self.surge_case
+        if point["basis"] == "operating":
+            return self._operating_state(states, point["node"]).case.id
+        return "all"
+
+    @staticmethod
+    def _operating_state(states: dict[str, State], name: str) -> State:
+        return max(states.values(), key=lambda s: s.liquid.density.value * _head_at(s, name))
 
     def _node_entry(
         self, states: dict[str, State], p: dict[str, Any], rho: float
@@ -368,30 +643,28 @@ class Route:
         z = p["elevation"]
         design = states["C1"]
         node = _node(design, p["node"])
-        first = self.first_discharge
-        # The pump discharge stands where the first discharge pipe starts.
-        at = node or (first and _node(design, f"{first.id} start")) or design.profile["nodes"][-1]
+        assert node is not None
         entry: dict[str, Any] = {
             "node": p["node"],
-            "distance": quantity(at["distance"], "m"),
+            "station": node["station"],
+            "distance": quantity(node["distance"], "m"),
             "elevation": quantity(z, "m"),
             "max_pressure": quantity(p["max"], "Pa"),
             "max_grade": quantity(z + p["max"] / (rho * losses.G), "m"),
             "basis": p["basis"],
         }
-        if node is not None:
-            low = _min_head(states, p["node"])
-            entry["min_pressure_head"] = quantity(low, "m")
-            entry["min_grade"] = quantity(z + low, "m")
-            vapour = self._vapour.get("C1")
-            if vapour is not None:
-                entry["vapour_grade"] = quantity(z + vapour.value, "m")
-            if self.rises and self.surge_case and node["side"] == "discharge":
-                down = _head_at(states[self.surge_case], p["node"]) - self.rises[node["pipe"]].value
-                # The liquid cannot fall below its vapour pressure: there the column parts.
-                if vapour is not None and down <= vapour.value:
-                    down, entry["column_separation"] = vapour.value, True
-                entry["downsurge_grade"] = quantity(z + down, "m")
+        low = _min_head(states, p["node"])
+        entry["min_pressure_head"] = quantity(low, "m")
+        entry["min_grade"] = quantity(z + low, "m")
+        vapour = self._vapour.get("C1")
+        if vapour is not None:
+            entry["vapour_grade"] = quantity(z + vapour.value, "m")
+        if self.rises and self.surge_case and node["side"] == "discharge":
+            down = _head_at(states[self.surge_case], p["node"]) - self.rises[node["pipe"]].value
+            # The liquid cannot fall below its vapour pressure: there the column parts.
+            if vapour is not None and down <= vapour.value:
+                down, entry["column_separation"] = vapour.value, True
+            entry["downsurge_grade"] = quantity(z + down, "m")
         if p["ratings"]:
             rating = min(i["rating"] for i in p["ratings"])
             entry["rating"] = quantity(rating, "Pa")
@@ -426,21 +699,29 @@ class Route:
         return H, "shutoff"
 
     def _ratings_at(self, node: dict[str, Any]) -> list[dict[str, Any]]:
+        """The rated items that see a node's pressure: its pipe and the components on it,
+        and at the discharge flange the pump casing (the first discharge pipe starts there)."""
         model = self.model
-        if node["name"] == "pump discharge":
-            rating = model.pump.pressure_rating
-            return [{"item": "pump casing", "rating": rating.value}] if rating else []
         pipe: Pipe = self.pipes[node["pipe"]][1]
         found = []
-        if model.pump.pressure_rating and pipe is self.first_discharge and node["end"] == "start":
-            # The casing also sees what the first discharge pipe sees in operation and surge.
-            found.append({"item": "pump casing", "rating": model.pump.pressure_rating.value})
+        if model.pump.pressure_rating and node["name"] == DISCHARGE_FLANGE:
+            found.append(
+                {"id": "casing", "item": "pump casing", "rating": model.pump.pressure_rating.value}
+            )
+        if node["name"] == SUCTION_FLANGE:
+            return found  # the pump's suction nozzle: the casing is rated for its discharge
         if pipe.pressure_rating:
-            found.append({"item": f"pipe {pipe.id}", "rating": pipe.pressure_rating.value})
+            found.append(
+                {
+                    "id": f"pipe.{pipe.id}",
+                    "item": f"pipe {pipe.id}",
+                    "rating": pipe.pressure_rating.value,
+                }
+            )
         for c in model.components:
             if c.at == pipe.id:
                 label = f"{c.id}" + (f" ({c.note})" if c.note else "")
-                found.append({"item": label, "rating": c.pressure_rating.value})
+                found.append({"id": c.id, "item": label, "rating": c.pressure_rating.value})
         return found
 
     def _pressure_step(
@@ -455,16 +736,11 @@ class Route:
         """The step of the highest pressure at one point, on the basis that governs it."""
         b, name = self.b, point["node"]
         node = _node(states["C1"], name)
-        where = "route.pump_discharge" if node is None else f"route.{node['pipe']}.{node['end']}"
+        assert node is not None
+        where = self._where(node)
         if point["basis"] == "static":
-            if node is None:
-                z = self.model.pump.elevation
-            else:
-                pipe = self.pipes[node["pipe"]][1]
-                z = pipe.elevation_start if node["end"] == "start" else pipe.elevation_end
-            assert z is not None
             lift = H_max
-            if lift is None or (node is not None and node["side"] == "suction"):
+            if lift is None or node["side"] == "suction":
                 lift = b.assume("No pump head is added upstream of the pump.", 0.0, "m")
             return b.step(
                 f"{where}.max_static_pressure",
@@ -474,9 +750,8 @@ class Route:
                 rho=rho,
                 z_s=z_s,
                 H_max=lift,
-                z=z,
+                z=self.elevation(node),
             )
-        assert node is not None
         if point["basis"] == "surge":
             st = states[self.surge_case]
             h_up = b.step(
@@ -496,7 +771,7 @@ class Route:
                 rho=st.liquid.density,
                 h=h_up,
             )
-        st = max(states.values(), key=lambda s: s.liquid.density.value * _head_at(s, name))
+        st = self._operating_state(states, name)
         return b.step(
             st.case.sid(f"{where}.operating_pressure"),
             f"Operating pressure at {name} (gauge)",
@@ -593,7 +868,7 @@ class Route:
             line_nodes = _line_nodes(model, st.profile["nodes"])
             if line_nodes:
                 low = min(line_nodes, key=lambda n: n["pressure_head"] - rises[n["pipe"]].value)
-                where = f"route.{low['pipe']}.{low['end']}"
+                where = self._where(low)
                 h_down = b.step(
                     sid(f"{where}.downsurge_head"),
                     f"Pressure head at {low['name']} during the downsurge",

@@ -100,7 +100,9 @@ def test_sections_in_reviewers_order(built):
     ]
     for _, _, pages in built.values():
         contents = next(i for i, page in enumerate(pages) if "Contents" in page)
-        assert "Summary" in pages[contents - 1] and contents <= 3
+        # The summary opens page 2; a design with many open checks may take a second page.
+        assert "1 Summary" in pages[1] and "1.3 Conclusion" in "".join(pages[1:contents])
+        assert contents <= 3
         entries = _contents_entries(pages[contents])
         titles = [t for t, _ in entries]
         found = [next(i for i, t in enumerate(titles) if t.startswith(name)) for name in order]
@@ -320,11 +322,15 @@ def test_route_pressures_and_surge_are_reported(built):
     assert "transient analysis" in text
     # Every check the route and surge produced is printed with its status.
     ids = {c["id"]: c for c in trace["checks"]}
-    assert {"min_pressure", "pressure_rating", "surge"} <= set(ids)
+    assert {"min_pressure", "surge"} <= set(ids)
     assert f"{surge['head_rise']['value']:.4g} m" in text
-    rating = ids["pressure_rating"]
-    assert rating["status"] == "fail" and "D1 start" in rating["message"]
-    assert rating["message"].split(":")[0] in text.replace("\n", " ")
+    # One entry per rated item, each printed: the valve and the air valve both over theirs.
+    rated = {i: c for i, c in ids.items() if i.startswith("pressure_rating.")}
+    assert {"pressure_rating.V-2", "pressure_rating.AV-1", "pressure_rating.pipe.D1"} <= set(rated)
+    flat = text.replace("\n", " ")
+    for c in rated.values():
+        assert c["message"].split(":")[0] in flat
+    assert rated["pressure_rating.AV-1"]["status"] == "fail"
 
 
 @pytest.mark.parametrize("flag", [True, False])

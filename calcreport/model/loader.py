@@ -148,7 +148,7 @@ SURGE_EVENTS = ("pump_trip", "valve_closure")
 _SURGE_KEYS = {"event", "closure_time"}
 FRICTION_METHODS = ("darcy_weisbach", "hazen_williams")
 FITTINGS_METHODS = ("two_k", "three_k")
-_FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle"}
+_FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle", "at"}
 # Fittings between two diameters: the coefficient follows from the diameters (Crane TP-410).
 DIAMETER_CHANGES = ("expander", "reducer")
 EFFICIENCY_BASES = ("pump", "overall")
@@ -1364,7 +1364,7 @@ def _pipes(r: _Reader, raw: Any) -> tuple[Pipe, ...]:
                 f"diameter ({diameter.value * 1e3:.6g} mm); got "
                 f"{roughness.value * 1e3:.6g} mm.",
             )
-        fittings = _fittings(r, data.get("fittings", []), path)
+        fittings = _fittings(r, data.get("fittings", []), path, length)
         material = _material_name(data)
         hw_c = r.quantity(data, "hazen_williams_c", path, "dimensionless", positive=True)
         if hw_c is None and material:
@@ -1609,7 +1609,9 @@ def _catalog_roughness(
     return Given(found.value, "m", f"catalog.roughness[{found.material}]")
 
 
-def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
+def _fittings(
+    r: _Reader, raw: Any, pipe_path: str, length: Given | None
+) -> tuple[Fitting, ...]:
     path = f"{pipe_path}.fittings"
     if not isinstance(raw, list):
         r.problem(
@@ -1679,6 +1681,7 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
             r.problem(where, 'other_diameter and angle apply to kind = "expander" or "reducer".')
         if angle and angle.value > math.pi:
             r.problem(f"{where}.angle", "The included angle is at most 180 deg (sudden).")
+        at, distance = _fitting_at(r, data, where, length)
         items.append(
             Fitting(
                 key=where,
@@ -1690,9 +1693,40 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str) -> tuple[Fitting, ...]:
                 note=r.text(data, "note", where, ""),
                 other_diameter=other,
                 angle=angle,
+                at=at,
+                distance=distance,
             )
         )
     return tuple(items)
+
+
+def _fitting_at(
+    r: _Reader, data: dict[str, Any], where: str, length: Given | None
+) -> tuple[str, Given | None]:
+    """Where along its pipe a fitting's loss is taken: "start", "end" or a distance."""
+    if "at" not in data:
+        return "", None
+    raw = data["at"]
+    if raw in ("start", "end"):
+        return raw, None
+    if not isinstance(raw, str) or not re.match(r"\s*[-+.\d]", raw):
+        r.problem(
+            f"{where}.at",
+            f'Give "start", "end" or a distance along the pipe such as "120 m"; got '
+            f"{as_written(raw)}.",
+        )
+        return "", None
+    distance = r.quantity(data, "at", where, "length")
+    if distance is None:
+        return "", None
+    if distance.value < 0.0 or (length is not None and distance.value > length.value):
+        r.problem(
+            f"{where}.at",
+            "A fitting's distance along its pipe must lie between 0 and the pipe's length; got "
+            f"{as_written(raw)}. Give \"start\", \"end\" or a length such as \"120 m\".",
+        )
+        return "", None
+    return "along", distance
 
 
 def _criteria(r: _Reader, data: dict[str, Any]) -> Criteria:

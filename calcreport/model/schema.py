@@ -99,6 +99,8 @@ class Fitting:
     note: str = ""
     other_diameter: Given | None = None  # expander / reducer: the diameter on the other side
     angle: Given | None = None  # expander / reducer: included cone angle (None: sudden)
+    at: str = ""  # where its loss is taken: "start", "end", "along" (at distance); "": default
+    distance: Given | None = None  # with at = "along": distance from the pipe's start
 
     @property
     def label(self) -> str:

@@ -3,7 +3,7 @@
 Velocity
     velocity, velocity_head
 Friction
-    darcy_weisbach
+    darcy_weisbach, friction_share
 Minor losses
     k_total, minor_loss, rated_loss, head_sum
 
@@ -21,6 +21,7 @@ from calcreport.physics.equation import equation, listed, paired
 __all__ = [
     "G",
     "darcy_weisbach",
+    "friction_share",
     "head_sum",
     "k_total",
     "minor_loss",
@@ -140,6 +141,48 @@ def darcy_weisbach(f: Any, L: Any, D: Any, v: Any) -> Any:
     1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, eq. 6.10.
     """
     return f * L / D * v**2 / (2.0 * G)
+
+
+@equation(
+    symbol="h_f,x",
+    text="h_f,x = h_f·x/L",
+    latex=r"h_{f,x} = h_f\,\frac{x}{L}",
+    substitute="{h_f} × {x} / {L}",
+    reference="white_fm",
+)
+def friction_share(h_f: Any, x: Any, L: Any) -> Any:
+    r"""Friction loss over the first length x of a uniform pipe.
+
+    .. math:: h_{f,x} = h_f \frac{x}{L}
+
+    In steady flow through a pipe of one diameter and roughness the friction
+    gradient is uniform, so the loss grows linearly along it.
+
+    Parameters
+    ----------
+    h_f : float
+        Friction loss of the whole pipe [m]
+    x : float
+        Distance from the pipe's start [m]
+    L : float
+        Length of the pipe [m]
+
+    Returns
+    -------
+    h_fx : float
+        Friction loss from the start to x [m]
+
+    Examples
+    --------
+    >>> friction_share(6.0, 150.0, 600.0)
+    1.5
+
+    References
+    ----------
+    1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, sec. 6.4
+       (fully developed pipe flow: the head falls linearly with distance).
+    """
+    return h_f * x / L
 
 
 @equation(

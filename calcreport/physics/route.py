@@ -1,16 +1,17 @@
-"""Pressure along the route: grade lines at pipe ends, limits, maximum pressure.
+"""Pressure along the route: grade lines, node pressures and the highest pressures.
 
-Grade line
-    node_pressure_head, vapour_limit_head
+Node pressure
+    node_pressure_head, vapour_limit_head, elevation_along
 Maximum pressure
     static_pressure, head_to_pressure
 
 The energy line starts at the source surface (its elevation plus its
-gauge pressure head), gains the pump head after the pump and loses each
-pipe's friction along it; a pipe's fitting losses are taken at its
-upstream end, so the pressure at every pipe end is after every loss
-before it. Pressure heads are gauge, in metres of the liquid, with
-g = 9.80665 m/s^2.
+gauge pressure head), gains the pump head between the pump's flanges and
+loses each pipe's friction along it, uniformly. A fitting's loss is taken
+where it stands: an entrance as the liquid enters the pipe, an exit as it
+leaves, any other item at the pipe's start unless the input places it at
+the end or at a distance; at a fitting the pressure is read on both sides.
+Pressure heads are gauge, in metres of the liquid, with g = 9.80665 m/s^2.
 """
 
 from __future__ import annotations
@@ -20,7 +21,13 @@ from typing import Any
 from calcreport.physics.equation import equation
 from calcreport.physics.losses import G
 
-__all__ = ["head_to_pressure", "node_pressure_head", "static_pressure", "vapour_limit_head"]
+__all__ = [
+    "elevation_along",
+    "head_to_pressure",
+    "node_pressure_head",
+    "static_pressure",
+    "vapour_limit_head",
+]
 
 
 @equation(
@@ -69,6 +76,52 @@ def node_pressure_head(z_s: Any, p_s: Any, rho: Any, H: Any, h_L: Any, v: Any, z
        (energy and hydraulic grade lines).
     """
     return z_s + p_s / (rho * G) + H - h_L - v**2 / (2.0 * G) - z
+
+
+@equation(
+    symbol="z_x",
+    text="z_x = z_1 + (z_2 − z_1)·x/L",
+    latex=r"z_x = z_1 + (z_2 - z_1)\,\frac{x}{L}",
+    substitute="{z_1} + ({z_2} − {z_1}) × {x} / {L}",
+    reference="white_fm",
+)
+def elevation_along(z_1: Any, z_2: Any, x: Any, L: Any) -> Any:
+    r"""Centreline elevation at a distance along a straight pipe between its end elevations.
+
+    .. math:: z_x = z_1 + (z_2 - z_1) \frac{x}{L}
+
+    Parameters
+    ----------
+    z_1 : float
+        Centreline elevation at the pipe's start [m]
+    z_2 : float
+        Centreline elevation at the pipe's end [m]
+    x : float
+        Distance from the pipe's start [m]
+    L : float
+        Length of the pipe [m]
+
+    Returns
+    -------
+    z_x : float
+        Centreline elevation at x [m]
+
+    Notes
+    -----
+    The input gives each pipe's end elevations only: between them the pipe is
+    taken as straight (a constant grade).
+
+    Examples
+    --------
+    >>> elevation_along(100.0, 110.0, 25.0, 100.0)
+    102.5
+
+    References
+    ----------
+    1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, sec. 3.7
+       (grade lines over a pipe profile).
+    """
+    return z_1 + (z_2 - z_1) * x / L
 
 
 @equation(

@@ -211,7 +211,8 @@ def applies(name: str, trace: dict[str, Any]) -> bool:
     results = trace.get("results", {})
     if name == "route_pressure":
         nodes = results.get("route", {}).get("nodes", [])
-        return sum(1 for n in nodes if "min_grade" in n) >= 2
+        # A profile needs two points along the pipes; the pump's flanges alone are not one.
+        return sum(1 for n in nodes if "min_grade" in n and n.get("station") != "flange") >= 2
     if name == "energy":
         rows = results.get("energy", {}).get("profile", [])
         return bool(rows) and all("electrical_power" in r for r in rows)

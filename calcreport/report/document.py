@@ -477,7 +477,8 @@ class _Report:
         out.append(self.heading("Checks that are not a pass", 2))
         open_checks = [c for c in self.t["checks"] if c["status"] != "pass"]
         if open_checks:
-            out.append(self.check_table(open_checks))
+            out.append(self.check_table(open_checks, basis=False))
+            out.append(self.p("The basis and source of each check are in the Design checks section."))
         else:
             out.append(self.p("Every design check passes."))
         out.append(self.heading("Open items", 2))
@@ -493,11 +494,23 @@ class _Report:
                 "required, shutoff pressures and motor rating are not determined."
             )
         items += [text(n) for n in self.t["notes"]]
+        reviews = [c for c in open_checks if c["status"] == "review" and c["message"]]
+        # Ratings short of a shutoff pressure: one item naming them all.
+        unconfirmed = [
+            c for c in reviews if c["id"].startswith("pressure_rating.") and "shutoff" in c["message"]
+        ]
         items += [
             f"{text(c['title'])} ({text(c['case'])}): {text(c['message'])}"
-            for c in open_checks
-            if c["status"] == "review" and c["message"]
+            for c in reviews
+            if c not in unconfirmed or len(unconfirmed) == 1
         ]
+        if len(unconfirmed) > 1:
+            names = ", ".join(text(c["title"].split(" on ", 1)[1].rsplit(" within", 1)[0])
+                              for c in unconfirmed)  # fmt: skip
+            items.append(
+                f"Ratings of {names}: within them on the pressures known (see Design checks); "
+                "confirm against the selected pump's shutoff head."
+            )
         for n, item in enumerate(items or ["None."], start=1):
             out.append(self.p(f"{n}. {item}"))
         out.append(self.heading("Conclusion", 2))
@@ -926,7 +939,9 @@ class _Report:
         """C1 and the cases named by the route and surge checks and results."""
         cases = {"C1", self.r.get("surge", {}).get("case", "C1")}
         cases.add(self.r.get("route", {}).get("min_pressure_case", "C1"))
-        cases |= {c["case"] for c in self.t["checks"] if c["id"] in _ROUTE_CHECKS}
+        cases |= {
+            c["case"] for c in self.t["checks"] if c["id"].split(".")[0] in _ROUTE_CHECKS
+        }
         return cases
 
     def route_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
@@ -1202,8 +1217,10 @@ class _Report:
         )
         return out + self.examples(steps)
 
-    def check_table(self, checks: list[dict[str, Any]]) -> Table:
-        rows = [["Status", "Check", "Case", "Value", "Limit", "Basis"]]
+    def check_table(self, checks: list[dict[str, Any]], basis: bool = True) -> Table:
+        """The checks with their values and limits; with ``basis``, each criterion's basis
+        and source (the summary leaves them to the design-checks section)."""
+        rows = [["Status", "Check", "Case", "Value", "Limit", "Basis"][: 6 if basis else 5]]
         extra: list[tuple[Any, ...]] = []
         for n, c in enumerate(checks, start=1):
             unit = (c["value"] or c["limit"] or {"unit": ""})["unit"]
@@ -1231,14 +1248,19 @@ class _Report:
                     value,
                     limit,
                     f"{text(c['basis'])} ({source})",
-                ]
+                ][: 6 if basis else 5]
             )
             extra += [
                 ("BACKGROUND", (0, n), (0, n), style.STATUS_FILL[c["status"]]),
                 ("TEXTCOLOR", (0, n), (0, n), style.STATUS_INK[c["status"]]),
             ]
         w = self.width
-        table = self.table(rows, [w * 0.09, w * 0.25, w * 0.06, w * 0.11, w * 0.12, w * 0.37])
+        widths = (
+            [w * 0.09, w * 0.25, w * 0.06, w * 0.11, w * 0.12, w * 0.37]
+            if basis
+            else [w * 0.09, w * 0.55, w * 0.08, w * 0.13, w * 0.15]
+        )
+        table = self.table(rows, widths)
         for n, c in enumerate(checks, start=1):
             table._cellvalues[n][0] = Paragraph(
                 f"<font color='{'white' if c['status'] == 'fail' else 'black'}'><b>"
