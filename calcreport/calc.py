@@ -206,7 +206,8 @@ def solve(model: Model) -> Trace:
         results["surge"] = surge
     results["route"] = route.envelope(states, top_curve, notes)
     if surge:
-        surge["rise_checked"] = "rating_check" in results["route"]
+        for event in [surge, *surge.get("events", {}).values()]:
+            event["rise_checked"] = "rating_check" in results["route"]
     if motor_rating:
         results["motor"] = _motor_loading(motor_rating, {**by_case, **profile})
     thermal = _thermal_min_flow(b, model, liquid, curve, notes)

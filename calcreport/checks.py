@@ -141,7 +141,8 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
     route = results.get("route", {})
     found += [_pressure_rating(model, rated) for rated in route.get("ratings", [])]
     if "surge" in results:
-        found.append(_surge(results["surge"]))
+        events = results["surge"].get("events") or {"": results["surge"]}
+        found += [_surge(ev) for ev in events.values()]
     motor = results.get("motor", {})
     site = _motor_site(model, motor)
     if site:
@@ -663,17 +664,18 @@ def _surge(result: dict[str, Any]) -> Check:
         status, value, limit, comparison = "review", result["head_rise"]["value"], None, "known"
     unit = "s" if result["event"] == "valve_closure" and value is not None else "m"
     return Check(
-        id="surge",
+        id=f"surge.{result['event']}",
         title="Surge screening (" + result["event"].replace("_", " ") + ")",
         status=status,
         value=value,
         unit=unit,
         limit=limit,
         comparison=comparison,
-        basis="Joukowsky head change a·Δv/g with the Korteweg wave speed; a screening that "
-        "trips (column separation, sub-atmospheric downsurge, closure within 2L/a) requires a "
-        "detailed transient analysis",
-        reference="wylie_streeter_1993",
+        basis="Joukowsky head change of the line's pipes in series with the Korteweg wave "
+        "speed; a pump trip is screened on every pumped line; a screening that trips (column "
+        "separation, sub-atmospheric downsurge, closure within 2L/a) requires a detailed "
+        "transient analysis",
+        reference="series_pipes_surge",
         case=result.get("case", "all"),
         message=verdict,
     )

@@ -24,7 +24,7 @@ from dataclasses import dataclass
 from functools import cached_property
 from typing import TYPE_CHECKING, Any
 
-from calcreport.model.schema import Fitting, Given, Model, Pipe
+from calcreport.model.schema import Fitting, Given, Model, Pipe, Surge
 from calcreport.physics import head, losses, pump, route, surge, water
 from calcreport.trace import TraceBuilder, quantity
 
@@ -296,8 +296,9 @@ class Route:
         self._heads: dict[tuple[str, str], Given] = {}
         self._vapour: dict[str, Given] = {}
         self._elevations: dict[str, Given] = {}
-        self.rises: dict[str, Given] = {}  # surge head change by pipe, once screened
-        self.surge_case = ""
+        # Surge head change by pipe for each (event, state), once screened.
+        self.rises: dict[tuple[str, str], dict[str, Given]] = {}
+        self.downsurge = ""  # the state whose pump-trip downsurge is the lowest
         self.label = _label(model)
 
     # -- one state -----------------------------------------------------------
@@ -521,12 +522,8 @@ class Route:
                 for st in states.values()
             )
             if self.rises:
-                sst = states[self.surge_case]
-                entry["surge"] = (
-                    sst.liquid.density.value
-                    * losses.G
-                    * (_head_at(sst, n["name"]) + self.rises[n["pipe"]].value)
-                )
+                key = max(self.rises, key=lambda k: self._upsurge(states, k, n))
+                entry["surge"], entry["surge_key"] = self._upsurge(states, key, n), key
             candidates = {k: entry[k] for k in ("static", "surge", "operating") if k in entry}
             entry["basis"] = max(candidates, key=lambda k: candidates[k])
             entry["max"] = candidates[entry["basis"]]
@@ -623,10 +620,16 @@ class Route:
             )
         return out
 
+    def _upsurge(self, states: dict[str, State], key: tuple[str, str], node: dict[str, Any]) -> float:
+        """The pressure at ``node`` when the upsurge of (event, state) ``key`` passes it."""
+        st = states[key[1]]
+        rise = self.rises[key][node["pipe"]].value
+        return float(st.liquid.density.value * losses.G * (_head_at(st, node["name"]) + rise))
+
     def _basis_state(self, states: dict[str, State], point: dict[str, Any]) -> str:
         """The state that sets a point's highest pressure ("all" for the no-flow static)."""
         if point["basis"] == "surge":
-            return self.surge_case
+            return str(point["surge_key"][1])
         if point["basis"] == "operating":
             return self._operating_state(states, point["node"]).case.id
         return "all"
@@ -659,8 +662,9 @@ class Route:
         vapour = self._vapour.get("C1")
         if vapour is not None:
             entry["vapour_grade"] = quantity(z + vapour.value, "m")
-        if self.rises and self.surge_case and node["side"] == "discharge":
-            down = _head_at(states[self.surge_case], p["node"]) - self.rises[node["pipe"]].value
+        if self.downsurge and node["side"] == "discharge":
+            rise = self.rises[("pump_trip", self.downsurge)][node["pipe"]].value
+            down = _head_at(states[self.downsurge], p["node"]) - rise
             # The liquid cannot fall below its vapour pressure: there the column parts.
             if vapour is not None and down <= vapour.value:
                 down, entry["column_separation"] = vapour.value, True
@@ -753,14 +757,15 @@ class Route:
                 z=self.elevation(node),
             )
         if point["basis"] == "surge":
-            st = states[self.surge_case]
+            event, state = point["surge_key"]
+            st = states[state]
             h_up = b.step(
                 st.case.sid(f"{where}.upsurge_head"),
-                f"Pressure head at {name} during the upsurge",
+                f"Pressure head at {name} during the upsurge ({event.replace('_', ' ')})",
                 surge.transient_pressure_head,
                 st.case.id,
                 h=self.node_head(st, node),
-                dH=self.rises[node["pipe"]],
+                dH=self.rises[point["surge_key"]][node["pipe"]],
                 s=b.assume("An upsurge adds the head change (s = +1).", 1.0, ""),
             )
             return b.step(
@@ -784,34 +789,45 @@ class Route:
     # -- surge ---------------------------------------------------------------
 
     def surge_screening(self, states: dict[str, State], notes: list[str]) -> dict[str, Any] | None:
-        """Wave speed, period and head change of every pipe for the event in [surge]."""
+        """Every credible event screened over every state: a pump trip always (power can
+        fail on any pumped line), and the event that [surge] names.
+
+        The line (pump to destination) is screened as the pipes in series it is: its head
+        change is that of the equivalent pipe, and a pipe whose own period is short
+        against the event does not set it by its own a·v/g. The suction pipes form their
+        own line. The result holds each event; its verdict is the worst.
+        """
         model, b = self.model, self.b
-        event = model.surge
-        if event is None:
-            notes.append(
-                "Surge is not screened: add a [surge] table (pump_trip or valve_closure) for a "
-                "screening of the worst event; a rising main needs a surge assessment."
+        stop = model.surge.pump_stop_time if model.surge else None
+        events = [Surge("pump_trip", stop, stop)]
+        if model.surge is not None and model.surge.event != "pump_trip":
+            events.append(model.surge)
+        elif model.surge is None:
+            b.assume(
+                "A pump trip (power failure) is screened on every pumped line, whether or not "
+                "the input names a surge event."
             )
-            return None
-        st = max(states.values(), key=lambda s: s.case.flow.value)
-        case, sid = st.case, st.case.sid
-        out: dict[str, Any] = {"event": event.event, "case": case.id}
-        K = self._bulk_modulus(st)
+        base = max(states.values(), key=lambda s: s.case.flow.value)
+        case, sid = base.case, base.case.sid
+        K = self._bulk_modulus(base)
         if K is None:
             notes.append(
                 "Surge is not screened: the liquid's bulk modulus is not known; give "
                 "fluid.bulk_modulus."
             )
-            out["screened"] = False
-            out["verdict"] = "not screened: give fluid.bulk_modulus"
-            return out
-        out["bulk_modulus"] = _q(K)
+            return {
+                "event": events[-1].event,
+                "case": case.id,
+                "screened": False,
+                "verdict": "not screened: give fluid.bulk_modulus",
+                "events": {},
+            }
         pipes: dict[str, dict[str, Any]] = {}
         speeds: dict[str, Given] = {}
-        rises: dict[str, Given] = {}
+        periods: dict[str, Given] = {}
         for pipe in model.pipes:
-            a = self._wave_speed(st, pipe, K)
-            T = b.step(
+            a = self._wave_speed(base, pipe, K)
+            periods[pipe.id] = b.step(
                 sid(f"surge.{pipe.id}.period"),
                 f"Pipe period of {pipe.id}",
                 surge.pipe_period,
@@ -819,16 +835,20 @@ class Route:
                 L=pipe.length,
                 a=a,
             )
-            dH = b.step(
+            own = b.step(
                 sid(f"surge.{pipe.id}.joukowsky_head"),
-                f"Joukowsky head change in {pipe.id} (flow stopped at once)",
+                f"Joukowsky head change in {pipe.id} alone (its flow stopped at once)",
                 surge.joukowsky_head,
                 case.id,
                 a=a,
-                dv=st.h["pipes"][pipe.id]["velocity"],
+                dv=base.h["pipes"][pipe.id]["velocity"],
             )
-            speeds[pipe.id], rises[pipe.id] = a, dH
-            pipes[pipe.id] = {"wave_speed": _q(a), "period": _q(T), "joukowsky_head": _q(dH)}
+            speeds[pipe.id] = a
+            pipes[pipe.id] = {
+                "wave_speed": _q(a),
+                "period": _q(periods[pipe.id]),
+                "joukowsky_head": _q(own),
+            }
         line = [p for p in model.pipes if p.line == "discharge"] or list(model.pipes)
         T_line = b.step(
             sid("surge.line_period"),
@@ -838,51 +858,151 @@ class Route:
             L=[p.length for p in line],
             a=[speeds[p.id] for p in line],
         )
-        out["line_period"] = _q(T_line)
-        if event.event == "valve_closure":
-            assert event.closure_time is not None
+        # The pipe that holds most of the line's travel time: its impedance governs.
+        governing = max(line, key=lambda p: p.length.value / speeds[p.id].value)
+        screened = {
+            event.event: self._screen_event(event, states, speeds, periods, T_line, line)
+            for event in events
+        }
+        for ev in screened.values():
+            ev["governing_pipe"] = governing.id
+            ev["verdict"] = _verdict(ev, model.project.units)
+            rises = self.rises[(ev["event"], ev["case"])]
+            ev["pipes"] = {p.id: {"head_change": _q(rises[p.id])} for p in model.pipes}
+        worst = min(screened.values(), key=_severity)
+        key = (worst["event"], worst["case"])
+        for pipe in model.pipes:
+            pipes[pipe.id]["head_change"] = _q(self.rises[key][pipe.id])
+        out: dict[str, Any] = {
+            **{k: v for k, v in worst.items() if k != "pipes"},
+            "bulk_modulus": _q(K),
+            "line_period": _q(T_line),
+            "wave_speed": _q(speeds[governing.id]),
+            "period": pipes[governing.id]["period"],
+            "pipes": pipes,
+            "events": screened,
+            "method": "pipes in series as one line (equivalent pipe of the same travel time and "
+            "inertia); Joukowsky for a change within the line period, Michaud's estimate for a "
+            "slower valve closure",
+        }
+        if len(screened) > 1:
+            out["verdict"] = " ".join(ev["verdict"] for ev in screened.values())
+        return out
+
+    def _screen_event(
+        self,
+        event: Surge,
+        states: dict[str, State],
+        speeds: dict[str, Given],
+        periods: dict[str, Given],
+        T_line: Given,
+        line: list[Pipe],
+    ) -> dict[str, Any]:
+        """One event in every state: the head change of the line and of the suction pipes,
+        each pipe's rise kept in ``self.rises`` by (event, state); the downsurge of a trip."""
+        b, model = self.b, self.model
+        name = event.event
+        suction = [p for p in model.suction_pipes if p not in line]
+        out: dict[str, Any] = {"event": name, "line_period": _q(T_line)}
+        # A trip stops the flow in pump_stop_time (the screened event's closure_time here).
+        if name == "pump_trip" and event.closure_time is None:
+            b.assume(
+                "Pump trip: with no surge.pump_stop_time the pump's flow is taken to stop "
+                "within the line's period 2·Σ(L/a) (the upper bound), so the head change is "
+                "that of the line's pipes in series; a pipe whose own period is shorter does "
+                "not set it by its own a·v/g."
+            )
+        slow = False
+        if event.closure_time is not None:
             out["closure_time"] = _q(event.closure_time)
-            if event.closure_time.value > T_line.value:
-                for pipe in model.pipes:
-                    rises[pipe.id] = b.step(
-                        sid(f"surge.{pipe.id}.head_change"),
-                        f"Head rise in {pipe.id} for the closure in {event.closure_time.value:g} s",
+            slow = event.closure_time.value > T_line.value
+        tag = name.replace("_", "")
+        for st in states.values():
+            sid, cid, h = st.case.sid, st.case.id, st.h
+            rises: dict[str, Given] = {}
+            for pipes, part in ((line, "line"), (suction, "suction")):
+                if not pipes:
+                    continue
+                label = "pumped line" if part == "line" else "suction pipes"
+                dH = b.step(
+                    sid(f"surge.{tag}.{part}_head"),
+                    f"Head change of the {label} in series ({name.replace('_', ' ')})",
+                    surge.series_joukowsky_head,
+                    cid,
+                    L=[p.length for p in pipes],
+                    v=[h["pipes"][p.id]["velocity"] for p in pipes],
+                    a=[speeds[p.id] for p in pipes],
+                )
+                if slow:
+                    assert event.closure_time is not None
+                    dH = b.step(
+                        sid(f"surge.{tag}.{part}_head_change"),
+                        f"Head change of the {label} for a "
+                        + ("closure" if name == "valve_closure" else "stop")
+                        + f" in {event.closure_time.value:g} s",
                         surge.slow_closure_head,
-                        case.id,
-                        dH_J=rises[pipe.id],
+                        cid,
+                        dH_J=dH,
                         T_r=T_line,
                         t_c=event.closure_time,
                     )
-        for pipe in model.pipes:
-            pipes[pipe.id]["head_change"] = _q(rises[pipe.id])
-        governing = max(model.pipes, key=lambda p: rises[p.id].value)
-        out.update(
-            pipes=pipes,
-            governing_pipe=governing.id,
-            wave_speed=_q(speeds[governing.id]),
-            period=pipes[governing.id]["period"],
-            head_rise=_q(rises[governing.id]),
-        )
-        self.rises, self.surge_case = rises, case.id
-        if event.event == "pump_trip":
-            line_nodes = _line_nodes(model, st.profile["nodes"])
-            if line_nodes:
-                low = min(line_nodes, key=lambda n: n["pressure_head"] - rises[n["pipe"]].value)
-                where = self._where(low)
+                for p in pipes:
+                    rises[p.id] = dH
+            if event.closure_time is not None and not slow:
+                # A change within a pipe's own period gives that pipe its own a·v/g.
+                for p in line:
+                    if event.closure_time.value <= periods[p.id].value:
+                        own = b.step(
+                            sid(f"surge.{tag}.{p.id}.own_head"),
+                            f"Joukowsky head change in {p.id} (closure within its period)",
+                            surge.joukowsky_head,
+                            cid,
+                            a=speeds[p.id],
+                            dv=h["pipes"][p.id]["velocity"],
+                        )
+                        if own.value > rises[p.id].value:
+                            rises[p.id] = own
+            self.rises[(name, cid)] = rises
+        largest = max(states.values(), key=lambda st: self._line_rise(name, st, line))
+        out["case"] = largest.case.id
+        out["head_rise"] = _q(self._line_rise_given(name, largest, line))
+        if name == "pump_trip":
+            low = [
+                (st, n)
+                for st in states.values()
+                for n in _line_nodes(model, st.profile["nodes"])
+            ]
+            if low:
+                st, node = min(
+                    low,
+                    key=lambda sn: sn[1]["pressure_head"]
+                    - self.rises[(name, sn[0].case.id)][sn[1]["pipe"]].value,
+                )
                 h_down = b.step(
-                    sid(f"{where}.downsurge_head"),
-                    f"Pressure head at {low['name']} during the downsurge",
+                    st.case.sid(f"{self._where(node)}.downsurge_head"),
+                    f"Pressure head at {node['name']} during the downsurge",
                     surge.transient_pressure_head,
-                    case.id,
-                    h=self.node_head(st, low),
-                    dH=rises[low["pipe"]],
+                    st.case.id,
+                    h=self.node_head(st, node),
+                    dH=self.rises[(name, st.case.id)][node["pipe"]],
                     s=b.assume("A downsurge takes the head change away (s = −1).", -1.0, ""),
                 )
-                out["min_transient_pressure_head"] = _q(h_down)
-                out["min_transient_node"] = low["name"]
-                out["vapour_head"] = _q(self.vapour_head(st))
-        out["verdict"] = _verdict(out, model.project.units)
+                self.downsurge = st.case.id
+                out.update(
+                    case=st.case.id,
+                    head_rise=_q(self.rises[(name, st.case.id)][node["pipe"]]),
+                    min_transient_pressure_head=_q(h_down),
+                    min_transient_node=node["name"],
+                    vapour_head=_q(self.vapour_head(st)),
+                )
         return out
+
+    def _line_rise_given(self, event: str, st: State, line: list[Pipe]) -> Given:
+        rises = self.rises[(event, st.case.id)]
+        return max((rises[p.id] for p in line), key=lambda g: g.value)
+
+    def _line_rise(self, event: str, st: State, line: list[Pipe]) -> float:
+        return float(self._line_rise_given(event, st, line).value)
 
     def _bulk_modulus(self, st: State) -> Given | None:
         fluid, b, case = self.model.fluid, self.b, st.case
@@ -1005,6 +1125,21 @@ def _high_points(nodes: list[dict[str, Any]]) -> list[dict[str, Any]]:
     return found
 
 
+def _severity(out: dict[str, Any]) -> tuple[int, float]:
+    """How bad a screened event is: column separation, then a trip of the screening
+    (sub-atmospheric, a closure within the period, no route to set it against), then a
+    pass; between equals the larger head change."""
+    rise = -float(out["head_rise"]["value"])
+    if "min_transient_pressure_head" in out:
+        h = out["min_transient_pressure_head"]["value"]
+        if h <= out["vapour_head"]["value"]:
+            return 0, rise
+        return (1 if h < 0.0 else 2), rise
+    if out["event"] == "valve_closure":
+        return (1 if out["closure_time"]["value"] <= out["line_period"]["value"] else 2), rise
+    return 1, rise
+
+
 def _verdict(out: dict[str, Any], system: str) -> str:
     """One sentence: what the screening found and what it asks for (heads in ``system``'s
     units)."""
@@ -1014,41 +1149,48 @@ def _verdict(out: dict[str, Any], system: str) -> str:
         return show({"value": value, "unit": "m"}, "length", system)
 
     rise = out["head_rise"]["value"]
-    pipe = out["governing_pipe"]
+    pipe = f"the line, governed by pipe {out['governing_pipe']}"
     if out["event"] == "valve_closure":
         t_c, T = out["closure_time"]["value"], out["line_period"]["value"]
         if t_c <= T:
             return (
                 f"Valve closure in {t_c:g} s is within the line period {T:.3g} s: the full "
-                f"Joukowsky rise of {m(rise)} applies (pipe {pipe}). A detailed transient "
+                f"Joukowsky rise of {m(rise)} applies ({pipe}). A detailed transient "
                 "analysis is required."
             )
         return (
             f"Valve closure in {t_c:g} s is slower than the line period {T:.3g} s: an "
-            f"estimated rise of {m(rise)} (pipe {pipe}). The estimate assumes a linear "
+            f"estimated rise of {m(rise)} ({pipe}). The estimate assumes a linear "
             "effective closure; confirm with the valve's characteristic."
         )
+    trip = (
+        f"Pump trip (flow stopped in {out['closure_time']['value']:g} s)"
+        if "closure_time" in out
+        else "Pump trip (flow stopped at once)"
+    )
     if "min_transient_pressure_head" not in out:
         return (
-            f"Pump trip: a head change of up to {m(rise)} (pipe {pipe}); the downsurge is "
+            f"{trip}: a head change of up to {m(rise)} ({pipe}); the downsurge is "
             "not set against the route (no pipe elevations given)."
         )
     h = out["min_transient_pressure_head"]["value"]
     node = out["min_transient_node"]
     if h <= out["vapour_head"]["value"]:
         return (
-            f"Pump trip: the downsurge of up to {m(rise)} takes {node} to vapour pressure: "
+            f"{trip}: the downsurge of up to {m(rise)} ({pipe}) takes {node} to vapour "
+            "pressure: "
             "column separation is likely. A detailed transient analysis and surge protection "
             "are required."
         )
     if h < 0.0:
         return (
-            f"Pump trip: the downsurge takes {node} below atmospheric pressure "
+            f"{trip}: the downsurge takes {node} below atmospheric pressure "
             f"({m(h)} gauge): air valves would admit air. A detailed transient analysis "
             "is required."
         )
     return (
-        f"Pump trip: the downsurge of up to {m(rise)} keeps every pipe end above "
+        f"{trip}: the downsurge of up to {m(rise)} keeps every pipe end above "
         f"atmospheric pressure (lowest {m(h)} gauge at {node}). Screening passes; it "
-        "neglects pump inertia, friction and reflections."
+        "neglects friction and reflections"
+        + ("." if "closure_time" in out else ", and the pump's inertia (the upper bound).")
     )

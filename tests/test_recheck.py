@@ -151,12 +151,21 @@ def test_changed_input_that_was_not_propagated(pump: dict[str, Any]):
     found = mismatched(recheck(pump))
     assert set(found) == users(pump, key)
     # The friction loss of the design case, two other cases and the three points of the
-    # duty profile, and the surge screening of the highest-flow case (pipe and line period).
+    # duty profile; the surge screening's pipe and line periods (at the highest-flow case);
+    # and the head change of the line in series, in every state, for each event screened.
     friction = [k for k in found if k.endswith("friction_loss")]
     assert len(friction) == 6
-    assert set(found) - set(friction) == {"C3.surge.D1.period", "C3.surge.line_period"}
-    assert found["C3.surge.line_period"] == ["argument L[1]"]
-    assert all(what == ["argument L"] for k, what in found.items() if k != "C3.surge.line_period")
+    states = ["C1", "C2", "C3", "P1", "P2", "P3"]
+    line = {
+        f"{'' if s == 'C1' else s + '.'}surge.{event}.line_head"
+        for s in states
+        for event in ("pumptrip", "valveclosure")
+    }
+    assert set(found) - set(friction) == {"C3.surge.D1.period", "C3.surge.line_period"} | line
+    for k in {"C3.surge.line_period"} | line:
+        assert found[k] == ["argument L[1]"]
+    assert all(what == ["argument L"] for k, what in found.items() if k not in line
+               and k != "C3.surge.line_period")  # fmt: skip
 
 
 def test_changed_solver_value(pump: dict[str, Any]):

@@ -322,7 +322,7 @@ def test_route_pressures_and_surge_are_reported(built):
     assert "transient analysis" in text
     # Every check the route and surge produced is printed with its status.
     ids = {c["id"]: c for c in trace["checks"]}
-    assert {"min_pressure", "surge"} <= set(ids)
+    assert {"min_pressure", "surge.pump_trip"} <= set(ids)
     assert f"{surge['head_rise']['value']:.4g} m" in text
     # One entry per rated item, each printed: the valve and the air valve both over theirs.
     rated = {i: c for i, c in ids.items() if i.startswith("pressure_rating.")}

@@ -145,7 +145,7 @@ _PIPE_KEYS = {
 RESTRAINTS = ("anchored", "upstream_anchor", "expansion_joints")
 _COMPONENT_KEYS = {"id", "at", "pressure_rating", "note"}
 SURGE_EVENTS = ("pump_trip", "valve_closure")
-_SURGE_KEYS = {"event", "closure_time"}
+_SURGE_KEYS = {"event", "closure_time", "pump_stop_time"}
 FRICTION_METHODS = ("darcy_weisbach", "hazen_williams")
 FITTINGS_METHODS = ("two_k", "three_k")
 _FITTING_KEYS = {"K", "count", "note", "kind", "dp", "at_flow", "other_diameter", "angle", "at"}
@@ -1472,10 +1472,11 @@ def _surge(r: _Reader, data: dict[str, Any]) -> Surge | None:
     if event == "pump_trip" and "closure_time" in table:
         r.problem(
             "surge.closure_time",
-            'closure_time applies to event = "valve_closure"; a pump trip is screened '
-            "as a sudden stop.",
+            'closure_time applies to event = "valve_closure"; for a pump trip give '
+            'pump_stop_time, the time its flow takes to stop.',
         )
-    return Surge(event, closure)
+    stop = r.quantity(table, "pump_stop_time", "surge", "time", positive=True)
+    return Surge(event, closure, stop)
 
 
 def _material_name(data: dict[str, Any]) -> str:

@@ -155,6 +155,8 @@ class Surge:
 
     event: str = "pump_trip"  # pump_trip | valve_closure
     closure_time: Given | None = None
+    # How long a pump trip takes to stop the flow (pump and motor inertia); None: at once.
+    pump_stop_time: Given | None = None
 
 
 @dataclass(frozen=True)

@@ -6,11 +6,13 @@ Wave speed
 Timing
     pipe_period, line_period
 Head change
-    joukowsky_head, slow_closure_head, transient_pressure_head
+    joukowsky_head, series_joukowsky_head, slow_closure_head, transient_pressure_head
 
 A screening, not a transient analysis: the flow is taken to stop at once
 (Joukowsky) or, for a valve closing more slowly than the line's period,
-linearly over the closing time (Michaud's estimate). Friction, pump
+linearly over the closing time (Michaud's estimate). Pipes in series are
+screened as the one line they form: a pipe whose period is short against
+the event does not set the head change by its own impedance. Friction, pump
 inertia, wave reflections and column separation are not modelled; where
 the screening trips a limit a detailed transient analysis is required.
 """
@@ -29,6 +31,7 @@ __all__ = [
     "line_period",
     "pipe_period",
     "rigid_wave_speed",
+    "series_joukowsky_head",
     "slow_closure_head",
     "transient_pressure_head",
     "upstream_anchor_restraint_factor",
@@ -306,6 +309,69 @@ def joukowsky_head(a: Any, dv: Any) -> Any:
        Mémoires de l'Académie Impériale des Sciences de St.-Pétersbourg, 1900.
     """
     return a * dv / G
+
+
+def _series_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    momentum = paired("L", "m", "×", "v", "m/s")(values, result, fmt)
+    travel = paired("L", "m", "/", "a", "m/s")(values, result, fmt)
+    return f"({momentum}) / (9.80665 m/s² × ({travel}))"
+
+
+@equation(
+    symbol="ΔH_line",
+    text="ΔH_line = Σ(L_i·v_i) / (g·Σ(L_i/a_i))",
+    latex=r"\Delta H_{line} = \frac{\sum_i L_i v_i}{g \sum_i L_i / a_i}",
+    substitute=_series_text,
+    reference="series_pipes_surge",
+)
+def series_joukowsky_head(L: Any, v: Any, a: Any) -> Any:
+    r"""Joukowsky head change of pipes in series stopped as one line.
+
+    .. math:: \Delta H_{line} = \frac{\sum_i L_i v_i}{g \sum_i L_i / a_i}
+
+    The line is replaced by its equivalent pipe, which keeps the line's wave
+    travel time Σ L_i/a_i and its inertia Σ L_i/A_i; its Joukowsky change
+    a_e·v_e/g is the expression above. For one pipe it is a·v/g.
+
+    Parameters
+    ----------
+    L : list of float
+        Lengths of the pipes [m]
+    v : list of float
+        Mean velocities before the event, in the same order [m/s]
+    a : list of float
+        Wave speeds of the pipes, in the same order [m/s]
+
+    Returns
+    -------
+    dH : float
+        Head change of the line for its flow stopped within its period [m]
+
+    Notes
+    -----
+    A short, stiff pipe (a pump header, a suction pipe) carries the wave
+    back and forth many times while a long main decelerates: its own a·v/g
+    applies only to an event faster than its own period 2L/a. The
+    equivalent pipe lets the long main's impedance govern, as measured on
+    steel pipes joined to plastic mains (ref. 2).
+
+    Examples
+    --------
+    >>> round(series_joukowsky_head([30.0, 1000.0], [2.0, 1.0], [1300.0, 300.0]), 2)
+    32.2
+
+    References
+    ----------
+    1. Wylie, E. B., and Streeter, V. L., Fluid Transients in Systems,
+       Prentice Hall, 1993, sec. 3.6 (series pipes; equivalent pipe of the
+       same travel time and inertia, from memory).
+    2. Kubrak, M., Kodura, A., Malesińska, A., and Urbanowicz, K., "Water
+       Hammer in Steel–Plastic Pipes Connected in Series", Water 14(19),
+       3107, 2022, doi:10.3390/w14193107.
+    """
+    momentum = sum(length * speed for length, speed in zip(L, v, strict=True))
+    travel = sum(length / wave for length, wave in zip(L, a, strict=True))
+    return momentum / (G * travel)
 
 
 @equation(

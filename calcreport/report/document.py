@@ -1114,13 +1114,17 @@ class _Report:
         if "pipes" in result:
             length = pretty_unit(display_unit("length", self.system))
             speed = pretty_unit(display_unit("velocity", self.system))
+            events = result.get("events", {})
             rows = [
                 [
                     "Pipe",
                     f"Wave speed a [{speed}]",
                     "Period 2L/a [s]",
-                    f"Joukowsky a·v/g [{length}]",
-                    f"Head change [{length}]",
+                    f"Joukowsky a·v/g alone [{length}]",
+                    *(
+                        f"Head change, {name.replace('_', ' ')} ({ev['case']}) [{length}]"
+                        for name, ev in events.items()
+                    ),
                 ]
             ]
             for ident, p in list(result["pipes"].items())[:MAX_NODE_ROWS]:
@@ -1130,24 +1134,31 @@ class _Report:
                         self.num(p["wave_speed"], "velocity"),
                         fmt(p["period"]["value"], 4),
                         self.num(p["joukowsky_head"], "length"),
-                        self.num(p["head_change"], "length"),
+                        *(self.num(ev["pipes"][ident]["head_change"], "length")
+                          for ev in events.values()),
                     ]
-                )
+                )  # fmt: skip
             w = self.width
-            out.append(self.table(rows, [w * 0.16, w * 0.21, w * 0.21, w * 0.21, w * 0.21]))
-        event = result.get("event", "").replace("_", " ")
-        out.append(
-            self.p(
-                f"<b>Event:</b> {text(event)}, case {text(result.get('case', ''))} (the "
-                f"highest flow). <b>Verdict:</b> {text(result.get('verdict', ''))}"
+            n = len(rows[0])
+            out.append(self.table(rows, [w * 0.16] + [w * 0.84 / (n - 1)] * (n - 1)))
+        for name, ev in (result.get("events") or {"": result}).items():
+            event = (name or result.get("event", "")).replace("_", " ")
+            out.append(
+                self.p(
+                    f"<b>Event:</b> {text(event)}, state {text(ev.get('case', ''))}. "
+                    f"<b>Verdict:</b> {text(ev.get('verdict', ''))}"
+                )
             )
-        )
         out.append(
             self.p(
-                "The screening takes the flow to stop at once (a valve closing slower than the "
-                "line period: linearly over its closing time) and neglects friction, pump "
-                "inertia and wave reflections. It is not a transient analysis: where it trips "
-                "a limit, a detailed transient analysis is required before the design is "
+                "A pump trip (a power failure can happen on any pumped line) is screened "
+                "always, with any event the input names. The line's pipes are screened in "
+                "series as one line (the equivalent pipe of the same travel time and inertia), "
+                "so a short, stiff pipe does not set the head change by its own a·v/g; the "
+                "flow stops at once, or in surge.pump_stop_time (a valve closing slower than "
+                "the line period: linearly over its closing time); friction and wave "
+                "reflections are neglected. It is not a transient analysis: where it trips a "
+                "limit, a detailed transient analysis is required before the design is "
                 "accepted.",
                 self.s.small,
             )
