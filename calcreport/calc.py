@@ -740,12 +740,13 @@ def _intake(b: TraceBuilder, model: Model, case: Case, h: dict[str, Any]) -> dic
     D = model.source.intake_diameter or first.inner_diameter
     v = h["pipes"][first.id]["velocity"]
     if model.source.intake_diameter is not None:
+        # Each pump's own suction branch has an intake of its own, carrying that pump's flow.
         v = b.step(
             case.sid("intake.velocity"),
-            "Velocity at the intake bell",
+            "Velocity at the intake bell" + (" (each pump's own)" if first.branch else ""),
             losses.velocity,
             case.id,
-            Q=case.flow,
+            Q=h["branch_flow"] if first.branch else case.flow,
             D=D,
         )
     S = b.step(
@@ -1804,6 +1805,7 @@ def _hydraulics(
     out: dict[str, Any] = {
         "pipes": pipes,
         "fittings": {ident: items for ident, (_, items) in solved.items()},
+        "branch_flow": q_branch,
     }
     out["static_head"] = ev.step(
         sid("system.static_head"),

@@ -254,6 +254,30 @@ def test_each_pumps_branch_carries_its_own_flow():
     assert abs(t.step("pump.head_balance").value) < 1e-8
 
 
+def test_each_pumps_own_intake_carries_its_own_flow():
+    # Two pumps in parallel, each drawing from the sump through its own suction branch
+    # with a 300 mm bell: each bell carries Q/2. ANSI/HI 9.8-1998 eq. 9.8-1 as above.
+    from test_calc import _analytic_curve
+
+    text = (
+        CASE.replace("efficiency = 0.78\n", "count = 2\n")
+        .replace('side = "suction"', 'side = "suction_branch"')
+        .replace("[source]\n", '[source]\nintake_diameter = "300 mm"\n')
+        .replace(
+            'fittings = [{ K = 0.5, note = "entrance" }',
+            'elevation_start = "0.4 m"\nelevation_end = "0 m"\n'
+            'fittings = [{ K = 0.5, note = "entrance" }',
+        )
+    )
+    t = solve(loads((text + _analytic_curve()).encode()))
+    Q = t.results["flow"]["value"]
+    vb = (Q / 2) / (3.141592653589793 * 0.3**2 / 4)
+    assert t.step("intake.velocity").value == pytest.approx(vb, rel=1e-12)
+    assert t.results["intake"]["minimum_submergence"]["value"] == pytest.approx(
+        0.3 * (1 + 2.3 * vb / (G * 0.3) ** 0.5), rel=1e-12
+    )
+
+
 def test_branches_must_follow_flow_order():
     # A branch after the discharge line it feeds.
     text = CASE.replace('side = "discharge"', 'side = "discharge_branch"').replace(
