@@ -70,6 +70,9 @@ class Case:
     temperature: Given | None = None  # liquid temperature, when not the fluid's own
     speed: Given | None = None  # pump speed, when not the operating speed
     pipes: tuple[Pipe, ...] | None = None  # the pipes as in this case (aged, dirty strainer)
+    # The crest that controls the flow in this state: (pipe id, station, distance, node name);
+    # the pump lifts to it, the line beyond runs part-full.
+    crest: tuple[str, str, float, str] | None = None
 
     def sid(self, step: str) -> str:
         """Step id within this case (the design case C1 has plain ids)."""
@@ -161,7 +164,25 @@ def solve(model: Model) -> Trace:
     route = safety.Route(b, model)
     states: dict[str, safety.State] = {}
     design_curve = curve
-    for case in cases:
+
+    def run(case: Case, case_liquid: Liquid, case_surfaces: Any) -> dict[str, Any]:
+        """One case solved, routed and checked (its state kept in ``states``)."""
+        case_model = replace(model, pipes=case.pipes) if case.pipes else model
+        case_curve, correction = _viscous(
+            b, model, case_curves.get(case.id, curve), case, case_liquid, corrected, notes
+        )
+        result = _solve_case(
+            b, case_model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
+        )
+        if correction:
+            result["viscous_correction"] = correction
+        case_route = route.case_route(states[case.id])
+        if case_route:
+            result["route"] = case_route
+        found.extend(checks.evaluate(model, result, case.id))
+        return result
+
+    for case in list(cases):
         case_liquid, case_surfaces = liquid, surfaces
         if case.temperature is not None:
             prefix = f"{case.id}."
@@ -172,28 +193,37 @@ def solve(model: Model) -> Trace:
                 _surface_pressure(b, model.destination, case_liquid, p_baro, prefix),
                 exit_head,
             )
-        case_model = replace(model, pipes=case.pipes) if case.pipes else model
-        case_curve, correction = _viscous(
-            b, model, case_curves.get(case.id, curve), case, case_liquid, corrected, notes
-        )
         if case.id == "C1":
-            design_curve = case_curve
-        result = _solve_case(
-            b, case_model, case, case_liquid, case_surfaces, case_curve, eta_drive, notes, states
-        )
-        if correction:
-            result["viscous_correction"] = correction
-        case_route = route.case_route(states[case.id])
-        if case_route:
-            result["route"] = case_route
-        by_case[case.id] = result
-        found += checks.evaluate(model, result, case.id)
+            design_curve, _ = _viscous(b, model, curve, case, case_liquid, corrected, notes)
+        by_case[case.id] = run(case, case_liquid, case_surfaces)
     profile = _profile_states(b, model, states["C1"], design_curve, eta_drive, states)
     for pid, result in profile.items():
         state_route = route.case_route(states[pid])
         if state_route:
             result["route"] = state_route
         found += checks.evaluate(model, result, pid)
+    # A crest the full line would cross below atmospheric controls that state's flow: the
+    # state is solved again with the pump lifting to the crest.
+    design = states["C1"]
+    for case in list(cases):
+        crest = safety.controlling_crest(model, design, states[case.id])
+        if crest is not None:
+            lifted = replace(case, id=f"{case.id}x", title=_crest_title(case.title, crest), crest=crest)
+            cases.append(lifted)
+            st = states[case.id]
+            by_case[lifted.id] = run(lifted, st.liquid, st.surfaces)
+    for pid in list(profile):
+        crest = safety.controlling_crest(model, design, states[pid])
+        if crest is not None:
+            q = model.operation.profile[int(pid[1:]) - 1][0]
+            point = replace(design.case, id=f"{pid}x", title=_crest_title(pid, crest), flow=q,
+                            crest=crest)  # fmt: skip
+            lifted_point = _profile_state(b, model, point, design, design_curve, eta_drive, states)
+            state_route = route.case_route(states[point.id])
+            if state_route:
+                lifted_point["route"] = state_route
+            found += checks.evaluate(model, lifted_point, point.id)
+            profile[point.id] = lifted_point
     if "electrical_power" in by_case["C1"]:
         P_e = Given(by_case["C1"]["electrical_power"]["value"], "W", "power.electrical")
         energy = _energy(b, model, states["C1"].case, P_e, profile, notes)
@@ -1807,6 +1837,49 @@ def _hydraulics(
         "fittings": {ident: items for ident, (_, items) in solved.items()},
         "branch_flow": q_branch,
     }
+    if case.crest is not None:
+        out.update(_crest_heads(ev, model, case, liquid, p_source, out))
+    else:
+        out.update(_system_heads(ev, model, case, liquid, p_dest, p_source, exit_head, pipes))
+    suction = [
+        pipes[p.id][key] for p in model.suction_pipes for key in ("friction_loss", "minor_loss")
+    ]
+    out["suction_loss"] = ev.step(
+        sid("npsh.suction_loss"),
+        "Head loss of the suction side",
+        losses.head_sum,
+        case.id,
+        h=suction,
+    )
+    out["npsh_available"] = ev.step(
+        sid("npsh.available"),
+        "NPSH available",
+        head.npsh_available,
+        case.id,
+        p_baro=p_baro,
+        p_s=p_source,
+        rho=liquid.density,
+        z_s=case.npsh_level,
+        z_p=model.pump.elevation,
+        h_L=out["suction_loss"],
+        p_v=liquid.vapor_pressure,
+    )
+    return out
+
+
+def _system_heads(
+    ev: Any,
+    model: Model,
+    case: Case,
+    liquid: Liquid,
+    p_dest: Given,
+    p_source: Given,
+    exit_head: Given | None,
+    pipes: dict[str, dict[str, Given]],
+) -> dict[str, Given]:
+    """Static and pressure heads, the losses and the TDH from surface to surface."""
+    sid = case.sid
+    out: dict[str, Given] = {}
     out["static_head"] = ev.step(
         sid("system.static_head"),
         "Static head",
@@ -1859,30 +1932,47 @@ def _hydraulics(
         h_m=out["minor_loss"],
         h_v_out=exit_head,
     )
-    suction = [
-        pipes[p.id][key] for p in model.suction_pipes for key in ("friction_loss", "minor_loss")
-    ]
-    out["suction_loss"] = ev.step(
-        sid("npsh.suction_loss"),
-        "Head loss of the suction side",
-        losses.head_sum,
-        case.id,
-        h=suction,
-    )
-    out["npsh_available"] = ev.step(
-        sid("npsh.available"),
-        "NPSH available",
-        head.npsh_available,
-        case.id,
-        p_baro=p_baro,
-        p_s=p_source,
-        rho=liquid.density,
-        z_s=case.npsh_level,
-        z_p=model.pump.elevation,
-        h_L=out["suction_loss"],
-        p_v=liquid.vapor_pressure,
-    )
     return out
+
+
+def _crest_heads(
+    ev: Any, model: Model, case: Case, liquid: Liquid, p_source: Given, h: dict[str, Any]
+) -> dict[str, Given]:
+    """The heads of a state whose crest controls the flow: the pump lifts to the crest,
+    held at atmospheric pressure; the line beyond it runs part-full."""
+    assert case.crest is not None
+    sid = case.sid
+    ident, station, x, name = case.crest
+    index = next(i for i, p in enumerate(model.pipes) if p.id == ident)
+    pipe = model.pipes[index]
+    z_c = pipe.elevation_start if x <= 0.0 else pipe.elevation_end
+    assert z_c is not None
+    node = {"pipe": ident, "station": station, "x": x, "name": name}
+    h_L = safety.head_loss_to(ev, model, case, h, index, node, "system.crest")
+    at_crest = ev.assume(
+        "Where the crest controls the flow its pressure is the atmosphere's (an air valve, "
+        "or the break of the liquid column); beyond it the line runs part-full.",
+        0.0,
+        "Pa",
+    )
+    v = h["pipes"][ident]["velocity"]
+    return {
+        "static_head": ev.step(sid("system.static_head"), f"Static head to the crest at {name}",
+                               head.static_head, case.id, z_d=z_c, z_s=case.source_level),
+        "pressure_head": ev.step(sid("system.pressure_head"), "Pressure head to the crest",
+                                 head.pressure_head, case.id, p_d=at_crest, p_s=p_source,
+                                 rho=liquid.density),
+        "friction_loss": h_L,
+        "minor_loss": ev.assume("The minor losses to the crest are in the head lost to it.",
+                                0.0, "m"),
+        "outlet_velocity_head": ev.step(sid("system.outlet_velocity_head"),
+                                        f"Velocity head at the crest at {name}",
+                                        losses.velocity_head, case.id, v=v),
+        "tdh": ev.step(sid("system.total_dynamic_head"),
+                       f"Total dynamic head (the crest at {name} controls)", head.crest_head,
+                       case.id, z_c=z_c, z_s=case.source_level, p_s=p_source,
+                       rho=liquid.density, h_L=h_L, v=v),
+    }  # fmt: skip
 
 
 def _electrical(
@@ -2120,7 +2210,8 @@ def _duty_profile(
         powers, lost = [], []
         for row, t in zip(rows, times, strict=True):
             pid = row["point"]
-            state = profile[pid]
+            # Where a crest controls the point, the pump lifts to it: that state's power.
+            state = profile.get(f"{pid}x", profile[pid])
             point = state.get("operating_point", {})
             row["system_head"] = state["total_dynamic_head"]
             if "electrical_power" not in state:
@@ -2134,11 +2225,12 @@ def _duty_profile(
                 pump_head=point["head"],
                 electrical_power=state["electrical_power"],
             )
-            powers.append(Given(state["electrical_power"]["value"], "W", f"{pid}.power.electrical"))
+            sid = state["state_id"]
+            powers.append(Given(state["electrical_power"]["value"], "W", f"{sid}.power.electrical"))
             if "throttling_loss" in point:
                 row["throttling_loss"] = point["throttling_loss"]
                 lost.append(
-                    Given(state["throttling_power"]["value"], "W", f"{pid}.energy.throttling_power")
+                    Given(state["throttling_power"]["value"], "W", f"{sid}.energy.throttling_power")
                 )
             # Each point's share of the year, for the energy chart (the total is a step).
             row["annual_energy"] = quantity(powers[-1].value * t.value, "J")
@@ -2202,6 +2294,10 @@ def _profile_states(
     }
 
 
+def _crest_title(title: str, crest: tuple[str, str, float, str]) -> str:
+    return f"{title}; the crest at {crest[3]} controls (part-full beyond it)"
+
+
 def _profile_state(
     b: TraceBuilder,
     model: Model,
@@ -2223,6 +2319,7 @@ def _profile_state(
         pumps_running=_q(point.running),
         duty_case=True,
         state_kind="profile",
+        state_id=pid,
     )
     n = point.running.value
     parallel = model.pump.arrangement == "parallel"

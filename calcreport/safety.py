@@ -31,7 +31,17 @@ from calcreport.trace import TraceBuilder, quantity
 if TYPE_CHECKING:
     from calcreport.calc import Case, CurvePoints, Liquid
 
-__all__ = ["EXIT_NOTE", "FittingLoss", "Route", "State", "Station", "placement", "profile"]
+__all__ = [
+    "EXIT_NOTE",
+    "FittingLoss",
+    "Route",
+    "State",
+    "Station",
+    "controlling_crest",
+    "head_loss_to",
+    "placement",
+    "profile",
+]
 
 # A fitting noted as the exit (or entrance) of its pipe, when it names no kind.
 EXIT_NOTE = re.compile(r"\bexit\b|\boutlet\b|discharge into", re.IGNORECASE)
@@ -182,6 +192,7 @@ def profile(
     lost = distance = 0.0
     pumped = False
     previous: Pipe | None = None
+    beyond = False  # past the crest that controls the flow: the line runs part-full
     for pipe in model.pipes:
         values = h["pipes"][pipe.id]
         hv = float(losses.velocity_head(values["velocity"].value))
@@ -210,9 +221,15 @@ def profile(
                 "hgl": egl - hv,
                 "elevation": z,
             }
-            if z is not None:
+            if beyond:
+                # Part-full: the free surface is at the atmosphere's pressure.
+                node.update(part_full=True, egl=(z or 0.0) + hv, hgl=z)
+                node["pressure_head"] = 0.0
+            elif z is not None:
                 node["pressure_head"] = egl - hv - z
             nodes.append(node)
+            if case.crest is not None and case.crest[:2] == (pipe.id, stn.key):
+                beyond = True
         lost += f_loss + values["minor_loss"].value
         distance += pipe.length.value
         previous = pipe
@@ -271,6 +288,93 @@ def _elevation_value(pipe: Pipe, x: float) -> float | None:
     return float(route.elevation_along(z1.value, z2.value, x, pipe.length.value))
 
 
+def head_loss_to(
+    ev: Any,
+    model: Model,
+    case: Case,
+    h: dict[str, Any],
+    index: int,
+    node: dict[str, Any],
+    where: str,
+    label: Any = None,
+) -> Given:
+    """The step of the head lost from the source surface to a pipe's station ``node``
+    (``index`` the pipe's place in flow order; ``ev`` records steps or sweeps arrays)."""
+    pipe = model.pipes[index]
+    values = h["pipes"][pipe.id]
+    terms: list[Given] = []
+    for other in model.pipes[:index]:
+        terms += [h["pipes"][other.id]["friction_loss"], h["pipes"][other.id]["minor_loss"]]
+    every = h["fittings"][pipe.id]
+    stn = next(s for s in stations(pipe, every, label) if s.key == node["station"])
+    if len(stn.upstream) == len(every) and every:
+        terms.append(values["minor_loss"])
+    elif stn.upstream:
+        coefficients = [i for i in stn.upstream if i.K is not None]
+        if len(coefficients) == sum(1 for i in every if i.K is not None):
+            terms.append(values["fitting_loss"])
+        elif coefficients:
+            K = ev.step(
+                case.sid(f"{where}.k_upstream"),
+                f"Fitting coefficients of {pipe.id} upstream of {node['name']}",
+                losses.k_total,
+                case.id,
+                K=[i.K for i in coefficients if i.K is not None],
+                count=[i.fitting.count for i in coefficients],
+            )
+            terms.append(
+                ev.step(
+                    case.sid(f"{where}.fitting_loss"),
+                    f"Fitting losses of {pipe.id} upstream of {node['name']}",
+                    losses.minor_loss,
+                    case.id,
+                    K_total=K,
+                    v=values["velocity"],
+                )
+            )
+        terms += [i.head for i in stn.upstream if i.head is not None]
+    if stn.x >= pipe.length.value:
+        terms.append(values["friction_loss"])
+    elif stn.x > 0.0:
+        terms.append(
+            ev.step(
+                case.sid(f"{where}.friction_loss"),
+                f"Friction loss of {pipe.id} up to {node['name']}",
+                losses.friction_share,
+                case.id,
+                h_f=values["friction_loss"],
+                x=_distance(pipe, stn.x),
+                L=pipe.length,
+            )
+        )
+    return ev.step(
+        case.sid(f"{where}.head_loss"),
+        f"Head lost from the source surface to {node['name']}",
+        losses.head_sum,
+        case.id,
+        h=terms,
+    )
+
+
+def controlling_crest(
+    model: Model, design: State, st: State
+) -> tuple[str, str, float, str] | None:
+    """The crest that controls the flow of state ``st``: the line's highest point, above
+    the destination surface, where the full line's pressure would fall below atmospheric
+    (pipe id, station, distance along the pipe, node name); None where there is none."""
+    if st.case.crest is not None:
+        return None
+    line = [n for n in _line_nodes(model, design.profile["nodes"]) if n["station"] != "flange"]
+    if not line:
+        return None
+    crest = max(line, key=lambda n: n["elevation"])
+    if crest["elevation"] <= st.case.destination_level.value:
+        return None
+    if _head_at(st, crest["name"]) >= 0.0:
+        return None
+    return crest["pipe"], crest["station"], crest["x"], crest["name"]
+
+
 def _line_nodes(model: Model, nodes: list[dict[str, Any]]) -> list[dict[str, Any]]:
     """Points of the pressurised (discharge) line with an elevation, outlet excluded:
     the outlet's pressure is the destination's, not the line's."""
@@ -280,6 +384,7 @@ def _line_nodes(model: Model, nodes: list[dict[str, Any]]) -> list[dict[str, Any
         for n in nodes
         if n.get("side") == "discharge"
         and "pressure_head" in n
+        and not n.get("part_full")
         and not (n["pipe"] == last.id and n["station"] != "flange" and n["x"] >= last.length.value)
     ]
 
@@ -344,7 +449,7 @@ class Route:
         if node["station"] == "flange":
             h_L = h["suction_loss"]
         else:
-            h_L = self._head_loss(st, pipe, index, node, where)
+            h_L = head_loss_to(b, self.model, case, h, index, node, where, self.label)
         if node["side"] == "suction":
             lift = b.assume("No pump head is added upstream of the pump.", 0.0, "m")
         else:
@@ -364,66 +469,6 @@ class Route:
         )
         self._heads[key] = value
         return value
-
-    def _head_loss(
-        self, st: State, pipe: Pipe, index: int, node: dict[str, Any], where: str
-    ) -> Given:
-        """The step of the head lost from the source surface to a pipe's station."""
-        b, case, h = self.b, st.case, st.h
-        values = h["pipes"][pipe.id]
-        terms: list[Given] = []
-        for other in self.model.pipes[:index]:
-            terms += [h["pipes"][other.id]["friction_loss"], h["pipes"][other.id]["minor_loss"]]
-        found = stations(pipe, h["fittings"][pipe.id], self.label)
-        stn = next(s for s in found if s.key == node["station"])
-        every = h["fittings"][pipe.id]
-        if len(stn.upstream) == len(every) and every:
-            terms.append(values["minor_loss"])
-        elif stn.upstream:
-            coefficients = [i for i in stn.upstream if i.K is not None]
-            if len(coefficients) == sum(1 for i in every if i.K is not None):
-                terms.append(values["fitting_loss"])
-            elif coefficients:
-                K = b.step(
-                    case.sid(f"{where}.k_upstream"),
-                    f"Fitting coefficients of {pipe.id} upstream of {node['name']}",
-                    losses.k_total,
-                    case.id,
-                    K=[i.K for i in coefficients if i.K is not None],
-                    count=[i.fitting.count for i in coefficients],
-                )
-                terms.append(
-                    b.step(
-                        case.sid(f"{where}.fitting_loss"),
-                        f"Fitting losses of {pipe.id} upstream of {node['name']}",
-                        losses.minor_loss,
-                        case.id,
-                        K_total=K,
-                        v=values["velocity"],
-                    )
-                )
-            terms += [i.head for i in stn.upstream if i.head is not None]
-        if stn.x >= pipe.length.value:
-            terms.append(values["friction_loss"])
-        elif stn.x > 0.0:
-            terms.append(
-                b.step(
-                    case.sid(f"{where}.friction_loss"),
-                    f"Friction loss of {pipe.id} up to {node['name']}",
-                    losses.friction_share,
-                    case.id,
-                    h_f=values["friction_loss"],
-                    x=_distance(pipe, stn.x),
-                    L=pipe.length,
-                )
-            )
-        return b.step(
-            case.sid(f"{where}.head_loss"),
-            f"Head lost from the source surface to {node['name']}",
-            losses.head_sum,
-            case.id,
-            h=terms,
-        )
 
     def vapour_head(self, st: State) -> Given:
         """The gauge pressure head at which the liquid of state ``st`` boils."""
@@ -487,7 +532,11 @@ class Route:
             if above > 0.0:
                 # Full-pipe flow over the crest needs a positive head there in every state;
                 # where it is negative the crest, not the destination, sets the lift.
-                below = [st.case.id for st in states.values() if _head_at(st, crest["name"]) < 0.0]
+                below = [
+                    st.case.id
+                    for st in states.values()
+                    if st.case.crest is None and _head_at(st, crest["name"]) < 0.0
+                ]
                 out["crest"] = {
                     "node": crest["name"],
                     "elevation": quantity(crest["elevation"], "m"),
@@ -500,7 +549,9 @@ class Route:
                         f"The crest at {crest['name']} controls the flow in state(s) "
                         f"{', '.join(below)}: its grade line falls below the pipe, so beyond it "
                         "the line runs part-full, or as a siphon only if primed and kept free of "
-                        "air; the pump must lift to the crest, not to the destination."
+                        "air; the pump must lift to the crest, not to the destination: state(s) "
+                        f"{', '.join(f'{c}x' for c in below)} solve it so, and the energy of a "
+                        "duty-profile point is theirs."
                     )
         densest = max(states.values(), key=lambda st: st.liquid.density.value)
         H_max, basis = self._max_head(curve, notes)

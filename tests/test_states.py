@@ -116,7 +116,8 @@ def _check(t, ident):
 def test_profile_points_are_states_with_the_shape_of_a_case():
     t = _solve()
     states = t.results["profile_states"]
-    assert list(states) == ["P1", "P2", "P3"]
+    # P2 and P3 would cross the crest below atmospheric: each has its lifted twin (below).
+    assert list(states) == ["P1", "P2", "P3", "P2x", "P3x"]
     for key in ("flow", "total_dynamic_head", "npsh_available", "pipes", "operating_point"):
         assert key in states["P3"]
     # Hand check: (n/n0)^2 (40 - 0.01 (q n0/n)^2) = H_system(q), so (n/n0)^2 = (H + 0.01 q^2)/40.
@@ -195,3 +196,26 @@ def test_motor_loading_names_the_most_loaded_state():
     assert set(loading) >= {"C1", "P1", "P2", "P3"}
     assert check.case == max(loading, key=lambda k: loading[k]["value"])
     assert check.status == "pass"
+
+
+def test_a_crest_that_controls_a_state_solves_it_again_lifting_to_the_crest():
+    t = _solve()
+    states = t.results["profile_states"]
+    # P3 would cross the crest below atmospheric: P3x lifts to the crest, held at the
+    # atmosphere's pressure, with the losses up to it (S1 with its entrance, all of D1) and
+    # the crest's velocity head: 114 - 100 + h_f(605 m) + 0.5 v^2/2g + v^2/2g.
+    assert "P3x" in states and "P1x" not in states
+    h_f, hv = _friction(8.0, 605.0)
+    lifted = states["P3x"]
+    assert lifted["total_dynamic_head"]["value"] == pytest.approx(14.0 + h_f + 1.5 * hv, rel=1e-5)
+    assert lifted["total_dynamic_head"]["value"] > states["P3"]["total_dynamic_head"]["value"]
+    # At the crest the pressure is atmospheric; beyond it the line runs part-full.
+    assert lifted["route"]["min_pressure_head"]["value"] == pytest.approx(0.0, abs=1e-9)
+    part = [n for n in lifted["profile"]["nodes"] if n.get("part_full")]
+    assert part and all(n["pipe"] == "D2" for n in part)
+    # The speed lifts the affinity-moved curve to that head, and the energy takes it.
+    ratio = math.sqrt((lifted["total_dynamic_head"]["value"] + 0.01 * 64.0) / 40.0)
+    assert lifted["operating_point"]["speed"]["value"] * 60 == pytest.approx(2900 * ratio, rel=1e-4)
+    row = next(r for r in t.results["energy"]["profile"] if r["point"] == "P3")
+    assert row["electrical_power"] == lifted["electrical_power"]
+    assert any("P3x" in n and "crest" in n for n in t.notes)

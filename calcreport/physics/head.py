@@ -1,7 +1,7 @@
 """System head between two liquid surfaces, and NPSH available.
 
 Heads
-    static_head, pressure_head, total_dynamic_head, saturation_gauge_pressure
+    static_head, pressure_head, total_dynamic_head, crest_head, saturation_gauge_pressure
 NPSH
     npsh_available
 Commissioning
@@ -22,6 +22,7 @@ from calcreport.physics.losses import G
 
 __all__ = [
     "absolute_pressure",
+    "crest_head",
     "discharge_flange_pressure",
     "npsh_available",
     "pressure_head",
@@ -68,6 +69,57 @@ def static_head(z_d: Any, z_s: Any) -> Any:
        (steady-flow energy equation).
     """
     return z_d - z_s
+
+
+@equation(
+    symbol="H_c",
+    text="H_c = z_c − z_s − p_s/(ρ·g) + h_L,c + v_c²/(2·g)",
+    latex=r"H_c = z_c - z_s - \frac{p_s}{\rho g} + h_{L,c} + \frac{v_c^2}{2 g}",
+    substitute="{z_c} − {z_s} − {p_s} / ({rho} × 9.80665 m/s²) + {h_L} + ({v})² / "
+    "(2 × 9.80665 m/s²)",
+    reference="white_fm",
+)
+def crest_head(z_c: Any, z_s: Any, p_s: Any, rho: Any, h_L: Any, v: Any) -> Any:
+    r"""Pump head that lifts the liquid over a crest held at atmospheric pressure.
+
+    .. math:: H_c = z_c - z_s - \frac{p_s}{\rho g} + h_{L,c} + \frac{v_c^2}{2g}
+
+    The energy equation from the source surface to the crest, where an air
+    valve (or the break of the liquid column) holds the pressure at the
+    atmosphere's: beyond it the line runs part-full, and its losses there
+    do not load the pump.
+
+    Parameters
+    ----------
+    z_c : float
+        Centreline elevation of the crest [m]
+    z_s : float
+        Elevation of the source surface [m]
+    p_s : float
+        Gauge pressure on the source surface [Pa]
+    rho : float
+        Density of the liquid [kg/m^3]
+    h_L : float
+        Head lost from the source surface to the crest [m]
+    v : float
+        Mean velocity at the crest [m/s]
+
+    Returns
+    -------
+    H_c : float
+        Pump head with the crest controlling the flow [m]
+
+    Examples
+    --------
+    >>> round(crest_head(30.0, 2.0, 0.0, 998.2, 4.0, 2.0), 4)
+    32.2039
+
+    References
+    ----------
+    1. White, F. M., Fluid Mechanics, 7th ed., McGraw-Hill, 2011, sec. 3.7
+       (energy equation; the grade line may not fall below a pipe running full).
+    """
+    return z_c - z_s - p_s / (rho * G) + h_L + v**2 / (2.0 * G)
 
 
 @equation(
