@@ -239,7 +239,7 @@ def solve(model: Model) -> Trace:
         for event in [surge, *surge.get("events", {}).values()]:
             event["rise_checked"] = "rating_check" in results["route"]
     if motor_rating:
-        results["motor"] = _motor_loading(motor_rating, {**by_case, **profile})
+        results["motor"] = _motor_loading(b, motor_rating, {**by_case, **profile})
     thermal = _thermal_min_flow(b, model, liquid, curve, notes)
     if thermal:
         results["thermal_min_flow"] = thermal
@@ -726,8 +726,9 @@ def _solve_case(
         point, eta_curve = _operating_point(b, model, case, curve, h)
         results["operating_point"] = point
         eta_pump = eta_curve or eta_pump
-        if "bep_flow" in point:
-            results["operating_region"] = _regions(model, point["bep_flow"]["value"])
+        if "bep_flow" in point and case.id == "C1":  # the design chart's regions
+            Q_bep = Given(point["bep_flow"]["value"], "m^3/s", "solver.curve_bep_flow")
+            results["operating_region"] = _regions(b, model, Q_bep)
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive))
     results["required_flow"] = _q(required)
     results["pumps_running"] = _q(case.running)
@@ -735,9 +736,9 @@ def _solve_case(
     if "shaft_power" in results:
         P_s = Given(results["shaft_power"]["value"], "W", case.sid("power.shaft"))
         _per_pump_power(b, case, P_s, results)
-    results["system_curve"], results["duty_point"] = _system_curve(
-        model, case, liquid, surfaces, curve
-    )
+    results["system_curve"], duty = _system_curve(model, case, liquid, surfaces, curve)
+    if case.id == "C1":  # the required duty on the design system curve, for its chart
+        results["duty_point"] = duty
     results["commissioning"] = _commissioning(b, model, case, liquid, surfaces, h, curve)
     if curve is not None:
         results["pump_curve"] = {
@@ -1074,13 +1075,25 @@ def _curve_values(
             efficiency=curve.efficiency,
         )
         point["efficiency"] = _q(eta)
-        q_bep, eta_bep = pump.best_efficiency_point(
-            curve.values("flow"), curve.values("efficiency")
+        q_bep, _ = pump.best_efficiency_point(curve.values("flow"), curve.values("efficiency"))
+        Q_bep = b.solution(
+            sid("solver.curve_bep_flow"),
+            q_bep,
+            "m^3/s",
+            "flow of the highest efficiency on the monotone cubic through the curve points",
         )
-        scale = speed[0].value / speed[1].value if speed is not None else 1.0
-        point["bep_flow"] = quantity(q_bep * scale, "m^3/s")
-        point["bep_efficiency"] = quantity(eta_bep, "")
-        point["flow_ratio_bep"] = quantity(Q_curve.value / q_bep, "")
+        eta_bep = b.step(sid("pump.bep_efficiency"), "Best efficiency of the curve",
+                         pump.efficiency_at, case.id, Q=Q_bep, flow=curve.flow,
+                         efficiency=curve.efficiency)  # fmt: skip
+        ratio = b.step(sid("pump.flow_ratio_bep"), "Flow of each pump over its BEP flow",
+                       pump.flow_ratio, case.id, Q=Q_curve, Q_bep=Q_bep)  # fmt: skip
+        if speed is not None:
+            Q_bep = b.step(sid("pump.bep_flow"), "BEP flow at the state's speed",
+                           pump.affinity_flow, case.id, Q0=Q_bep, n=speed[0],
+                           n0=speed[1])  # fmt: skip
+        point["bep_flow"] = _q(Q_bep)
+        point["bep_efficiency"] = _q(eta_bep)
+        point["flow_ratio_bep"] = _q(ratio)
     if curve.npsh_required:
         npshr = b.step(
             sid("pump.npsh_required" if speed is None else "pump.curve_npsh_required"),
@@ -1117,16 +1130,31 @@ def _curve_values(
     return eta
 
 
-def _regions(model: Model, q_bep: float) -> dict[str, Any]:
+def _regions(b: TraceBuilder, model: Model, Q_bep: Given) -> dict[str, Any]:
     """Flows bounding the preferred (and, from the pump data, allowable) regions."""
     low, high, basis, _ = checks.preferred_range(model)
+    if model.pump.preferred_range:
+        fractions = list(model.pump.preferred_range)
+    else:
+        fractions = [
+            model.criteria.given.get(name) or b.datum(f"catalog.criteria.{name}", value, "")
+            for name, value in (("preferred_flow_low", low), ("preferred_flow_high", high))
+        ]
+
+    def bounds(name: str, given: list[Given]) -> list[dict[str, Any]]:
+        return [
+            _q(b.step(f"pump.{name}_region.{end}", f"{end.title()} flow of the {name} region",
+                      pump.region_flow, r=r, Q_bep=Q_bep))  # fmt: skip
+            for end, r in zip(("low", "high"), given, strict=True)
+        ]
+
     out: dict[str, Any] = {
-        "bep_flow": quantity(q_bep, "m^3/s"),
-        "preferred": [quantity(low * q_bep, "m^3/s"), quantity(high * q_bep, "m^3/s")],
+        "bep_flow": _q(Q_bep),
+        "preferred": bounds("preferred", fractions),
         "preferred_basis": basis,
     }
     if model.pump.allowable_range:
-        out["allowable"] = [quantity(g.value * q_bep, "m^3/s") for g in model.pump.allowable_range]
+        out["allowable"] = bounds("allowable", list(model.pump.allowable_range))
     if model.pump.min_continuous_flow:
         out["min_continuous_flow"] = _q(model.pump.min_continuous_flow)
     return out
@@ -1198,10 +1226,12 @@ def _thermal_min_flow(
                  pump.efficiency_at, Q=Q, flow=curve.flow, efficiency=curve.efficiency)  # fmt: skip
     rise = b.step("pump.thermal.temperature_rise", "Temperature rise at the thermal minimum flow",
                   pump.temperature_rise, H=H, eta=eta, cp=cp)  # fmt: skip
+    given = model.criteria.given.get("temperature_rise_max")
+    limit_given = given or b.datum("catalog.criteria.temperature_rise_max", limit, "K")
     return {
         "flow": _q(Q),
         "temperature_rise": _q(rise),
-        "temperature_rise_max": quantity(limit, "K"),
+        "temperature_rise_max": _q(limit_given),
     }
 
 
@@ -1298,17 +1328,24 @@ def _motor(
     return out
 
 
-def _motor_loading(motor: dict[str, Any], by_case: dict[str, dict[str, Any]]) -> dict[str, Any]:
-    """The motor with its loading (shaft power per pump over the rating) in every case."""
-    if "rated_power" not in motor:
-        return motor
-    rated = motor["rated_power"]["value"]
-    loading = {
-        cid: quantity(r.get("shaft_power_per_pump", r["shaft_power"])["value"] / rated, "")
-        for cid, r in by_case.items()
-        if "shaft_power" in r
-    }
-    return {**motor, "loading": loading}
+def _motor_loading(
+    b: TraceBuilder, selected: dict[str, Any], by_state: dict[str, dict[str, Any]]
+) -> dict[str, Any]:
+    """The motor with its loading (shaft power per pump over the rating) in every state."""
+    if "rated_power" not in selected:
+        return selected
+    rated = Given(selected["rated_power"]["value"], "W", "motor.rated_power")
+    loading = {}
+    for cid, r in by_state.items():
+        if "shaft_power" not in r:
+            continue
+        prefix = "" if cid == "C1" else f"{cid}."
+        key = "shaft_power_per_pump" if "shaft_power_per_pump" in r else "shaft_power"
+        step = "power.shaft_per_pump" if key == "shaft_power_per_pump" else "power.shaft"
+        P = Given(r[key]["value"], "W", prefix + step)
+        loading[cid] = _q(b.step(f"{prefix}motor.loading", "Motor loading", motor.loading,
+                                 cid, P=P, P_rated=rated))  # fmt: skip
+    return {**selected, "loading": loading}
 
 
 def _class_efficiency(
@@ -2380,8 +2417,6 @@ def _profile_state(
         return result
     found["head"] = _q(H)
     result["operating_point"] = found
-    if "bep_flow" in found:
-        result["operating_region"] = _regions(model, found["bep_flow"]["value"])
     eta = eta or model.pump.efficiency
     assert eta is not None
     # Throttled, the pump gives its own head (the valve burns the excess); at speed, the

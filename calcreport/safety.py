@@ -528,8 +528,14 @@ class Route:
             out["min_pressure_node"] = low[1]["name"]
             out["min_pressure_case"] = low[0].case.id
             crest = max(line, key=lambda n: n["elevation"])
-            above = crest["elevation"] - design.case.destination_level.value
-            if above > 0.0:
+            if crest["elevation"] > design.case.destination_level.value:
+                above = self.b.step(
+                    "route.crest.above_destination",
+                    f"Height of the crest at {crest['name']} above the destination surface",
+                    head.static_head,
+                    z_d=self.elevation(crest),
+                    z_s=design.case.destination_level,
+                ).value
                 # Full-pipe flow over the crest needs a positive head there in every state;
                 # where it is negative the crest, not the destination, sets the lift.
                 below = [
@@ -583,7 +589,6 @@ class Route:
         if not points:
             return out
         top = max(points, key=lambda p: p["max"])
-        out["max_pressure"] = quantity(top["max"], "Pa")
         out["max_pressure_node"] = top["node"]
         out["max_pressure_basis"] = top["basis"]
         out["shutoff_basis"] = basis
@@ -659,7 +664,7 @@ class Route:
                 out["rating_check"] = min(
                     checked, key=lambda r: r["rating"]["value"] - r["pressure"]["value"]
                 )
-        record(top)
+        out["max_pressure"] = _q(record(top))
         flange = next((p for p in points if p["node"] == DISCHARGE_FLANGE), None)
         if H_max is not None and flange is not None and flange["basis"] == "static":
             record(flange)  # the pump discharge at shutoff: the casing's pressure

@@ -1,7 +1,9 @@
 """Motor sizing: the next standard rating at or above the power the pump can demand.
 
 Rating
-    standard_rating
+    standard_rating, derated_requirement
+Loading
+    loading
 """
 
 from __future__ import annotations
@@ -10,7 +12,7 @@ from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["derated_requirement", "standard_rating"]
+__all__ = ["derated_requirement", "loading", "standard_rating"]
 
 
 def _ratings_text(values: dict[str, Any], result: float, fmt: Any) -> str:
@@ -106,3 +108,40 @@ def derated_requirement(P: Any, k: Any) -> Any:
        manufacturer's derating applies).
     """
     return P / k
+
+
+@equation(
+    symbol="λ",
+    text="λ = P_s/P_motor",
+    latex=r"\lambda = \frac{P_s}{P_{motor}}",
+    substitute="{P} / {P_rated}",
+    reference="karassik_2008",
+)
+def loading(P: Any, P_rated: Any) -> Any:
+    r"""Motor loading: the shaft power it delivers over its rated output.
+
+    .. math:: \lambda = \frac{P_s}{P_{motor}}
+
+    Parameters
+    ----------
+    P : float
+        Shaft power of the pump the motor drives [W]
+    P_rated : float
+        Rated output of the motor [W]
+
+    Returns
+    -------
+    loading : float
+        Fraction of the rated output [-]
+
+    Examples
+    --------
+    >>> loading(11000.0, 15000.0)
+    0.7333333333333333
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (driver selection: the driver's rating against the pump's power).
+    """
+    return P / P_rated

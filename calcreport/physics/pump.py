@@ -35,6 +35,8 @@ __all__ = [
     "best_efficiency_point",
     "curve_max_head",
     "efficiency_at",
+    "flow_ratio",
+    "region_flow",
     "efficiency_from_power",
     "head_at",
     "head_balance",
@@ -599,6 +601,84 @@ def _solved_text(values: dict[str, Any], result: float, fmt: Any) -> str:
         "H_pump(Q) − H_system(Q) = 0, bracketed on 201 flows and refined by the "
         "Illinois method; confirmed by the head-balance step"
     )
+
+
+@equation(
+    symbol="Q/Q_BEP",
+    text="Q/Q_BEP = Q / Q_BEP",
+    latex=r"\frac{Q}{Q_{BEP}} = \frac{Q}{Q_{BEP}}",
+    substitute="{Q} / {Q_bep}",
+    reference="hi_por",
+)
+def flow_ratio(Q: Any, Q_bep: Any) -> Any:
+    r"""A pump's flow as a fraction of its best-efficiency flow (operating regions).
+
+    .. math:: r = \frac{Q}{Q_{BEP}}
+
+    Parameters
+    ----------
+    Q : float
+        Flow of the pump, at the speed its BEP flow is given for [m^3/s]
+    Q_bep : float
+        Best-efficiency flow at the same speed [m^3/s]
+
+    Returns
+    -------
+    r : float
+        Flow ratio [-]
+
+    Notes
+    -----
+    At another speed both flows move in proportion (affinity laws), so the
+    ratio at corresponding points is the same at any speed.
+
+    Examples
+    --------
+    >>> round(flow_ratio(0.018, 0.024), 6)
+    0.75
+
+    References
+    ----------
+    1. ANSI/HI 9.6.3, Rotodynamic Pumps - Guideline for Operating Regions
+       (regions as fractions of the BEP flow).
+    """
+    return Q / Q_bep
+
+
+@equation(
+    symbol="Q_r",
+    text="Q_r = r·Q_BEP",
+    latex=r"Q_r = r\, Q_{BEP}",
+    substitute="{r} × {Q_bep}",
+    reference="hi_por",
+)
+def region_flow(r: Any, Q_bep: Any) -> Any:
+    r"""The flow at a bound of an operating region given as a fraction of the BEP flow.
+
+    .. math:: Q_r = r\, Q_{BEP}
+
+    Parameters
+    ----------
+    r : float
+        The bound as a fraction of the best-efficiency flow [-]
+    Q_bep : float
+        Best-efficiency flow [m^3/s]
+
+    Returns
+    -------
+    Q_r : float
+        Flow at the bound [m^3/s]
+
+    Examples
+    --------
+    >>> round(region_flow(0.7, 0.024), 6)
+    0.0168
+
+    References
+    ----------
+    1. ANSI/HI 9.6.3, Rotodynamic Pumps - Guideline for Operating Regions.
+    """
+    return r * Q_bep
 
 
 @equation(
