@@ -2350,7 +2350,9 @@ def _profile_state(
     liquid, surfaces = design.liquid, design.surfaces
     h = _hydraulics(b, model, point, liquid, surfaces)
     result = _results(h, liquid, surfaces[0], model, point.flow)
-    result["profile"] = safety.profile(model, point, liquid, h, surfaces[1], surfaces[2])
+    submergence = _intake(b, model, point, h)
+    if submergence:
+        result["intake"] = submergence
     result.update(
         required_flow=_q(point.flow),
         pumps_running=_q(point.running),
@@ -2374,6 +2376,11 @@ def _profile_state(
     eta: Given | None = None
     h_thr: Given | None = None
     if model.operation.control == "throttled":
+        b.assume(
+            "Throttled control: the throttling valve is taken just downstream of the pump, so "
+            "the pump's discharge flange sees the pump's own head and the line beyond the "
+            "valve the system's (its lowest pressures)."
+        )
         if not flows[0] <= Q.value <= flows[-1]:
             result["unserved"] = "its flow is outside the pump curve"
         else:
@@ -2412,7 +2419,14 @@ def _profile_state(
             b.step(sid("pump.head_balance"), "Head balance at the profile point (zero)",
                    pump.head_balance, pid, H_pump=H, H_system=H_sys)  # fmt: skip
             eta = _curve_values(b, point, curve, Q0, h["npsh_available"], found, (speed, n0))
-    states[pid] = safety.State(point, liquid, surfaces, h, result["profile"], H_pump)
+    # Throttled, the valve is taken just past the pump: its flange sees the pump's own head.
+    throttled = H_pump is not H_sys
+    result["profile"] = safety.profile(
+        model, point, liquid, h, surfaces[1], surfaces[2], H_pump if throttled else None
+    )
+    states[pid] = safety.State(
+        point, liquid, surfaces, h, result["profile"], H_pump if throttled else None
+    )
     if "unserved" in result:
         return result
     found["head"] = _q(H)

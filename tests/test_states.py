@@ -219,3 +219,20 @@ def test_a_crest_that_controls_a_state_solves_it_again_lifting_to_the_crest():
     row = next(r for r in t.results["energy"]["profile"] if r["point"] == "P3")
     assert row["electrical_power"] == lifted["electrical_power"]
     assert any("P3x" in n and "crest" in n for n in t.notes)
+
+
+def test_throttled_point_flange_sees_the_pump_head_and_the_line_the_system_head():
+    t = _solve("throttled")
+    state = t.results["profile_states"]["P3"]
+    nodes = {n["name"]: n for n in state["profile"]["nodes"]}
+    # The valve just past the pump: the flange at the pump's own head at 8 L/s on its curve,
+    # 40 - 0.01 q^2 (a monotone cubic through 21 points of the parabola: 1e-3 m).
+    h_f, hv = _friction(8.0, 5.0)
+    flange = 100.0 + _curve_head(8.0) - (h_f + 0.5 * hv) - hv - 99.0
+    assert nodes["pump discharge flange"]["pressure_head"] == pytest.approx(flange, abs=1e-3)
+    assert state["operating_point"]["head"]["value"] == pytest.approx(_curve_head(8.0), abs=1e-3)
+    # Past the valve the line carries the system's head: the crest as in the variable-speed
+    # state (the same flow and the same system).
+    vs = _solve().results["profile_states"]["P3"]["route"]["min_pressure_head"]["value"]
+    assert state["route"]["min_pressure_head"]["value"] == pytest.approx(vs, rel=1e-9)
+    assert any("throttling valve is taken just downstream" in a["text"] for a in t.assumptions)
