@@ -916,8 +916,22 @@ class Route:
         )
         # The pipe that holds most of the line's travel time: its impedance governs.
         governing = max(line, key=lambda p: p.length.value / speeds[p.id].value)
+        suction = [p for p in model.suction_pipes if p not in line]
+        spans = {"line": (line, T_line)}
+        if suction:
+            spans["suction"] = (
+                suction,
+                b.step(
+                    sid("surge.suction_period"),
+                    "Period of the suction pipes (source to pump)",
+                    surge.line_period,
+                    case.id,
+                    L=[p.length for p in suction],
+                    a=[speeds[p.id] for p in suction],
+                ),
+            )
         screened = {
-            event.event: self._screen_event(event, states, speeds, periods, T_line, line)
+            event.event: self._screen_event(event, states, speeds, periods, spans)
             for event in events
         }
         for ev in screened.values():
@@ -951,14 +965,18 @@ class Route:
         states: dict[str, State],
         speeds: dict[str, Given],
         periods: dict[str, Given],
-        T_line: Given,
-        line: list[Pipe],
+        spans: dict[str, tuple[list[Pipe], Given]],
     ) -> dict[str, Any]:
         """One event in every state: the head change of the line and of the suction pipes,
-        each pipe's rise kept in ``self.rises`` by (event, state); the downsurge of a trip."""
-        b, model = self.b, self.model
+        each pipe's rise kept in ``self.rises`` by (event, state); the downsurge of a trip.
+
+        Each part (the line, the suction pipes) takes its full series change when the event
+        is within its period, Michaud's estimate when slower; a trip with no stop time stops
+        the flow within the line's period, so the suction pipes see it as slow.
+        """
+        b = self.b
         name = event.event
-        suction = [p for p in model.suction_pipes if p not in line]
+        line, T_line = spans["line"]
         out: dict[str, Any] = {"event": name, "line_period": _q(T_line)}
         # A trip stops the flow in pump_stop_time (the screened event's closure_time here).
         if name == "pump_trip" and event.closure_time is None:
@@ -968,17 +986,15 @@ class Route:
                 "that of the line's pipes in series; a pipe whose own period is shorter does "
                 "not set it by its own a·v/g."
             )
-        slow = False
+        duration = event.closure_time or T_line
+        slow = duration.value > T_line.value
         if event.closure_time is not None:
             out["closure_time"] = _q(event.closure_time)
-            slow = event.closure_time.value > T_line.value
         tag = name.replace("_", "")
         for st in states.values():
             sid, cid, h = st.case.sid, st.case.id, st.h
             rises: dict[str, Given] = {}
-            for pipes, part in ((line, "line"), (suction, "suction")):
-                if not pipes:
-                    continue
+            for part, (pipes, period) in spans.items():
                 label = "pumped line" if part == "line" else "suction pipes"
                 dH = b.step(
                     sid(f"surge.{tag}.{part}_head"),
@@ -989,18 +1005,16 @@ class Route:
                     v=[h["pipes"][p.id]["velocity"] for p in pipes],
                     a=[speeds[p.id] for p in pipes],
                 )
-                if slow:
-                    assert event.closure_time is not None
+                if duration.value > period.value:
+                    how = "closure" if name == "valve_closure" else "stop"
                     dH = b.step(
                         sid(f"surge.{tag}.{part}_head_change"),
-                        f"Head change of the {label} for a "
-                        + ("closure" if name == "valve_closure" else "stop")
-                        + f" in {event.closure_time.value:g} s",
+                        f"Head change of the {label} for a {how} in {duration.value:.4g} s",
                         surge.slow_closure_head,
                         cid,
                         dH_J=dH,
-                        T_r=T_line,
-                        t_c=event.closure_time,
+                        T_r=period,
+                        t_c=duration,
                     )
                 for p in pipes:
                     rises[p.id] = dH
@@ -1026,7 +1040,7 @@ class Route:
             low = [
                 (st, n)
                 for st in states.values()
-                for n in _line_nodes(model, st.profile["nodes"])
+                for n in _line_nodes(self.model, st.profile["nodes"])
             ]
             if low:
                 st, node = min(

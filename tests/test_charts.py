@@ -236,7 +236,7 @@ def test_labels_carry_the_trace_values(traces, drawn) -> None:
     assert f"28.0 L/s, TDH {tdh} m" in texts
     assert f"TDH {tdh} m" in drawn["si", "system_curve"].title
     assert f"TDH = {tdh} m" in drawn["si", "loss_breakdown"].title
-    assert "upstream end" in drawn["si", "profile"].title
+    assert "where they are taken" in drawn["si", "profile"].title
 
 
 def test_every_pipe_is_labelled(traces, drawn) -> None:

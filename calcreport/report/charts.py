@@ -1228,7 +1228,7 @@ def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
         "Route profile at the design flow: energy grade line (EGL) and hydraulic grade line "
         "(HGL) from the source "
         f"surface to the destination surface, the pump{pump_text} adding TDH; friction is lost "
-        "along each pipe and fitting losses are drawn as steps at each pipe's upstream end"
+        "along each pipe and fitting losses are drawn as steps where they are taken"
     )
     return fig, title
 

@@ -951,10 +951,13 @@ class _Report:
         nodes = route.get("nodes", [])
         intro = (
             "Pressure heads are gauge, from the hydraulic grade line less the pipe centreline "
-            "at each pipe end; a pipe's fitting losses are taken at its upstream end. The "
-            "highest pressure at a point is the greatest of the pump's highest head against "
-            f"a closed line ({text(route.get('pressure_case', ''))}), the operating "
-            "pressures of every case and, when surge is screened, the upsurge."
+            "at each point; each loss is taken where it happens (an entrance as the liquid "
+            "enters its pipe, an exit as it leaves, friction along the pipe, other fittings at "
+            "the pipe's start unless placed), and the pressure is read on both sides of every "
+            "fitting location and at the pump's flanges. The highest pressure at a point is "
+            "the greatest of the pump's highest head against a closed line "
+            f"({text(route.get('pressure_case', ''))}), the operating pressures of every state "
+            "and the upsurge of every screened event."
         )
         out.append(self.p(intro))
         keep = {
