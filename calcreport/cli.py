@@ -11,6 +11,7 @@ import gc
 import hashlib
 import json
 import os
+import re
 import sys
 from collections.abc import Sequence
 from pathlib import Path
@@ -24,6 +25,7 @@ __all__ = ["main"]
 EXIT_OK = 0
 EXIT_INTERNAL = 1
 EXIT_INPUT = 2
+EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report an interrupted command
 
 STARTER = Path(__file__).with_name("templates") / "starter.toml"
 
@@ -119,14 +121,17 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = _parser().parse_args(argv)
     try:
         return int(_COMMANDS[args.command](args))
+    except KeyboardInterrupt:
+        sys.stderr.write("calcreport: interrupted; nothing was written.\n")
+        return EXIT_INTERRUPTED
     except InputError as exc:
-        sys.stderr.write(f"{exc}\n")
+        sys.stderr.write(terminal_safe(f"{exc}\n"))
         return EXIT_INPUT
     except ConvergenceError as exc:
-        sys.stderr.write(f"calcreport: {exc}\n")
+        sys.stderr.write(terminal_safe(f"calcreport: {exc}\n"))
         return EXIT_INTERNAL
     except CalcreportError as exc:
-        sys.stderr.write(f"calcreport: {exc}\n")
+        sys.stderr.write(terminal_safe(f"calcreport: {exc}\n"))
         return EXIT_INPUT
     except OSError as exc:
         where = f" {exc.filename}" if exc.filename else ""
@@ -143,8 +148,23 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_INTERNAL
 
 
+_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
+
+
+def terminal_safe(text: str) -> str:
+    """``text`` with every control character but the line break and tab shown as an escape
+    (``\\x1b``), so that no value read from a file can move the cursor or repaint a line."""
+    return _CONTROL.sub(lambda m: f"\\x{ord(m.group(0)):02x}", text)
+
+
 def _new(args: argparse.Namespace) -> int:
     target = Path(args.path)
+    if target.is_symlink():
+        sys.stderr.write(
+            f"calcreport: {target} is a symbolic link; new writes a file of its own, not "
+            "through a link: choose another name\n"
+        )
+        return EXIT_INPUT
     if target.exists() and not args.force:
         sys.stderr.write(f"calcreport: {target} exists; choose another name or use --force\n")
         return EXIT_INPUT
@@ -169,7 +189,7 @@ def _solve(args: argparse.Namespace) -> int:
     if args.json:
         sys.stdout.write(trace.dumps())
     else:
-        sys.stdout.write(summary(trace.to_json()))
+        sys.stdout.write(terminal_safe(summary(trace.to_json())))
     return EXIT_OK
 
 
@@ -241,7 +261,7 @@ def _recheck(args: argparse.Namespace) -> int:
     if args.json:
         sys.stdout.write(json.dumps(report.to_json(), indent=1, ensure_ascii=False) + "\n")
     else:
-        sys.stdout.write(render_text(report))
+        sys.stdout.write(terminal_safe(render_text(report)))
     return EXIT_OK if report.ok else EXIT_INTERNAL
 
 
@@ -254,7 +274,7 @@ def _diff(args: argparse.Namespace) -> int:
     if args.json:
         sys.stdout.write(json.dumps(report.to_json(), indent=1, ensure_ascii=False) + "\n")
     else:
-        sys.stdout.write(render_text(report))
+        sys.stdout.write(terminal_safe(render_text(report)))
     return EXIT_OK if report.identical else EXIT_INTERNAL
 
 

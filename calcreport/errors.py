@@ -7,7 +7,9 @@
     │     carries every Problem found, each naming its key path and line
     ├── ConvergenceError (ArithmeticError)
     │                               an iteration did not converge; exit 1
-    └── TraceError (ValueError)     a trace file is unreadable; exit 2
+    ├── TraceError (ValueError)     a trace file is unreadable; exit 2
+    └── FileReadError (OSError)     a named file is not a regular file within its
+                                    size limit; the reader turns it into one of the above
 
 Errors build their message in ``__str__`` from structured attributes, so
 a caller can show the same facts in another form. Only the CLI prints and
@@ -21,10 +23,14 @@ from dataclasses import dataclass
 __all__ = [
     "CalcreportError",
     "ConvergenceError",
+    "FileReadError",
     "InputError",
     "Problem",
     "TraceError",
 ]
+
+
+MAX_LISTED = 50  # problems printed; the count says how many more there are
 
 
 class CalcreportError(Exception):
@@ -62,7 +68,9 @@ class InputError(CalcreportError, ValueError):
         head = f"{self.path}: " if self.path else ""
         noun = "problem" if count == 1 else "problems"
         lines = [f"{head}{count} {noun} in the input:"]
-        lines += [f"  - {p}" for p in self.problems]
+        lines += [f"  - {p}" for p in self.problems[:MAX_LISTED]]
+        if count > MAX_LISTED:
+            lines.append(f"  … and {count - MAX_LISTED:,} more; mend these and check again.")
         return "\n".join(lines)
 
 
@@ -92,3 +100,15 @@ class TraceError(CalcreportError, ValueError):
 
     def __str__(self) -> str:
         return f"{self.path}: not a readable calcreport trace: {self.reason}"
+
+
+class FileReadError(CalcreportError, OSError):
+    """A file named by the user cannot be read safely (see :mod:`calcreport.files`)."""
+
+    def __init__(self, path: str, reason: str) -> None:
+        self.path = path
+        self.reason = reason
+        super().__init__(str(self))
+
+    def __str__(self) -> str:
+        return f"{self.path}: {self.reason}"

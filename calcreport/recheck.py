@@ -37,7 +37,8 @@ from pathlib import Path
 from typing import Any
 
 from calcreport import __version__
-from calcreport.errors import TraceError
+from calcreport.errors import FileReadError, TraceError
+from calcreport.files import read_bounded
 
 __all__ = [
     "ABSOLUTE_FLOOR",
@@ -57,6 +58,8 @@ __all__ = [
 FORMAT = "calcreport-trace/1"
 REPORT_FORMAT = "calcreport-recheck/1"
 DEFAULT_TOLERANCE = 1e-9
+# A trace of thousands of pipes runs to tens of MB; anything far larger is not one.
+MAX_TRACE_BYTES = 256 * 1024 * 1024
 ABSOLUTE_FLOOR = 1e-12
 
 SCOPE = (
@@ -195,15 +198,10 @@ class RecheckReport:
 def read_trace(path: str | Path) -> dict[str, Any]:
     """Read a trace JSON file; raise :class:`TraceError` when it is not one."""
     name = str(path)
-    file = Path(path)
     try:
-        data = file.read_bytes()
-    except FileNotFoundError:
-        raise TraceError(name, "the file does not exist.") from None
-    except IsADirectoryError:
-        raise TraceError(name, "it is a folder, not a file.") from None
-    except OSError as exc:
-        raise TraceError(name, f"the file cannot be read ({exc.strerror or exc}).") from None
+        data = read_bounded(path, MAX_TRACE_BYTES)
+    except FileReadError as exc:
+        raise TraceError(name, exc.reason) from None
     try:
         text = data.decode("utf-8")
     except UnicodeDecodeError as exc:
@@ -211,13 +209,41 @@ def read_trace(path: str | Path) -> dict[str, Any]:
             name, f"it is not UTF-8 text (byte {exc.start} cannot be decoded)."
         ) from None
     try:
-        trace = json.loads(text)
+        trace = json.loads(
+            text, parse_constant=_no_constant, parse_float=_finite_float, parse_int=_whole
+        )
     except json.JSONDecodeError as exc:
         raise TraceError(
             name, f"it is not JSON ({exc.msg} at line {exc.lineno}, column {exc.colno})."
         ) from None
+    except _NotFinite as exc:
+        raise TraceError(name, f"it holds {exc}: a trace records finite numbers only.") from None
+    except RecursionError:
+        raise TraceError(name, "its values are nested too deeply to be a trace.") from None
     validate(trace, name)
     return trace
+
+
+class _NotFinite(ValueError):
+    """A number in a trace file that is no finite float (NaN, Infinity, 1e400)."""
+
+
+def _no_constant(token: str) -> float:
+    raise _NotFinite(f"the non-number {token}")
+
+
+def _finite_float(token: str) -> float:
+    value = float(token)
+    if not math.isfinite(value):
+        raise _NotFinite(f"the number {token[:40]}, beyond the range of a float")
+    return value
+
+
+def _whole(token: str) -> int | float:
+    """Integers as Python reads them, but none a float cannot hold."""
+    if len(token.lstrip("-")) > 300:
+        raise _NotFinite(f"an integer of {len(token)} digits")
+    return int(token)
 
 
 def validate(trace: Any, path: str = "trace") -> None:

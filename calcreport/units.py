@@ -44,30 +44,32 @@ class Kind:
     si_display: str
     us_display: str
     examples: str
+    # Magnitudes (SI) beyond any real pump system: a nonzero value outside them is refused.
+    bounds: tuple[float, float] = (1e-12, 1e12)
 
 
 KINDS: dict[str, Kind] = {
     k.name: k
     for k in (
-        Kind("length", "m", "m", "ft", '"6 m", "20 ft"'),
-        Kind("diameter", "m", "mm", "in", '"154.1 mm", "6.065 in"'),
-        Kind("roughness", "m", "mm", "in", '"0.045 mm", "0.0018 in"'),
-        Kind("flow", "m^3/s", "L/s", "gpm", '"22 L/s", "350 gpm", "80 m^3/h"'),
-        Kind("pressure", "Pa", "kPa", "psi", '"35 kPa", "5 psi", "0.5 bar"'),
-        Kind("modulus", "Pa", "GPa", "ksi", '"207 GPa", "30000 ksi"'),
-        Kind("temperature", "K", "degC", "degF", '"15 degC", "68 degF"'),
-        Kind("temperature_difference", "K", "K", "delta_degF", '"8 K", "15 delta_degF"'),
-        Kind("density", "kg/m^3", "kg/m^3", "lb/ft^3", '"880 kg/m^3", "62.3 lb/ft^3"'),
-        Kind("viscosity", "Pa*s", "mPa*s", "cP", '"0.25 Pa*s", "1.2 cP"'),
-        Kind("velocity", "m/s", "m/s", "ft/s", '"1.8 m/s", "6 ft/s"'),
-        Kind("power", "W", "kW", "hp", '"15 kW", "20 hp"'),
-        Kind("energy", "J", "kWh", "kWh", '"1200 kWh"'),
-        Kind("volume", "m^3", "m^3", "gallon", '"250000 m^3", "2 Mgallon"'),
-        Kind("specific_energy", "J/m^3", "kWh/m^3", "kWh/kgal", '"0.25 kWh/m^3"'),
-        Kind("speed", "1/s", "rpm", "rpm", '"2950 rpm"'),
-        Kind("time", "s", "s", "s", '"2 s"'),
-        Kind("angle", "rad", "deg", "deg", '"30 deg"'),
-        Kind("dimensionless", "", "", "", '0.72 or "72 %"'),
+        Kind("length", "m", "m", "ft", '"6 m", "20 ft"', (1e-6, 1e6)),
+        Kind("diameter", "m", "mm", "in", '"154.1 mm", "6.065 in"', (1e-4, 100.0)),
+        Kind("roughness", "m", "mm", "in", '"0.045 mm", "0.0018 in"', (1e-9, 1.0)),
+        Kind("flow", "m^3/s", "L/s", "gpm", '"22 L/s", "350 gpm", "80 m^3/h"', (1e-9, 1e4)),
+        Kind("pressure", "Pa", "kPa", "psi", '"35 kPa", "5 psi", "0.5 bar"', (1e-3, 1e11)),
+        Kind("modulus", "Pa", "GPa", "ksi", '"207 GPa", "30000 ksi"', (1e5, 1e13)),
+        Kind("temperature", "K", "degC", "degF", '"15 degC", "68 degF"', (1.0, 5000.0)),
+        Kind("temperature_difference", "K", "K", "delta_degF", '"8 K", "15 delta_degF"', (1e-6, 1000.0)),
+        Kind("density", "kg/m^3", "kg/m^3", "lb/ft^3", '"880 kg/m^3", "62.3 lb/ft^3"', (1e-3, 1e5)),
+        Kind("viscosity", "Pa*s", "mPa*s", "cP", '"0.25 Pa*s", "1.2 cP"', (1e-7, 1e5)),
+        Kind("velocity", "m/s", "m/s", "ft/s", '"1.8 m/s", "6 ft/s"', (1e-6, 1e4)),
+        Kind("power", "W", "kW", "hp", '"15 kW", "20 hp"', (1e-3, 1e10)),
+        Kind("energy", "J", "kWh", "kWh", '"1200 kWh"', (1e-3, 1e18)),
+        Kind("volume", "m^3", "m^3", "gallon", '"250000 m^3", "2 Mgallon"', (1e-9, 1e13)),
+        Kind("specific_energy", "J/m^3", "kWh/m^3", "kWh/kgal", '"0.25 kWh/m^3"', (1e-6, 1e12)),
+        Kind("speed", "1/s", "rpm", "rpm", '"2950 rpm"', (1e-3, 1e4)),
+        Kind("time", "s", "s", "s", '"2 s"', (1e-6, 1e10)),
+        Kind("angle", "rad", "deg", "deg", '"30 deg"', (1e-9, 10.0)),
+        Kind("dimensionless", "", "", "", '0.72 or "72 %"', (1e-12, 1e6)),
     )
 }
 
@@ -93,8 +95,15 @@ _DIMENSION_OF = {
     "dimensionless": "dimensionless",
 }
 
-# A leading number, then the unit expression (may be empty).
-_NUMBER = re.compile(r"^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
+# A quantity is a number, then a unit expression in our own small grammar, read before
+# the unit library sees it (the library would evaluate arithmetic such as "9**9**9"):
+# unit names, "*", "/", "·", parentheses, "1" (as in "1/s") and integer exponents.
+MAX_QUANTITY_CHARS = 120
+_NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
+_UNIT_TOKEN = re.compile(
+    r"\s+|[A-Za-z°µΩ_][A-Za-z0-9_°µΩ²³]*|(?:\^|\*\*)[+-]?\d{1,2}(?![\d.])|[*/·()%]|1(?![\d.])"
+)
+_UNIT_DEPTH = 4  # parentheses
 # A leading "nan" or "inf": pint or float() would read these, the input must not.
 _NOT_FINITE = re.compile(r"^\s*[+-]?(?:nan|inf(?:inity)?)\b", re.IGNORECASE)
 
@@ -198,26 +207,41 @@ def parse(value: Any, kind: str) -> float:
     if isinstance(value, bool):
         raise UnitProblem(f"Expected {expected(kind)}, got the boolean {shown}.")
     if isinstance(value, int | float):
+        if isinstance(value, int) and abs(value) > 10**15:
+            raise UnitProblem(f"The number {shown[:30]}… is far too large; {give}")
         if not math.isfinite(value):
             raise UnitProblem(f"The value {shown} is not a finite number; {give}")
         if kind != "dimensionless":
             raise UnitProblem(f"The bare number {shown} has no unit; {give}")
-        return float(value)
+        return _bounded(float(value), kind, shown, give)
     if not isinstance(value, str):
         raise UnitProblem(f"Expected {expected(kind)}, got {_noun(value)} {shown}.")
-    if _NOT_FINITE.match(value):
+    if len(value) > MAX_QUANTITY_CHARS:
+        raise UnitProblem(
+            f"The value {as_written(value[:40])}… has {len(value):,} characters; a quantity "
+            f"has at most {MAX_QUANTITY_CHARS}; {give}"
+        )
+    text = value.strip()
+    if _NOT_FINITE.match(text):
         raise UnitProblem(f"The value {shown} is not a finite number; {give}")
-    match = _NUMBER.match(value)
+    match = _NUMBER.match(text)
     if not match:
         raise UnitProblem(f"The value {shown} does not start with a number; {give}")
-    number = float(match.group(1))
-    unit = match.group(2).replace("%", "percent")
+    number = float(match.group(0))
+    unit = text[match.end() :].strip()
+    if re.match(r"^[,_]\d", unit):
+        raise UnitProblem(
+            f"The value {shown} cannot be read (write the number without thousands "
+            f"separators); {give}"
+        )
+    _check_unit_grammar(unit, shown, give)
+    unit = unit.replace("%", "percent")
     if not math.isfinite(number):
         raise UnitProblem(f"The value {shown} is not a finite number; {give}")
     if unit == "" and kind != "dimensionless":
         raise UnitProblem(f"The value {shown} has no unit; {give}")
     if unit == "":
-        return number
+        return _bounded(number, kind, shown, give)
     if kind == "temperature_difference" and unit in ("degC", "degF", "°C", "°F"):
         raise UnitProblem(
             f"{shown} reads as a temperature, not a difference of temperatures; write it in "
@@ -228,7 +252,7 @@ def parse(value: Any, kind: str) -> float:
         converted = number * fast[1] + fast[2]
         if not math.isfinite(converted):
             raise UnitProblem(f"The value {shown} is out of range; {give}")
-        return converted
+        return _bounded(converted, kind, shown, give)
     ureg = registry()
     import pint
 
@@ -261,7 +285,38 @@ def parse(value: Any, kind: str) -> float:
     result = float(result)
     if not math.isfinite(result):
         raise UnitProblem(f"The value {shown} is out of range; {give}")
-    return result
+    return _bounded(result, kind, shown, give)
+
+
+def _bounded(value: float, kind: str, shown: str, give: str) -> float:
+    """``value`` when zero or of a magnitude within the kind's bounds; else a problem."""
+    low, high = KINDS[kind].bounds
+    if value != 0.0 and not low <= abs(value) <= high:
+        si = KINDS[kind].si
+        unit = f" {si}" if si else ""
+        raise UnitProblem(
+            f"The value {shown} is beyond any real pump system: a nonzero {kind.replace('_', ' ')} "
+            f"lies between {low:g} and {high:g}{unit} in magnitude; {give}"
+        )
+    return value
+
+
+def _check_unit_grammar(unit: str, shown: str, give: str) -> None:
+    """Refuse a unit expression outside the grammar (linear in its length)."""
+    depth = position = 0
+    while position < len(unit):
+        token = _UNIT_TOKEN.match(unit, position)
+        if token is None:
+            raise UnitProblem(
+                f'The unit "{unit}" in {shown} cannot be read: write unit names joined by * '
+                f'and / with whole-number powers, such as "m^3/s" or "kg/m^3"; {give}'
+            )
+        depth += {"(": 1, ")": -1}.get(token.group(0), 0)
+        if not 0 <= depth <= _UNIT_DEPTH:
+            raise UnitProblem(f'The parentheses of the unit "{unit}" in {shown} do not match.')
+        position = token.end()
+    if depth:
+        raise UnitProblem(f'The parentheses of the unit "{unit}" in {shown} do not match.')
 
 
 def as_written(value: Any) -> str:

@@ -235,11 +235,28 @@ def test_source_that_comes_later(pump: dict[str, Any]):
 def test_non_finite_values(pump: dict[str, Any], tmp_path: Path):
     step(pump, "fluid.density")["value"] = math.nan
     step(pump, "pipe.S1.velocity")["arguments"]["D"]["value"] = math.inf
-    path = tmp_path / "nan.json"
-    path.write_text(json.dumps(pump), encoding="utf-8")  # NaN and Infinity, as Python writes
-    found = mismatched(recheck_file(path))
+    # In memory, each non-finite value is a mismatch of its step.
+    found = mismatched(recheck(pump))
     assert found["fluid.density"] == ["value"]
     assert found["pipe.S1.velocity"] == ["argument D"]
+    # A file holding NaN, Infinity or a number beyond a float is not a readable trace.
+    path = tmp_path / "nan.json"
+    path.write_text(json.dumps(pump), encoding="utf-8")  # NaN and Infinity, as Python writes
+    with pytest.raises(TraceError, match="finite numbers only"):
+        recheck_file(path)
+    big = tmp_path / "big.json"
+    big.write_text(json.dumps(pump).replace("NaN", "1e400"), encoding="utf-8")
+    with pytest.raises(TraceError, match="beyond the range of a float"):
+        recheck_file(big)
+
+
+def test_a_device_or_a_deep_nest_is_no_trace(tmp_path: Path):
+    with pytest.raises(TraceError, match="not a regular file"):
+        recheck_file("/dev/zero")
+    deep = tmp_path / "deep.json"
+    deep.write_text("[" * 100_000 + "]" * 100_000, encoding="utf-8")
+    with pytest.raises(TraceError, match="nested too deeply"):
+        recheck_file(deep)
 
 
 def test_equation_that_fails_on_the_recorded_arguments(pump: dict[str, Any]):

@@ -27,7 +27,8 @@ from pathlib import Path
 from typing import Any
 
 from calcreport import catalog
-from calcreport.errors import InputError, Problem
+from calcreport.errors import FileReadError, InputError, Problem
+from calcreport.files import read_bounded
 from calcreport.model.schema import (
     Component,
     Criteria,
@@ -190,6 +191,7 @@ MIN_CURVE_POINTS = 3
 # Bounds on what one input may hold: far beyond any real system, small enough that a
 # pasted or generated file cannot make a run take minutes or the report thousands of pages.
 MAX_FILE_BYTES = 2_000_000
+MAX_DEPTH = 16  # the format nests tables and arrays four deep at most
 MAX_TEXT = 2_000
 MAX_PIPES = 2_000
 MAX_FITTINGS = 200
@@ -388,14 +390,12 @@ class _Reader:
 
 def load(path: str | Path) -> Model:
     """Read and validate the input file at ``path``."""
-    file = Path(path)
     try:
-        raw = file.read_bytes()
-    except OSError as exc:
-        reason = (exc.strerror or type(exc).__name__).lower()
+        raw = read_bounded(path, MAX_FILE_BYTES)
+    except FileReadError as exc:
         raise InputError(
-            [Problem("<file>", f"The input file cannot be read: {reason}.")], str(path)
-        ) from exc
+            [Problem("<file>", f"The input file cannot be read: {exc.reason}")], str(path)
+        ) from None
     return loads(raw, str(path))
 
 
@@ -413,7 +413,7 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
             path,
         )
     try:
-        text = raw.decode("utf-8")
+        text = raw.decode("utf-8-sig")  # a byte-order mark, as some editors write, is dropped
     except UnicodeDecodeError as exc:
         line = raw[: exc.start].count(b"\n") + 1
         raise InputError(
@@ -429,6 +429,11 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
         ) from exc
     try:
         data = tomllib.loads(text)
+    except RecursionError:
+        raise InputError(
+            [Problem("<toml>", f"The file nests arrays or tables more than {MAX_DEPTH} deep.")],
+            path,
+        ) from None
     except tomllib.TOMLDecodeError as exc:
         found = re.search(r"line (\d+)", str(exc))
         line = int(found.group(1)) if found else None
@@ -437,6 +442,11 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
         raise InputError(
             [Problem("<toml>", f"The file is not valid TOML: {reason}.", line)], path
         ) from exc
+    if _depth(data) > MAX_DEPTH:
+        raise InputError(
+            [Problem("<toml>", f"The file nests arrays or tables more than {MAX_DEPTH} deep.")],
+            path,
+        )
     folder = Path(path).parent if path and not path.startswith("<") else None
     reader = _Reader(_Lines(text), folder)
     model = _build(reader, data, text, hashlib.sha256(raw).hexdigest(), path)
@@ -444,6 +454,21 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
         raise InputError(reader.problems, path)
     assert model is not None
     return model
+
+
+def _depth(data: Any) -> int:
+    """How deep arrays and tables nest in ``data`` (counted without recursion)."""
+    deepest, stack = 0, [(data, 1)]
+    while stack:
+        value, depth = stack.pop()
+        deepest = max(deepest, depth)
+        if depth > MAX_DEPTH:
+            break
+        if isinstance(value, dict):
+            stack += [(v, depth + 1) for v in value.values()]
+        elif isinstance(value, list):
+            stack += [(v, depth + 1) for v in value]
+    return deepest
 
 
 def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> Model | None:
@@ -866,12 +891,9 @@ def _curve_file(r: _Reader, name: Any) -> dict[str, list[str]] | None:
             )
             return None
     try:
-        raw = target.read_bytes()
-    except OSError as exc:
-        r.problem(where, f'The file "{name}" cannot be read: {(exc.strerror or str(exc)).lower()}.')
-        return None
-    if len(raw) > MAX_CSV_BYTES:
-        r.problem(where, f'The file "{name}" has {len(raw):,} bytes; at most {MAX_CSV_BYTES:,}.')
+        raw = read_bounded(target, MAX_CSV_BYTES)
+    except FileReadError as exc:
+        r.problem(where, f'The file "{name}" cannot be read: {exc.reason}')
         return None
     try:
         text = raw.decode("utf-8-sig")
@@ -1438,10 +1460,24 @@ def _components(r: _Reader, raw: Any, pipes: tuple[Pipe, ...]) -> tuple[Componen
         return ()
     ids = {p.id for p in pipes}
     found = []
+    seen: dict[str, str] = {}
     for index, data in enumerate(raw, start=1):
         path = f"component[{index}]"
         r.known_keys(data, path, _COMPONENT_KEYS)
         ident = r.text(data, "id", path, f"item {index}")
+        if ident in seen:
+            r.problem(
+                f"{path}.id",
+                f'The component id "{ident}" is already used by {seen[ident]}; give each '
+                "rated item an id of its own.",
+            )
+        elif ident == "casing" or ident.startswith("pipe."):
+            r.problem(
+                f"{path}.id",
+                f'The component id "{ident}" is reserved (the pump casing and the pipes are '
+                "rated under their own names); choose another.",
+            )
+        seen.setdefault(ident, path)
         at = r.text(data, "at", path, "")
         if "at" not in data:
             r.problem(f"{path}.at", 'Name the pipe the item is on, such as at = "D1".')
@@ -1761,6 +1797,17 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
         from calcreport.physics import glycol
 
         assert fluid.mass_fraction is not None
+        low, high = glycol.valid_range(glycol.CODE[fluid.kind], fluid.mass_fraction.value)
+        T = fluid.temperature
+        if not low <= T.value <= high:
+            r.problem(
+                T.key,
+                f"The {fluid.kind.replace('_', ' ')} solution at mass fraction "
+                f"{fluid.mass_fraction.value:g} is computed from its freezing point, "
+                f"{low - 273.15:.4g} degC, to {high - 273.15:.4g} degC; got "
+                f"{T.value - 273.15:.4g} degC.",
+            )
+            return
         p_v = glycol.raoult_vapor_pressure(
             fluid.temperature.value,
             fluid.mass_fraction.value,
@@ -1785,6 +1832,12 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
                 f"A vacuum of {-vessel.pressure.value / 1e3:.4g} kPa is below absolute "
                 f"zero at this site, where the barometric pressure is "
                 f"{p_baro / 1e3:.4g} kPa (absolute).",
+            )
+        elif fluid.kind in ("water", "seawater") and absolute > water.P_MAX:
+            r.problem(
+                vessel.pressure.key,
+                f"Liquid water is computed up to {water.P_MAX / 1e6:.4g} MPa (absolute); the "
+                f"{vessel.role} surface is at {absolute / 1e6:.4g} MPa.",
             )
         elif p_v > absolute:
             r.problem(

@@ -45,6 +45,16 @@ def _props() -> Any:
     return PropsSI
 
 
+def valid_range(fluid: str, w: float) -> tuple[float, float]:
+    """Temperatures [K] between which the property fit of ``fluid`` ("MEG" or "MPG") at mass
+    fraction ``w`` holds: from the solution's freezing point to the fit's upper limit."""
+    props = _props()
+    name = f"INCOMP::{fluid}[{w:.6g}]"
+    low = float(props("T_freeze", "T", 300.0, "P", 101325.0, name))
+    high = float(props("Tmax", "T", 300.0, "P", 101325.0, name))
+    return max(low, float(props("Tmin", "T", 300.0, "P", 101325.0, name))), high
+
+
 def _incomp(output: str, fluid: str, T: float, w: float) -> float:
     if not 0.0 < w <= MAX_FRACTION:
         raise ValueError(f"the glycol mass fraction {w:g} is outside 0 to {MAX_FRACTION:g}")

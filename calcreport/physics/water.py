@@ -42,6 +42,7 @@ _T_STAR_1 = 1386.0  # [K]
 _T_MIN_1 = 273.15  # [K]
 _T_MAX_1 = 623.15  # [K]
 _P_MAX_1 = 100.0e6  # [Pa]
+P_MAX = _P_MAX_1  # the highest pressure at which liquid water is computed [Pa]
 
 # (I_i, J_i, n_i), i = 1..34
 _REGION1: tuple[tuple[int, int, float], ...] = (
