@@ -39,6 +39,7 @@ from calcreport.physics import (
     water,
 )
 from calcreport.trace import Check, Trace, TraceBuilder, quantity
+from calcreport.trace import bound as _q  # a result naming its source
 
 __all__ = ["solve"]
 
@@ -2544,6 +2545,3 @@ def _flow_span(model: Model) -> tuple[float, float]:
         return model.flow_range[0].value, model.flow_range[1].value
     return 0.0, 1.5 * model.flow.value
 
-
-def _q(given: Given) -> dict[str, Any]:
-    return quantity(float(given.value), given.unit)

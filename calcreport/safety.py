@@ -27,6 +27,7 @@ from typing import TYPE_CHECKING, Any
 from calcreport.model.schema import Fitting, Given, Model, Pipe, Surge
 from calcreport.physics import head, losses, pump, route, surge, water
 from calcreport.trace import TraceBuilder, quantity
+from calcreport.trace import bound as _q  # a result naming its source
 
 if TYPE_CHECKING:
     from calcreport.calc import Case, CurvePoints, Liquid
@@ -144,10 +145,6 @@ class State:
     def pipe_nodes(self) -> dict[str, dict[str, Any]]:
         """The profile's pipe and flange nodes by name."""
         return {n["name"]: n for n in self.profile["nodes"] if "pipe" in n}
-
-
-def _q(given: Given) -> dict[str, Any]:
-    return quantity(float(given.value), given.unit)
 
 
 def _label(model: Model) -> Any:

@@ -44,6 +44,12 @@ def quantity(value: float, unit: str) -> dict[str, Any]:
     return {"value": value, "unit": unit}
 
 
+def bound(given: Given) -> dict[str, Any]:
+    """The JSON form of a result that names where it comes from (``from``: the step, input,
+    catalog datum, solver value or assumption of ``given``), so recheck can confirm it."""
+    return {"value": float(given.value), "unit": given.unit, "from": given.key}
+
+
 def _unit(doc_unit: str) -> str:
     return "" if doc_unit in ("-", "") else doc_unit
 

@@ -75,7 +75,7 @@ def test_every_example_confirms(example: Path, traces: dict[str, dict[str, Any]]
     report = recheck(trace)
     assert report.ok, render_text(report)
     n = len(trace["steps"])
-    assert report.verdict == f"recheck: {n} of {n} steps confirmed"
+    assert report.verdict == f"recheck: {n} of {n} steps confirmed, with the results, checks and status"
     assert {s.status for s in report.steps} == {"confirmed"}
     assert [s.id for s in report.steps] == [s["id"] for s in trace["steps"]]
     assert report.printed_compared
@@ -339,9 +339,13 @@ def test_values_near_zero_use_an_absolute_floor(traces: dict[str, dict[str, Any]
 
 
 def test_results_not_derived_from_a_step_are_listed(pump: dict[str, Any]):
+    # A result that names its source and no longer holds its value does not recheck.
     pump["results"]["total_dynamic_head"]["value"] = 99.0
+    assert not recheck(pump).ok
+    # One that names no source is compared with every recorded value: it is listed.
+    del pump["results"]["total_dynamic_head"]["from"]
     report = recheck(pump)
-    assert report.ok  # results are outside the steps' arithmetic
+    assert report.ok
     assert "results.total_dynamic_head" in report.untraced_results
     assert "Not covered:" in render_text(report)
 
@@ -392,7 +396,7 @@ def test_cli_confirms(pump: dict[str, Any], tmp_path: Path, capsys: pytest.Captu
     assert main(["recheck", str(path)]) == 0
     out, err = capsys.readouterr()
     n = len(pump["steps"])
-    assert out.rstrip().splitlines()[-1] == f"recheck: {n} of {n} steps confirmed"
+    assert out.rstrip().splitlines()[-1] == f"recheck: {n} of {n} steps confirmed, with the results, checks and status"
     assert "Mismatches" not in out
     assert err == ""
 
@@ -487,7 +491,7 @@ def test_solve_json_then_recheck(tmp_path: Path, capsys: pytest.CaptureFixture[s
     trace = tmp_path / "process_transfer_us.trace.json"
     trace.write_text(capsys.readouterr().out, encoding="utf-8")
     assert main(["recheck", str(trace)]) == 0
-    assert capsys.readouterr().out.rstrip().endswith("steps confirmed")
+    assert capsys.readouterr().out.rstrip().endswith("with the results, checks and status")
 
 
 def test_subprocess_exit_codes(pump: dict[str, Any], tmp_path: Path):
@@ -511,3 +515,56 @@ def test_tampered_assumption_number_is_caught(pump: dict[str, Any]):
     assumption["quantity"]["value"] = 0.95
     found = mismatched(recheck(pump))
     assert set(found) == users(pump, assumption["id"])
+
+
+# ---- results, checks and status are bound to the steps ------------------------------------
+
+
+def test_every_example_rechecks_with_its_results_checks_and_status(traces):
+    for name, trace in traces.items():
+        report = recheck(trace)
+        assert report.ok, (name, [f.what for f in report.bound])
+        assert not report.untraced_results and not report.untraced_checks, name
+        assert "with the results, checks and status" in report.verdict
+
+
+def test_a_result_replaced_by_another_steps_value_is_caught(pump):
+    # The forger keeps the source's name: the value no longer is that step's.
+    other = step(pump, "pipe.D1.friction_loss")["value"]
+    pump["results"]["total_dynamic_head"]["value"] = other
+    report = recheck(pump)
+    assert not report.ok
+    assert report.bound[0].what == "results.total_dynamic_head"
+    # ... or names the other step too: a state's TDH is its own TDH step.
+    pump["results"]["total_dynamic_head"]["from"] = "pipe.D1.friction_loss"
+    report = recheck(pump)
+    assert any(
+        f.what == "results.total_dynamic_head" and f.expected == "system.total_dynamic_head"
+        for f in report.bound
+    )
+
+
+def test_checks_all_set_to_pass_and_the_status_to_complies_are_caught(traces):
+    trace = copy.deepcopy(traces["reservoir_fill_si"])
+    failing = [c["id"] for c in trace["checks"] if c["status"] == "fail"]
+    assert failing  # the demo's pump trip and ratings fail
+    for c in trace["checks"]:
+        c["status"] = "pass"
+    trace["status"] = {"value": "for checking", "reason": "every check passes"}
+    report = recheck(trace)
+    assert not report.ok
+    caught = {f.what.split(" ")[1] for f in report.bound if f.what.startswith("check ")}
+    assert set(failing) <= caught
+    assert any(f.what == "status" and f.expected == "preliminary" for f in report.bound)
+
+
+def test_a_forged_trace_exits_1_from_the_command_line(pump, tmp_path, capsys):
+    pump["checks"][0]["status"] = "pass"
+    for c in pump["checks"]:
+        if c["status"] == "review" and c["value"] and c["limit"]:
+            c["status"] = "pass"  # a review whose value misses its limit, marked pass
+    path = tmp_path / "forged.trace.json"
+    path.write_text(json.dumps(pump), encoding="utf-8")
+    assert main(["recheck", str(path)]) == 1
+    out = capsys.readouterr().out
+    assert "do not hold" in out
