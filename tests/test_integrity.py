@@ -204,3 +204,42 @@ def test_interrupt_exits_130_with_one_line(monkeypatch, capsys):
     assert main(["check", "anything.toml"]) == 130
     err = capsys.readouterr().err
     assert err.count("\n") == 1 and "interrupted" in err and "Traceback" not in err
+
+
+# ---- the renderer takes anything the loader accepts -------------------------------------
+
+
+def _build(tmp_path: Path, text: str) -> list[str]:
+    pypdf = pytest.importorskip("pypdf")
+    path = tmp_path / "input.toml"
+    path.write_text(text, encoding="utf-8")
+    assert main(["build", str(path), "-o", str(tmp_path)]) == 0
+    return [page.extract_text() for page in pypdf.PdfReader(tmp_path / "input.pdf").pages]
+
+
+def test_fifty_fittings_on_one_pipe_and_fifty_revisions_build(tmp_path):
+    fittings = ", ".join('{ kind = "elbow_90_long_radius" }' for _ in range(50))
+    revisions = "".join(
+        f'\n[[revision]]\nrevision = "R{i}"\ndate = "2026-01-{i % 28 + 1:02d}"\n'
+        f'description = "Revision {i}: {"word " * 12}"\n'
+        for i in range(50)
+    )
+    text = BASE.replace("fittings = [{ K = 3.366 }", f"fittings = [{fittings}, {{ K = 3.366 }}")
+    text = text.replace("[fluid]", revisions + "\n[fluid]")
+    pages = _build(tmp_path, text)
+    flat = " ".join(" ".join(pages).split())
+    # The same catalog item fifty times is one entry, counted; the cover shows the latest
+    # revisions and says how many earlier ones the input holds.
+    assert "× 50" in flat
+    assert "46 earlier revisions" in flat and "R49" in pages[0]
+
+
+def test_math_markup_in_an_id_is_printed_as_written(tmp_path):
+    pages = _build(tmp_path, BASE.replace('id = "D1"', 'id = "$\\\\frac$"'))
+    assert "$\\frac$" in " ".join(pages)
+
+
+def test_a_long_input_line_is_echoed_in_pieces(tmp_path):
+    pages = _build(tmp_path, "# " + "x" * 20_000 + "\n" + BASE)
+    appendix = " ".join(pages[-8:])
+    assert appendix.count("↩") >= 100  # 20 000 characters at ~130 a printed line

@@ -106,6 +106,8 @@ _RC: dict[str, Any] = {
     "ytick.labelsize": FONT_PT,
     "legend.fontsize": FONT_PT,
     "mathtext.fontset": "dejavusans",
+    # Labels carry the input's own words (pipe ids, notes): never read "$...$" as math.
+    "text.parse_math": False,
     "text.color": INK,
     "axes.labelcolor": INK,
     "axes.edgecolor": "#555555",

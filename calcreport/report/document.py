@@ -61,6 +61,8 @@ _ANY_CASE = ("route", "surge")
 _CASE_PREFIX = re.compile(r"^C\d+\.")
 _PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
 _ROUTE_CHECKS = ("min_pressure", "pressure_rating", "surge")
+COVER_REVISIONS = 4  # the latest revisions shown on the cover
+MAX_FITTINGS_LISTED = 12  # fitting entries in a pipe's table row
 # Longest node table printed in full; a longer route prints its governing nodes.
 MAX_NODE_ROWS = 60
 
@@ -361,13 +363,20 @@ class _Report:
                 "checked_by": pr["checked_by"],
             }
         ]
+        # The cover holds the latest revisions; the input (Appendix C) holds them all.
+        earlier = len(history) - COVER_REVISIONS
         revisions = [["Rev.", "Date", "Description", "Prepared", "Checked"]] + [
             [
                 text(row[key])
                 for key in ("revision", "date", "description", "prepared_by", "checked_by")
             ]
-            for row in history
+            for row in history[-COVER_REVISIONS:]
         ]
+        if earlier > 0:
+            revisions.insert(
+                1, ["…", "", f"{earlier} earlier revision{'s' if earlier > 1 else ''}: see the "
+                    "input as entered (Appendix C)", "", ""]
+            )  # fmt: skip
         stamp = Table(
             [[Paragraph("Engineer's seal / stamp", s.small)]],
             colWidths=[45 * mm],
@@ -780,17 +789,25 @@ class _Report:
             kind = self.entered_value(f"{base}.kind")
             label = self.entered_value(f"{base}.note") or kind.replace("_", " ") or "item"
             how = f" ({text(kind)}, catalog)" if kind else ""
-            parts.append(f"{text(label)}{how}: K {fmt(K, 3)} × {fmt(count, 3)}")
+            item = f"{text(label)}{how}: K {fmt(K, 3)}"
+            if parts and parts[-1][0] == item:  # the same item again: one entry, counted
+                parts[-1][1] += count
+            else:
+                parts.append([item, count])
+        listed = [f"{item} × {fmt(count, 3)}" for item, count in parts]
         for n in range(1, 100):
             rated = self.steps_by_id.get(f"pipe.{ident}.equipment[{n}]")
             if rated is None:
                 break
-            parts.append(
+            listed.append(
                 f"{text(rated['title'].replace('Loss of ', ''))}: rated loss "
                 f"{self.q_both(rated['arguments']['dp'], 'pressure')} at "
                 f"{self.q(rated['arguments']['Q_rated'], 'flow')}"
             )
-        return "; ".join(parts) or "none"
+        if len(listed) > MAX_FITTINGS_LISTED:  # a table row cannot break across pages
+            more = len(listed) - MAX_FITTINGS_LISTED
+            listed = [*listed[:MAX_FITTINGS_LISTED], f"and {more} more (step pipe.{ident}.k_total)"]
+        return "; ".join(listed) or "none"
 
     @property
     def steps_by_id(self) -> dict[str, dict[str, Any]]:
@@ -1393,8 +1410,17 @@ class _Report:
             )
         )
         out.append(self.p(f"Input echoed verbatim (SHA-256 {text(inp['sha256'])}):", self.s.small))
+        # A monospaced line holds a fixed count of characters: longer lines are cut into
+        # pieces of that count (each ending in ↩), so layout time stays linear in the input.
+        from reportlab.pdfbase.pdfmetrics import stringWidth
+
+        mono = self.s.mono
+        per_line = max(20, int(self.width / stringWidth("M", mono.fontName, mono.fontSize)) - 1)
         for line in self.input_text.splitlines() or [""]:
-            out.append(Paragraph(text(line).replace(" ", "&nbsp;") or "&nbsp;", self.s.mono))
+            pieces = [line[i : i + per_line] for i in range(0, len(line), per_line)] or [""]
+            for n, piece in enumerate(pieces, start=1):
+                shown = text(piece).replace(" ", "&nbsp;") + ("↩" if n < len(pieces) else "")
+                out.append(Paragraph(shown or "&nbsp;", mono))
         return out
 
 
