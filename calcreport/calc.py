@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from pathlib import PurePath
 from typing import Any
 
 import numpy as np
@@ -262,7 +263,13 @@ def solve(model: Model) -> Trace:
     used = {s.reference for s in b.steps} | {c.reference for c in found} | {"input"}
     references = {k: v for k, v in catalog.references().items() if k in used}
     return Trace(
-        input={"path": model.path, "sha256": model.sha256, "files": list(model.files)},
+        # The file's name only: the trace and report bytes do not depend on how the path
+        # was spelt, and record no folder of the machine that built them.
+        input={
+            "path": PurePath(model.path).name or model.path,
+            "sha256": model.sha256,
+            "files": list(model.files),
+        },
         project={
             "title": model.project.title,
             "client": model.project.client,

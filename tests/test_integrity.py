@@ -243,3 +243,46 @@ def test_a_long_input_line_is_echoed_in_pieces(tmp_path):
     pages = _build(tmp_path, "# " + "x" * 20_000 + "\n" + BASE)
     appendix = " ".join(pages[-8:])
     assert appendix.count("↩") >= 100  # 20 000 characters at ~130 a printed line
+
+
+# ---- all-or-nothing output ----------------------------------------------------------------
+
+
+def test_a_failed_replacement_puts_the_previous_set_back(tmp_path, monkeypatch):
+    import calcreport.output as output
+
+    targets = [tmp_path / "a.pdf", tmp_path / "a.trace.json", tmp_path / "a.pages.json"]
+    for path in targets:
+        path.write_bytes(b"old " + path.name.encode())
+    real = os.replace
+    calls = {"n": 0}
+
+    def failing(source, target):
+        if str(source).endswith(".part"):
+            calls["n"] += 1
+            if calls["n"] == 2:
+                raise PermissionError(13, "Permission denied")
+        return real(source, target)
+
+    monkeypatch.setattr(output.os, "replace", failing)
+    with pytest.raises(OSError) as err:
+        output.write_all({path: b"new" for path in targets})
+    assert err.value.filename == str(targets[1])  # the file asked for, not a temporary
+    for path in targets:
+        assert path.read_bytes() == b"old " + path.name.encode()
+    assert sorted(p.name for p in tmp_path.iterdir()) == sorted(p.name for p in targets)
+
+
+def test_a_rebuild_keeps_file_modes_and_bytes_do_not_depend_on_the_path(tmp_path, monkeypatch):
+    path = tmp_path / "case.toml"
+    path.write_text(BASE, encoding="utf-8")
+    assert main(["build", str(path), "-o", str(tmp_path / "a")]) == 0
+    pdf = tmp_path / "a" / "case.pdf"
+    os.chmod(pdf, 0o640)
+    monkeypatch.chdir(tmp_path)
+    assert main(["build", "./a/../case.toml", "-o", "a"]) == 0
+    assert os.stat(pdf).st_mode & 0o777 == 0o640
+    assert main(["build", "case.toml", "-o", "b"]) == 0
+    for name in ("case.pdf", "case.trace.json"):
+        assert (tmp_path / "a" / name).read_bytes() == (tmp_path / "b" / name).read_bytes()
+    assert str(tmp_path) not in (tmp_path / "b" / "case.trace.json").read_text(encoding="utf-8")
