@@ -13,6 +13,7 @@ import json
 import os
 import re
 import sys
+import warnings
 from collections.abc import Sequence
 from pathlib import Path
 from typing import Any
@@ -120,7 +121,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit status."""
     args = _parser().parse_args(argv)
     try:
-        return int(_COMMANDS[args.command](args))
+        with warnings.catch_warnings():
+            # Array sweeps meet 0/0 at zero flow and mask it; numpy's notice of it is noise.
+            warnings.simplefilter("ignore", RuntimeWarning)
+            return int(_COMMANDS[args.command](args))
     except KeyboardInterrupt:
         sys.stderr.write("calcreport: interrupted; nothing was written.\n")
         return EXIT_INTERRUPTED

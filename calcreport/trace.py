@@ -209,11 +209,20 @@ class Trace:
 
 # One encoder for every item: json.dumps with options builds a new one each call, and
 # JSONEncoder.encode a new C encoder; the C encoder is made once (no circular check:
-# the trace is a tree).
-_ENCODER = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "))
+# the trace is a tree). Neither writes NaN or Infinity, which are not JSON: a trace
+# holding one is a defect to report, not a file for others to misread.
+_ENCODER = json.JSONEncoder(ensure_ascii=False, separators=(", ", ": "), allow_nan=False)
 _C_ENCODER = (
     json.encoder.c_make_encoder(
-        None, _ENCODER.default, json.encoder.encode_basestring, None, ": ", ", ", False, False, True
+        None,
+        _ENCODER.default,
+        json.encoder.encode_basestring,
+        None,
+        ": ",
+        ", ",
+        False,
+        False,
+        False,
     )
     if json.encoder.c_make_encoder is not None
     else None

@@ -70,6 +70,20 @@ HOSTILE = [
     '"1e6 m"',
     '["1 m", "2 m"]',
     '{ unit = "m", values = [] }',
+    # At and beyond the loader's bounds: magnitudes, the quantity grammar, its length cap.
+    '"1e-6 m"',
+    '"1e-7 m"',
+    '"1e6 m"',
+    '"1.1e6 m"',
+    '"1e4 m^3/s"',
+    '"2e4 m^3/s"',
+    '"1e11 Pa"',
+    '"2e11 Pa"',
+    '"5001 K"',
+    '"1 m * 9**9**9"',
+    '"2 m^99"',
+    f'"1{" " * 200}m"',
+    "99999999999999999999999999",
 ]
 
 _ASSIGN = re.compile(r"^(\s*[A-Za-z_][\w-]*\s*=\s*)(.+)$")
@@ -146,3 +160,25 @@ def test_fuzz_statistics_are_meaningful():
         pytest.skip("the property test did not run first")
     assert RUNS[0] >= 250
     assert len(MESSAGES) >= 20
+
+
+@settings(
+    max_examples=8,
+    deadline=None,
+    derandomize=True,
+    suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow],
+)
+@given(
+    source=st.integers(0, len(SOURCES) - 1),
+    edit=st.tuples(st.integers(1, 1), st.integers(0, 10_000), st.integers(0, 10_000)),
+)
+def test_what_the_loader_accepts_the_renderer_builds(tmp_path_factory, capsys, source, edit):
+    """A hostile value that still loads goes through the whole build: no exit 1."""
+    text = _corrupt(SOURCES[source], *edit)
+    folder = tmp_path_factory.mktemp("fuzzbuild")
+    path = folder / "input.toml"
+    path.write_text(text, encoding="utf-8")
+    code = main(["build", str(path), "-o", str(folder)])
+    out = capsys.readouterr()
+    assert code in (0, 2), f"build exit {code}: {out.err}\n--- input ---\n{text}"
+    assert "internal error" not in out.err

@@ -286,3 +286,52 @@ def test_a_rebuild_keeps_file_modes_and_bytes_do_not_depend_on_the_path(tmp_path
     for name in ("case.pdf", "case.trace.json"):
         assert (tmp_path / "a" / name).read_bytes() == (tmp_path / "b" / name).read_bytes()
     assert str(tmp_path) not in (tmp_path / "b" / "case.trace.json").read_text(encoding="utf-8")
+
+
+# ---- the equation-layout cache -------------------------------------------------------------
+
+
+@pytest.mark.parametrize("content", ["[1, 2, 3]", '{"k": [1, 2, 3, [["x"]], []]}', "{", "nul\0"])
+def test_a_wrong_cache_file_is_ignored_and_rewritten(tmp_path, monkeypatch, content):
+    from calcreport.report import mathtext
+
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
+    mathtext._stored.cache_clear()
+    path = mathtext._cache_file()
+    assert path is not None
+    path.parent.mkdir(parents=True)
+    path.write_text(content, encoding="utf-8")
+    try:
+        _build(tmp_path, BASE)
+    finally:
+        mathtext._stored.cache_clear()
+    # A fresh process rewrites the file whole, in the shape this module reads.
+    import json
+    import subprocess
+    import sys
+
+    source = tmp_path / "fresh.toml"
+    source.write_text(BASE, encoding="utf-8")
+    env = {**os.environ, "XDG_CACHE_HOME": str(tmp_path / "cache")}
+    run = subprocess.run(
+        [sys.executable, "-m", "calcreport", "build", str(source), "-o", str(tmp_path / "o")],
+        env=env, capture_output=True, text=True, timeout=300,
+    )  # fmt: skip
+    assert run.returncode == 0, run.stderr
+    assert mathtext._well_formed(json.loads(path.read_text(encoding="utf-8")))
+
+
+def test_no_home_folder_turns_the_cache_off(tmp_path, monkeypatch):
+    from calcreport.report import mathtext
+
+    def no_home() -> Path:
+        raise RuntimeError("Could not determine home directory.")
+
+    monkeypatch.delenv("XDG_CACHE_HOME", raising=False)
+    monkeypatch.setattr(mathtext.Path, "home", staticmethod(no_home))
+    mathtext._stored.cache_clear()
+    try:
+        assert mathtext._cache_file() is None
+        _build(tmp_path, BASE)
+    finally:
+        mathtext._stored.cache_clear()

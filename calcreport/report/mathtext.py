@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+import math
 import os
 from functools import cache
 from pathlib import Path
@@ -106,20 +107,54 @@ def _cache_file() -> Path | None:
 
     where = f"{matplotlib.__version__}\0{matplotlib.get_data_path()}\0{__version__}"
     name = f"mathtext-{hashlib.sha256(where.encode()).hexdigest()[:16]}.json"
-    root = os.environ.get("XDG_CACHE_HOME") or Path.home() / ".cache"
+    root = os.environ.get("XDG_CACHE_HOME")
+    if not root:
+        try:
+            root = str(Path.home() / ".cache")
+        except (RuntimeError, KeyError):  # no home folder: no cache, the build goes on
+            return None
     return Path(root) / "calcreport" / name
 
 
 @cache
 def _stored() -> dict[str, list[Any]]:
-    """The layouts of the cache file (none when it is off, absent or unreadable)."""
+    """The layouts of the cache file (none when it is off, absent, unreadable or not of the
+    shape this module writes: a wrong file is ignored, and rewritten by the next save)."""
     path = _cache_file()
     try:
         data = json.loads(path.read_text(encoding="utf-8")) if path else {}
-    except (OSError, ValueError):
+    except (OSError, ValueError, RecursionError):
+        return {}
+    if not _well_formed(data):
         return {}
     fonts = {glyph[0] for layout in data.values() for glyph in layout[3]}
-    return data if isinstance(data, dict) and all(Path(f).is_file() for f in fonts) else {}
+    return data if all(Path(f).is_file() for f in fonts) else {}
+
+
+def _well_formed(data: Any) -> bool:
+    """Whether ``data`` maps keys to [width, ascent, depth, glyphs, rules] as written."""
+
+    def number(v: Any) -> bool:
+        return isinstance(v, int | float) and not isinstance(v, bool) and math.isfinite(v)
+
+    if not isinstance(data, dict):
+        return False
+    for key, layout in data.items():
+        if not (isinstance(key, str) and isinstance(layout, list) and len(layout) == 5):
+            return False
+        if not all(number(v) for v in layout[:3]):
+            return False
+        glyphs, rules = layout[3], layout[4]
+        if not isinstance(glyphs, list) or not isinstance(rules, list):
+            return False
+        for g in glyphs:
+            if not (isinstance(g, list) and len(g) == 5 and isinstance(g[0], str)
+                    and isinstance(g[2], str) and all(number(v) for v in (g[1], g[3], g[4]))):
+                return False  # fmt: skip
+        for r in rules:
+            if not (isinstance(r, list) and len(r) == 4 and all(number(v) for v in r)):
+                return False
+    return True
 
 
 def save_layouts() -> None:
