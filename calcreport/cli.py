@@ -29,6 +29,7 @@ EXIT_INPUT = 2
 EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report an interrupted command
 
 STARTER = Path(__file__).with_name("templates") / "starter.toml"
+_ANYWHERE = "read a curve file the input names from outside the input's folder"
 
 
 class _Parser(argparse.ArgumentParser):
@@ -59,9 +60,11 @@ def _parser() -> argparse.ArgumentParser:
 
     check = commands.add_parser("check", help="validate an input file (exit 0 or 2)")
     check.add_argument("input", help="the input TOML file")
+    check.add_argument("--files-anywhere", action="store_true", help=_ANYWHERE)
 
     solve = commands.add_parser("solve", help="solve and print a summary, or the trace JSON")
     solve.add_argument("input", help="the input TOML file")
+    solve.add_argument("--files-anywhere", action="store_true", help=_ANYWHERE)
     solve.add_argument(
         "--json",
         action="store_true",
@@ -69,6 +72,7 @@ def _parser() -> argparse.ArgumentParser:
     )
     build = commands.add_parser("build", help="write the PDF report and the trace JSON")
     build.add_argument("input", help="the input TOML file")
+    build.add_argument("--files-anywhere", action="store_true", help=_ANYWHERE)
     build.add_argument(
         "-o",
         "--output",
@@ -180,7 +184,7 @@ def _new(args: argparse.Namespace) -> int:
 def _check(args: argparse.Namespace) -> int:
     from calcreport.model.loader import load
 
-    model = load(args.input)
+    model = load(args.input, args.files_anywhere)
     print(f"{args.input}: valid ({len(model.pipes)} pipes)")
     return EXIT_OK
 
@@ -189,7 +193,7 @@ def _solve(args: argparse.Namespace) -> int:
     from calcreport.calc import solve
     from calcreport.model.loader import load
 
-    trace = solve(load(args.input))
+    trace = solve(load(args.input, args.files_anywhere))
     if args.json:
         sys.stdout.write(trace.dumps())
     else:
@@ -204,7 +208,7 @@ def _build(args: argparse.Namespace) -> int:
     from calcreport.report import render
 
     source = Path(args.input)
-    model = load(source)
+    model = load(source, args.files_anywhere)
     trace = solve(model)
     folder = Path(args.output) if args.output else source.parent
     if folder.exists() and not folder.is_dir():

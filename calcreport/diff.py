@@ -244,9 +244,11 @@ def _is_number(value: Any) -> bool:
 
 
 def _close(a: float, b: float) -> bool:
-    if a == b or (math.isnan(a) and math.isnan(b)):
-        return True
-    return abs(a - b) <= THRESHOLD * max(abs(a), abs(b))
+    """Equal to the threshold; a change to or from a non-finite value is always a change
+    (inf − 1 ≤ threshold × inf would call them equal)."""
+    if not (math.isfinite(a) and math.isfinite(b)):
+        return False
+    return a == b or abs(a - b) <= THRESHOLD * max(abs(a), abs(b))
 
 
 def _same(a: Any, b: Any) -> bool:

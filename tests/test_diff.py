@@ -216,3 +216,16 @@ def test_cli_unreadable(old: dict[str, Any], tmp_path: Path, capsys: pytest.Capt
     assert "Traceback" not in err
     assert main(["diff", str(good), str(tmp_path / "absent.json")]) == 2
     assert "the file does not exist." in capsys.readouterr().err
+
+
+def test_a_value_becoming_non_finite_is_a_change(old: dict[str, Any], tmp_path: Path):
+    import math
+
+    forged = copy.deepcopy(old)
+    forged["results"]["total_dynamic_head"]["value"] = math.inf
+    assert not diff(old, forged).identical
+    forged["results"]["total_dynamic_head"]["value"] = math.nan
+    assert not diff(old, forged).identical
+    # From a file, a non-finite value makes the trace unreadable: exit 2.
+    path = write(tmp_path, forged, "forged.json")
+    assert main(["diff", str(write(tmp_path, old, "old.json")), str(path)]) == 2

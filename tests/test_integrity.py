@@ -163,9 +163,14 @@ def test_a_curve_file_that_is_a_device_is_refused(tmp_path):
     )
     path = tmp_path / "input.toml"
     path.write_text(text, encoding="utf-8")
+    # Outside the input's folder: refused unless the user allows files elsewhere.
     with pytest.raises(InputError) as err:
         load(path)
+    assert any("outside the input's folder" in p.message for p in err.value.problems)
+    with pytest.raises(InputError) as err:
+        load(path, files_anywhere=True)
     assert any("not a regular file" in p.message for p in err.value.problems)
+    assert main(["check", "--files-anywhere", str(path)]) == 2
 
 
 def test_previous_trace_that_is_a_device_is_refused(tmp_path, capsys):

@@ -266,10 +266,13 @@ class _Lines:
 class _Reader:
     """Reads values from parsed TOML, collecting every problem found."""
 
-    def __init__(self, lines: _Lines, folder: Path | None = None) -> None:
+    def __init__(
+        self, lines: _Lines, folder: Path | None = None, outside: bool = False
+    ) -> None:
         self.lines = lines
         self.problems: list[Problem] = []
         self.folder = folder or Path.cwd()
+        self.outside = outside  # files the input names may lie outside its folder
         self.files: list[dict[str, str]] = []  # other files read: path and SHA-256
 
     def problem(self, key: str, message: str) -> None:
@@ -388,18 +391,19 @@ class _Reader:
         return value
 
 
-def load(path: str | Path) -> Model:
-    """Read and validate the input file at ``path``."""
+def load(path: str | Path, files_anywhere: bool = False) -> Model:
+    """Read and validate the input file at ``path``; the files it names (a curve file) lie
+    in its folder or below it unless ``files_anywhere``."""
     try:
         raw = read_bounded(path, MAX_FILE_BYTES)
     except FileReadError as exc:
         raise InputError(
             [Problem("<file>", f"The input file cannot be read: {exc.reason}")], str(path)
         ) from None
-    return loads(raw, str(path))
+    return loads(raw, str(path), files_anywhere)
 
 
-def loads(raw: bytes, path: str = "<input>") -> Model:
+def loads(raw: bytes, path: str = "<input>", files_anywhere: bool = False) -> Model:
     """Validate the bytes of an input file; ``path`` names it in messages."""
     if len(raw) > MAX_FILE_BYTES:
         raise InputError(
@@ -448,7 +452,7 @@ def loads(raw: bytes, path: str = "<input>") -> Model:
             path,
         )
     folder = Path(path).parent if path and not path.startswith("<") else None
-    reader = _Reader(_Lines(text), folder)
+    reader = _Reader(_Lines(text), folder, files_anywhere)
     model = _build(reader, data, text, hashlib.sha256(raw).hexdigest(), path)
     if reader.problems:
         raise InputError(reader.problems, path)
@@ -880,14 +884,15 @@ def _curve_file(r: _Reader, name: Any) -> dict[str, list[str]] | None:
         return None
     given = Path(name)
     target = given if given.is_absolute() else (r.folder / given)
-    if not given.is_absolute():
+    if not r.outside:
         try:
             target.resolve().relative_to(r.folder.resolve())
-        except ValueError:
+        except (ValueError, OSError, RuntimeError):
             r.problem(
                 where,
-                f'The file "{name}" lies outside the input\'s folder; give a '
-                "path inside it, or an absolute path.",
+                f'The file "{name}" lies outside the input\'s folder; keep it beside the '
+                "input (or in a folder below it), or allow files elsewhere with "
+                "--files-anywhere.",
             )
             return None
     try:
