@@ -340,3 +340,10 @@ def test_no_home_folder_turns_the_cache_off(tmp_path, monkeypatch):
         _build(tmp_path, BASE)
     finally:
         mathtext._stored.cache_clear()
+
+
+def test_very_long_unbroken_words_build(tmp_path):
+    text = BASE.replace('title = "Check case: two open tanks"', 'title = "' + "W" * 1900 + '"')
+    text = text.replace('note = "exit"', 'note = "' + "Z" * 1500 + '"')
+    pages = _build(tmp_path, text)
+    assert len(pages) > 10
