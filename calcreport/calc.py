@@ -377,10 +377,20 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
 
     pumps = "" if count.value == 1 else f", {duty.value:g} of {count.value:g} pumps running"
     case(f"Design: normal levels, new pipe{pumps}", (src.level, dst.level), duty)
+    def extremes(source: str | None, destination: str | None) -> str:
+        """Which levels a static-head case moves: only those the input gives a range of."""
+        return ", ".join(
+            f"{vessel} {level}"
+            for vessel, level in (("source", source), ("destination", destination))
+            if level
+        )
+
     if src.level_low or dst.level_high:
-        case(f"Highest static head: source low, destination high{pumps}", high, duty)
+        moved = extremes("low" if src.level_low else None, "high" if dst.level_high else None)
+        case(f"Highest static head: {moved}{pumps}", high, duty)
     if src.level_high or dst.level_low:
-        case(f"Lowest static head: source high, destination low{pumps}", low, duty)
+        moved = extremes("high" if src.level_high else None, "low" if dst.level_low else None)
+        case(f"Lowest static head: {moved}{pumps}", low, duty)
     flows = sorted(model.envelope.flows, key=lambda q: q.value)
     if flows:
         peak, least = flows[-1], flows[0]
@@ -1219,7 +1229,7 @@ def _thermal_min_flow(
     Q = b.step(
         "pump.thermal_min_flow",
         "Thermal minimum flow (temperature rise at the limit)",
-        pump.solved_flow,
+        pump.thermal_flow,
         Q=b.solution(
             "solver.thermal_min_flow",
             found,
@@ -1235,7 +1245,11 @@ def _thermal_min_flow(
     rise = b.step("pump.thermal.temperature_rise", "Temperature rise at the thermal minimum flow",
                   pump.temperature_rise, H=H, eta=eta, cp=cp)  # fmt: skip
     given = model.criteria.given.get("temperature_rise_max")
-    limit_given = given or b.datum("catalog.criteria.temperature_rise_max", limit, "K")
+    limit_given = (
+        Given(limit, "delta_degC", given.key)  # a difference, not a temperature
+        if given
+        else b.datum("catalog.criteria.temperature_rise_max", limit, "delta_degC")
+    )
     return {
         "flow": _q(Q),
         "temperature_rise": _q(rise),

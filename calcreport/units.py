@@ -418,7 +418,18 @@ def fmt(x: float, sig: int = 5) -> str:
     return f"{x:.{sig - 1}e}"
 
 
-_PRETTY = (("**", "^"), ("^3", "³"), ("^2", "²"), ("*", "·"), ("degC", "°C"), ("degF", "°F"))
+# A difference of temperatures prints as K in SI (1 K = 1 °C of difference) and as °F of
+# difference in US units.
+_PRETTY = (
+    ("delta_degC", "K"),
+    ("delta_degF", "°F (difference)"),
+    ("**", "^"),
+    ("^3", "³"),
+    ("^2", "²"),
+    ("*", "·"),
+    ("degC", "°C"),
+    ("degF", "°F"),
+)
 
 
 @cache

@@ -37,6 +37,7 @@ __all__ = [
     "efficiency_at",
     "flow_ratio",
     "region_flow",
+    "thermal_flow",
     "efficiency_from_power",
     "head_at",
     "head_balance",
@@ -603,6 +604,54 @@ def _solved_text(values: dict[str, Any], result: float, fmt: Any) -> str:
     )
 
 
+def _thermal_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    return (
+        f"Q = {fmt(values['Q'])} m³/s, the flow between the first curve point and the BEP "
+        "where ΔT(Q) = ΔT_max, bracketed and refined by the Illinois method; confirmed by "
+        "the temperature-rise step at that flow"
+    )
+
+
+@equation(
+    symbol="Q_th",
+    text="Q_th: ΔT(Q_th) = ΔT_max",
+    latex=r"\Delta T(Q_{th}) = \Delta T_{max}",
+    substitute=_thermal_text,
+    reference="karassik_2008",
+)
+def thermal_flow(Q: Any) -> Any:
+    r"""The thermal minimum flow found by the root finder, recorded as a step.
+
+    .. math:: \Delta T(Q_{th}) = \Delta T_{max}
+
+    Parameters
+    ----------
+    Q : float
+        Flow returned by the root finder [m^3/s]
+
+    Returns
+    -------
+    Q_th : float
+        Thermal minimum flow [m^3/s]
+
+    Notes
+    -----
+    The value is the solver's; the temperature-rise step at this flow, whose
+    result is the limit, proves it.
+
+    Examples
+    --------
+    >>> thermal_flow(0.004)
+    0.004
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008
+       (temperature rise through a pump at low flow).
+    """
+    return Q
+
+
 @equation(
     symbol="Q/Q_BEP",
     text="Q/Q_BEP = Q / Q_BEP",
@@ -1103,7 +1152,7 @@ def temperature_rise(H: Any, eta: Any, cp: Any) -> Any:
     Returns
     -------
     dT : float
-        Temperature rise from suction to discharge [K]
+        Temperature rise from suction to discharge (a difference) [delta_degC]
 
     Notes
     -----

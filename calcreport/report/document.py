@@ -61,6 +61,10 @@ _ANY_CASE = ("route", "surge")
 _CASE_PREFIX = re.compile(r"^C\d+\.")
 _PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
 _ROUTE_CHECKS = ("min_pressure", "pressure_rating", "surge")
+# Equations whose result is a sum of money, printed in the input's currency.
+_MONEY = frozenset(
+    {"power.annual_cost", "power.cost_sum", "power.demand_cost", "power.present_value"}
+)
 COVER_REVISIONS = 4  # the latest revisions shown on the cover
 MAX_FITTINGS_LISTED = 12  # fitting entries in a pipe's table row
 # Longest node table printed in full; a longer route prints its governing nodes.
@@ -72,6 +76,7 @@ _KIND_OF_UNIT = {
     "m^3/s": "flow",
     "Pa": "pressure",
     "K": "temperature",
+    "delta_degC": "temperature_difference",
     "kg/m^3": "density",
     "Pa*s": "viscosity",
     "m/s": "velocity",
@@ -898,6 +903,8 @@ class _Report:
         parts.append(self.p(text(st["substituted"]), s.substituted))
         result = {"value": st["value"], "unit": st["unit"]}
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
+        if st["function"] in _MONEY:  # a sum of money: in the project's currency
+            result_text += f" {text(self.entered_value('operation.currency') or '')}".rstrip()
         inputs = ", ".join(text(i) for i in _key_runs(st["inputs"]))
         parts.append(
             self.p(

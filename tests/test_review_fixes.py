@@ -1,0 +1,48 @@
+"""Plan-checker review fixes: what a reviewer reads, shown right.
+
+Each test failed before its fix: a temperature rise printed as an absolute temperature, the
+thermal minimum flow described as the operating point, a cost without its currency, a case
+titled by a level range the input does not give.
+"""
+
+from pathlib import Path
+
+import pytest
+
+from calcreport.calc import solve
+from calcreport.cli import main
+from calcreport.model.loader import load
+
+pypdf = pytest.importorskip("pypdf")
+EXAMPLES = Path(__file__).parent.parent / "input_examples"
+
+
+@pytest.fixture(scope="module")
+def cooling(tmp_path_factory):
+    out = tmp_path_factory.mktemp("cooling")
+    assert main(["build", str(EXAMPLES / "cooling_water_selected_pump.toml"), "-o", str(out)]) == 0
+    pdf = pypdf.PdfReader(out / "cooling_water_selected_pump.pdf")
+    return " ".join(" ".join(page.extract_text() for page in pdf.pages).split())
+
+
+def test_a_temperature_rise_prints_as_a_difference(cooling):
+    # 8 K of rise (the default limit, common practice) is neither 8 degC nor -265.1 degC.
+    assert "Result: ΔT = 8.000 K" in cooling
+    assert "-265" not in cooling and "−265" not in cooling
+
+
+def test_the_thermal_minimum_flow_says_what_it_solves(cooling):
+    start = cooling.index("[pump.thermal_min_flow]")
+    line = cooling[start : start + 400]
+    assert "ΔT(Q) = ΔT_max" in line and "H_pump(Q) − H_system(Q)" not in line
+
+
+def test_a_cost_prints_with_its_currency(cooling):
+    assert "Result: C = 7782 EUR" in cooling
+
+
+def test_a_case_names_only_the_level_ranges_given():
+    t = solve(load(EXAMPLES / "process_transfer_us.toml"))  # source range only
+    titles = [c["title"] for c in t.cases]
+    assert "Highest static head: source low" in titles
+    assert not any("destination" in title for title in titles)
