@@ -114,6 +114,7 @@ def _friction_factor_array(Re: Any, eD: Any) -> Any:
 def solve(model: Model) -> Trace:
     """Solve the pump system of ``model`` and return its trace."""
     b = TraceBuilder()
+    notes: list[str] = []
     _record_inputs(b, model)
     b.assume("Velocity at the source and destination liquid surfaces is zero (large vessels).")
     b.assume("Flow is steady, incompressible and isothermal; pipes run full.")
@@ -121,6 +122,27 @@ def solve(model: Model) -> Trace:
     liquid = _liquid(b, model, p_baro)
     if model.source.level_low:
         b.assume("NPSH available is taken at the lowest source level, source.level_low.")
+    if model.envelope.roughness is None:
+        notes.append(
+            "No aged-pipe state is given: the heads use new-pipe roughness, which understates "
+            "them as the pipe ages (common practice, no published source, is to check an aged "
+            'state): give envelope.roughness, such as "0.5 mm", on the project\'s basis.'
+        )
+    lowest = model.source.level_low or model.source.level
+    if model.pump.elevation.value > lowest.value:
+        from calcreport.units import show
+
+        lift = show(
+            {"value": model.pump.elevation.value - lowest.value, "unit": "m"},
+            "length",
+            model.project.units,
+        )
+        notes.append(
+            f"Suction lift: the pump stands {lift} above the lowest source level. It must be "
+            "primed before it starts and kept primed (a foot valve, a priming system or a "
+            "self-priming pump), and the suction line must be free of air leaks; the practical "
+            "lift is well below the barometric limit, and the NPSH margin here decides it."
+        )
     exit_head = _exit_head(b, model)
     p_source = _surface_pressure(b, model.source, liquid, p_baro)
     p_dest = _surface_pressure(b, model.destination, liquid, p_baro)
@@ -130,7 +152,6 @@ def solve(model: Model) -> Trace:
         else b.assume("No variable-speed drive: drive efficiency 1.", 1.0, "")
     )
     curve = _pump_curve(b, model)
-    notes: list[str] = []
     surfaces = (p_baro, p_source, p_dest, exit_head)
     cases = _cases(b, model)
     by_case: dict[str, dict[str, Any]] = {}

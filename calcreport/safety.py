@@ -1129,11 +1129,25 @@ class Route:
                 "A pipe with expansion joints throughout has the restraint factor c1 = 1.", 1.0, ""
             )
         else:
-            c1 = b.assume(
-                "Pipe restraint not given: c1 = 1 (expansion joints throughout, the simple "
-                "Korteweg form); a pipe anchored throughout has a few per cent higher wave speed.",
-                1.0,
+            # For 0 ≤ ν ≤ 0.5, 1 − ν/2 is the smallest of the three factors: the highest
+            # wave speed, the screening's safe side. Without ν its bound 0.5 is taken.
+            nu = pipe.poisson_ratio or b.assume(
+                "A wall without a known Poisson's ratio takes its upper bound, 0.5, in the "
+                "restraint factor (the lowest factor, the highest wave speed).",
+                0.5,
                 "",
+            )
+            b.assume(
+                "Pipe restraint not given: the restraint factor that gives the highest wave "
+                "speed, c1 = 1 − ν/2 (anchored at its upstream end only), is taken for the "
+                "screening; give restraint to use the pipe's own."
+            )
+            c1 = b.step(
+                sid(f"surge.{pipe.id}.restraint_factor"),
+                f"Restraint factor of {pipe.id} (not given: the highest wave speed)",
+                surge.upstream_anchor_restraint_factor,
+                case.id,
+                nu=nu,
             )
         return b.step(
             sid(f"surge.{pipe.id}.wave_speed"),

@@ -46,3 +46,27 @@ def test_a_case_names_only_the_level_ranges_given():
     titles = [c["title"] for c in t.cases]
     assert "Highest static head: source low" in titles
     assert not any("destination" in title for title in titles)
+
+
+def _route(extra_pump: str = "", extra: str = ""):
+    from test_route import QUIET, ROUTE
+
+    from calcreport.model.loader import loads
+
+    text = ROUTE.replace("CREST", "26.0").replace('[pump]\nelevation = "0 m"', extra_pump)
+    return solve(loads((text + QUIET + extra).encode()))
+
+
+def test_a_suction_lift_asks_for_priming():
+    lifted = _route('[pump]\nelevation = "4 m"')
+    note = next(n for n in lifted.notes if n.startswith("Suction lift"))
+    assert "2.000 m above the lowest source level" in note and "primed" in note
+    flooded = _route('[pump]\nelevation = "0 m"')
+    assert not any(n.startswith("Suction lift") for n in flooded.notes)
+
+
+def test_an_open_item_asks_for_an_aged_pipe_state():
+    new_only = _route('[pump]\nelevation = "0 m"')
+    assert any("No aged-pipe state" in n for n in new_only.notes)
+    aged = _route('[pump]\nelevation = "0 m"', '[envelope]\nroughness = "0.5 mm"\n')
+    assert not any("No aged-pipe state" in n for n in aged.notes)

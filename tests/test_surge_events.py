@@ -1,8 +1,9 @@
 """Surge: every credible event screened, the line screened as the pipes in series it is.
 
 Independent values: water at 20 degC from CoolProp (IAPWS-95: density, and the isentropic
-bulk modulus rho·w²), Korteweg's wave speed a = sqrt((K/rho)/(1 + K D/(E e))) with c1 = 1
-(Wylie & Streeter, Fluid Transients in Systems, 1993, eq. 2.3.4), and the Joukowsky change of
+bulk modulus rho·w²), Korteweg's wave speed a = sqrt((K/rho)/(1 + c1 K D/(E e))) with c1 =
+1 − ν/2, ν = 0.5 (no ratio given: the highest wave speed; Wylie & Streeter, Fluid Transients in
+Systems, 1993, eq. 2.3.4), and the Joukowsky change of
 the equivalent series pipe, sum(L v)/(g sum(L/a)), written out here.
 """
 
@@ -73,7 +74,7 @@ fittings = [{{ K = 1.0, note = "exit" }}]
 
 
 def _a(D: float, e: float, E: float) -> float:
-    return math.sqrt((K / RHO) / (1 + K * D / (E * e)))
+    return math.sqrt((K / RHO) / (1 + 0.75 * K * D / (E * e)))
 
 
 def _v(D: float) -> float:
@@ -135,3 +136,16 @@ def test_a_slower_stop_lowers_the_head_change_by_the_line_period():
     assert T < 30.0
     # Michaud's estimate: the full change times 2L/a over the stopping time.
     assert slow["head_rise"]["value"] == pytest.approx(at_once["head_rise"]["value"] * T / 30.0)
+
+
+def test_a_restraint_not_given_takes_the_highest_wave_speed():
+    def speed(restraint: str) -> float:
+        text = LINE.replace('id = "M1"\n', f'id = "M1"\n{restraint}').replace(
+            'elastic_modulus = "0.8 GPa"', 'elastic_modulus = "0.8 GPa"\npoisson_ratio = 0.45'
+        )
+        return solve(loads(text.encode())).results["surge"]["pipes"]["M1"]["wave_speed"]["value"]
+
+    free = speed("")
+    for restraint in ('restraint = "anchored"\n', 'restraint = "expansion_joints"\n'):
+        assert free >= speed(restraint)
+    assert free == pytest.approx(speed('restraint = "upstream_anchor"\n'), rel=1e-12)
