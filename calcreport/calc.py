@@ -231,7 +231,9 @@ def solve(model: Model) -> Trace:
     for case in list(cases):
         crest = safety.controlling_crest(model, design, states[case.id])
         if crest is not None:
-            lifted = replace(case, id=f"{case.id}x", title=_crest_title(case.title, crest), crest=crest)
+            lifted = replace(
+                case, id=f"{case.id}x", title=_crest_title(case.title, crest), crest=crest
+            )
             cases.append(lifted)
             st = states[case.id]
             by_case[lifted.id] = run(lifted, st.liquid, st.surfaces)
@@ -398,6 +400,7 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
 
     pumps = "" if count.value == 1 else f", {duty.value:g} of {count.value:g} pumps running"
     case(f"Design: normal levels, new pipe{pumps}", (src.level, dst.level), duty)
+
     def extremes(source: str | None, destination: str | None) -> str:
         """Which levels a static-head case moves: only those the input gives a range of."""
         return ", ".join(
@@ -1182,8 +1185,15 @@ def _regions(b: TraceBuilder, model: Model, Q_bep: Given) -> dict[str, Any]:
 
     def bounds(name: str, given: list[Given]) -> list[dict[str, Any]]:
         return [
-            _q(b.step(f"pump.{name}_region.{end}", f"{end.title()} flow of the {name} region",
-                      pump.region_flow, r=r, Q_bep=Q_bep))  # fmt: skip
+            _q(
+                b.step(
+                    f"pump.{name}_region.{end}",
+                    f"{end.title()} flow of the {name} region",
+                    pump.region_flow,
+                    r=r,
+                    Q_bep=Q_bep,
+                )
+            )
             for end, r in zip(("low", "high"), given, strict=True)
         ]
 
@@ -2586,4 +2596,3 @@ def _flow_span(model: Model) -> tuple[float, float]:
     if model.flow_range:
         return model.flow_range[0].value, model.flow_range[1].value
     return 0.0, 1.5 * model.flow.value
-

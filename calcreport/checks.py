@@ -532,7 +532,9 @@ def _exit_item(model: Model, case: str) -> Check | None:
     if model.destination.inlet != "submerged":
         return None
     has_exit = any(
-        ft.kind == "exit" or EXIT_NOTE.search(ft.note) for pipe in model.pipes for ft in pipe.fittings
+        ft.kind == "exit" or EXIT_NOTE.search(ft.note)
+        for pipe in model.pipes
+        for ft in pipe.fittings
     )
     return Check(
         id="exit_loss_item",

@@ -69,10 +69,10 @@ SCOPE = (
     "after the calculation (every argument is the recorded value of the step, input, "
     "solution or assumption it names; every result holds the value of the source it names, "
     "each state's results their own steps; no check's status contradicts its value, limit "
-    "and comparison; the status is the one its checks give). It does not prove that the method, the inputs or "
-    "the model are right: for that, use the independent checks the report prints, such as "
-    "the explicit friction factor beside the Colebrook value, and the substituted lines, "
-    "which can be recomputed by hand."
+    "and comparison; the status is the one its checks give). It does not prove that the "
+    "method, the inputs or the model are right: for that, use the independent checks the "
+    "report prints, such as the explicit friction factor beside the Colebrook value, and "
+    "the substituted lines, which can be recomputed by hand."
 )
 
 _STEP_KEYS = ("value", "unit", "arguments", "function")
@@ -454,14 +454,23 @@ def _bound_results(node: Any, path: str, ctx: _Context) -> list[Finding]:
             source = node["from"]
             expected = _recorded(source, ctx)
             if expected is None:
-                out.append(Finding(path, node["value"], None,
-                                   f"It names {source!r}, which the trace does not record."))
+                out.append(
+                    Finding(
+                        path,
+                        node["value"],
+                        None,
+                        f"It names {source!r}, which the trace does not record.",
+                    )
+                )
             elif not (_is_number(node["value"]) and _close(node["value"], expected,
                                                            ctx.tolerance)):  # fmt: skip
                 out.append(
-                    Finding(path, node["value"], expected,
-                            f"It is {node['value']!r}, but {source} is recorded as "
-                            f"{expected!r}.")  # fmt: skip
+                    Finding(
+                        path,
+                        node["value"],
+                        expected,
+                        f"It is {node['value']!r}, but {source} is recorded as {expected!r}.",
+                    )
                 )
             return out
         out += _state_sources(node, path)
@@ -495,8 +504,12 @@ def _state_sources(node: dict[str, Any], path: str) -> list[Finding]:
             entry = entry.get(part) if isinstance(entry, dict) else None
         if isinstance(entry, dict) and "from" in entry and entry["from"] != step:
             out.append(
-                Finding(f"{path}.{key}", entry["from"], step,
-                        f"It names {entry['from']!r}; this result is the step {step}.")  # fmt: skip
+                Finding(
+                    f"{path}.{key}",
+                    entry["from"],
+                    step,
+                    f"It names {entry['from']!r}; this result is the step {step}.",
+                )
             )
     return out
 

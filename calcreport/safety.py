@@ -198,7 +198,9 @@ def profile(
             if previous is not None:
                 v_in = float(losses.velocity_head(h["pipes"][previous.id]["velocity"].value))
                 egl = source - lost
-                nodes.append(_flange(SUCTION_FLANGE, previous, "suction", distance, egl, v_in, z_pump))
+                nodes.append(
+                    _flange(SUCTION_FLANGE, previous, "suction", distance, egl, v_in, z_pump)
+                )
             egl = source - lost + (pump_head.value if pump_head else tdh)
             nodes.append(_flange(DISCHARGE_FLANGE, pipe, "discharge", distance, egl, hv, z_pump))
         lift = tdh if pumped else 0.0
@@ -353,9 +355,7 @@ def head_loss_to(
     )
 
 
-def controlling_crest(
-    model: Model, design: State, st: State
-) -> tuple[str, str, float, str] | None:
+def controlling_crest(model: Model, design: State, st: State) -> tuple[str, str, float, str] | None:
     """The crest that controls the flow of state ``st``: the line's highest point, above
     the destination surface, where the full line's pressure would fall below atmospheric
     (pipe id, station, distance along the pipe, node name); None where there is none."""
@@ -673,7 +673,9 @@ class Route:
             )
         return out
 
-    def _upsurge(self, states: dict[str, State], key: tuple[str, str], node: dict[str, Any]) -> float:
+    def _upsurge(
+        self, states: dict[str, State], key: tuple[str, str], node: dict[str, Any]
+    ) -> float:
         """The pressure at ``node`` when the upsurge of (event, state) ``key`` passes it."""
         st = states[key[1]]
         rise = self.rises[key][node["pipe"]].value
@@ -903,30 +905,34 @@ class Route:
                 "joukowsky_head": _q(own),
             }
         line = [p for p in model.pipes if p.line == "discharge"] or list(model.pipes)
-        T_line = b.step(
-            sid("surge.line_period"),
-            "Period of the pumped line (pump to destination)",
-            surge.line_period,
-            case.id,
-            L=[p.length for p in line],
-            a=[speeds[p.id] for p in line],
-        )
-        # The pipe that holds most of the line's travel time: its impedance governs.
-        governing = max(line, key=lambda p: p.length.value / speeds[p.id].value)
         suction = [p for p in model.suction_pipes if p not in line]
-        spans = {"line": (line, T_line)}
-        if suction:
-            spans["suction"] = (
-                suction,
+        # Each part of the system in series, with its period: the line, the suction pipes.
+        spans = {
+            part: (
+                pipes,
                 b.step(
-                    sid("surge.suction_period"),
-                    "Period of the suction pipes (source to pump)",
+                    sid(f"surge.{key}"),
+                    title,
                     surge.line_period,
                     case.id,
-                    L=[p.length for p in suction],
-                    a=[speeds[p.id] for p in suction],
+                    L=[p.length for p in pipes],
+                    a=[speeds[p.id] for p in pipes],
                 ),
             )
+            for part, pipes, key, title in (
+                ("line", line, "line_period", "Period of the pumped line (pump to destination)"),
+                (
+                    "suction",
+                    suction,
+                    "suction_period",
+                    "Period of the suction pipes (source to pump)",
+                ),
+            )
+            if pipes
+        }
+        T_line = spans["line"][1]
+        # The pipe that holds most of the line's travel time: its impedance governs.
+        governing = max(line, key=lambda p: p.length.value / speeds[p.id].value)
         screened = {
             event.event: self._screen_event(event, states, speeds, periods, spans)
             for event in events
@@ -1042,8 +1048,10 @@ class Route:
             if low:
                 st, node = min(
                     low,
-                    key=lambda sn: sn[1]["pressure_head"]
-                    - self.rises[(name, sn[0].case.id)][sn[1]["pipe"]].value,
+                    key=lambda sn: (
+                        sn[1]["pressure_head"]
+                        - self.rises[(name, sn[0].case.id)][sn[1]["pipe"]].value
+                    ),
                 )
                 h_down = b.step(
                     st.case.sid(f"{self._where(node)}.downsurge_head"),

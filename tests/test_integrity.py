@@ -87,10 +87,11 @@ def test_units_the_trade_writes_still_read():
         ),
         (lambda t: t.replace("[source]\n", '[source]\npressure = "200 MPa"\n'), "source.pressure"),
         (lambda t: t.replace('flow = "20 L/s"', 'flow = "1e300 L/s"'), "duty.flow"),
-        (lambda t: t.replace("efficiency = 0.75", "efficiency = 0.75\nstages = " + "9" * 400),
-         "pump.stages"),  # fmt: skip
-        (lambda t: t.replace("format = 1", "format = 1\nx = " + "[" * 2000 + "]" * 2000),
-         "<toml>"),  # fmt: skip
+        (
+            lambda t: t.replace("efficiency = 0.75", "efficiency = 0.75\nstages = " + "9" * 400),
+            "pump.stages",
+        ),
+        (lambda t: t.replace("format = 1", "format = 1\nx = " + "[" * 2000 + "]" * 2000), "<toml>"),
     ],
 )
 def test_what_check_accepts_solve_can_compute(tmp_path, capsys, edit, key):
@@ -158,9 +159,7 @@ def test_a_device_a_fifo_and_a_link_loop_are_refused(tmp_path, capsys):
 
 def test_a_curve_file_that_is_a_device_is_refused(tmp_path):
     start = BASE.index("[motor]")
-    text = (
-        BASE[:start] + '[pump.curve]\nspeed = "2900 rpm"\nfile = "/dev/zero"\n\n' + BASE[start:]
-    )
+    text = BASE[:start] + '[pump.curve]\nspeed = "2900 rpm"\nfile = "/dev/zero"\n\n' + BASE[start:]
     path = tmp_path / "input.toml"
     path.write_text(text, encoding="utf-8")
     # Outside the input's folder: refused unless the user allows files elsewhere.

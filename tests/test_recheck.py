@@ -75,7 +75,10 @@ def test_every_example_confirms(example: Path, traces: dict[str, dict[str, Any]]
     report = recheck(trace)
     assert report.ok, render_text(report)
     n = len(trace["steps"])
-    assert report.verdict == f"recheck: {n} of {n} steps confirmed, with the results, checks and status"
+    assert (
+        report.verdict
+        == f"recheck: {n} of {n} steps confirmed, with the results, checks and status"
+    )
     assert {s.status for s in report.steps} == {"confirmed"}
     assert [s.id for s in report.steps] == [s["id"] for s in trace["steps"]]
     assert report.printed_compared
@@ -396,7 +399,10 @@ def test_cli_confirms(pump: dict[str, Any], tmp_path: Path, capsys: pytest.Captu
     assert main(["recheck", str(path)]) == 0
     out, err = capsys.readouterr()
     n = len(pump["steps"])
-    assert out.rstrip().splitlines()[-1] == f"recheck: {n} of {n} steps confirmed, with the results, checks and status"
+    assert (
+        out.rstrip().splitlines()[-1]
+        == f"recheck: {n} of {n} steps confirmed, with the results, checks and status"
+    )
     assert "Mismatches" not in out
     assert err == ""
 

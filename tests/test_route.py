@@ -292,9 +292,7 @@ def test_slow_valve_closure_passes_the_period_test():
     assert _check(t, "surge.valve_closure").status == "pass"
     # With no rating anywhere the rise is checked against nothing: review.
     assert _check(_with_curve("", extra=extra), "surge.valve_closure").status == "review"
-    fast = _with_curve(
-        "", extra=extra.replace('closure_time = "30 s"', 'closure_time = "0.1 s"')
-    )
+    fast = _with_curve("", extra=extra.replace('closure_time = "30 s"', 'closure_time = "0.1 s"'))
     assert _check(fast, "surge.valve_closure").status == "review"
     closure = fast.results["surge"]["events"]["valve_closure"]
     assert closure["head_rise"]["value"] == pytest.approx(

@@ -104,9 +104,7 @@ def test_a_short_stiff_header_does_not_govern_the_line():
 
 
 def test_a_pump_trip_is_screened_when_the_input_names_only_a_valve_closure():
-    t = solve(
-        loads((LINE + '[surge]\nevent = "valve_closure"\nclosure_time = "60 s"\n').encode())
-    )
+    t = solve(loads((LINE + '[surge]\nevent = "valve_closure"\nclosure_time = "60 s"\n').encode()))
     events = t.results["surge"]["events"]
     assert set(events) == {"pump_trip", "valve_closure"}
     ids = {c.id: c for c in t.checks}

@@ -266,9 +266,7 @@ class _Lines:
 class _Reader:
     """Reads values from parsed TOML, collecting every problem found."""
 
-    def __init__(
-        self, lines: _Lines, folder: Path | None = None, outside: bool = False
-    ) -> None:
+    def __init__(self, lines: _Lines, folder: Path | None = None, outside: bool = False) -> None:
         self.lines = lines
         self.problems: list[Problem] = []
         self.folder = folder or Path.cwd()
@@ -1514,7 +1512,7 @@ def _surge(r: _Reader, data: dict[str, Any]) -> Surge | None:
         r.problem(
             "surge.closure_time",
             'closure_time applies to event = "valve_closure"; for a pump trip give '
-            'pump_stop_time, the time its flow takes to stop.',
+            "pump_stop_time, the time its flow takes to stop.",
         )
     stop = r.quantity(table, "pump_stop_time", "surge", "time", positive=True)
     return Surge(event, closure, stop)
@@ -1651,9 +1649,7 @@ def _catalog_roughness(
     return Given(found.value, "m", f"catalog.roughness[{found.material}]")
 
 
-def _fittings(
-    r: _Reader, raw: Any, pipe_path: str, length: Given | None
-) -> tuple[Fitting, ...]:
+def _fittings(r: _Reader, raw: Any, pipe_path: str, length: Given | None) -> tuple[Fitting, ...]:
     path = f"{pipe_path}.fittings"
     if not isinstance(raw, list):
         r.problem(
@@ -1765,7 +1761,7 @@ def _fitting_at(
         r.problem(
             f"{where}.at",
             "A fitting's distance along its pipe must lie between 0 and the pipe's length; got "
-            f"{as_written(raw)}. Give \"start\", \"end\" or a length such as \"120 m\".",
+            f'{as_written(raw)}. Give "start", "end" or a length such as "120 m".',
         )
         return "", None
     return "along", distance

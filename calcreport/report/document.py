@@ -492,7 +492,9 @@ class _Report:
         open_checks = [c for c in self.t["checks"] if c["status"] != "pass"]
         if open_checks:
             out.append(self.check_table(open_checks, basis=False))
-            out.append(self.p("The basis and source of each check are in the Design checks section."))
+            out.append(
+                self.p("The basis and source of each check are in the Design checks section.")
+            )
         else:
             out.append(self.p("Every design check passes."))
         out.append(self.heading("Open items", 2))
@@ -511,7 +513,9 @@ class _Report:
         reviews = [c for c in open_checks if c["status"] == "review" and c["message"]]
         # Ratings short of a shutoff pressure: one item naming them all.
         unconfirmed = [
-            c for c in reviews if c["id"].startswith("pressure_rating.") and "shutoff" in c["message"]
+            c
+            for c in reviews
+            if c["id"].startswith("pressure_rating.") and "shutoff" in c["message"]
         ]
         items += [
             f"{text(c['title'])} ({text(c['case'])}): {text(c['message'])}"
@@ -963,9 +967,7 @@ class _Report:
         """C1 and the cases named by the route and surge checks and results."""
         cases = {"C1", self.r.get("surge", {}).get("case", "C1")}
         cases.add(self.r.get("route", {}).get("min_pressure_case", "C1"))
-        cases |= {
-            c["case"] for c in self.t["checks"] if c["id"].split(".")[0] in _ROUTE_CHECKS
-        }
+        cases |= {c["case"] for c in self.t["checks"] if c["id"].split(".")[0] in _ROUTE_CHECKS}
         return cases
 
     def route_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:

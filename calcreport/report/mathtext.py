@@ -148,8 +148,13 @@ def _well_formed(data: Any) -> bool:
         if not isinstance(glyphs, list) or not isinstance(rules, list):
             return False
         for g in glyphs:
-            if not (isinstance(g, list) and len(g) == 5 and isinstance(g[0], str)
-                    and isinstance(g[2], str) and all(number(v) for v in (g[1], g[3], g[4]))):
+            if not (
+                isinstance(g, list)
+                and len(g) == 5
+                and isinstance(g[0], str)
+                and isinstance(g[2], str)
+                and all(number(v) for v in (g[1], g[3], g[4]))
+            ):
                 return False  # fmt: skip
         for r in rules:
             if not (isinstance(r, list) and len(r) == 4 and all(number(v) for v in r)):
