@@ -132,13 +132,13 @@ def solve(model: Model) -> Trace:
     if model.pump.elevation.value > lowest.value:
         from calcreport.units import show
 
-        lift = show(
+        height = show(
             {"value": model.pump.elevation.value - lowest.value, "unit": "m"},
             "length",
             model.project.units,
         )
         notes.append(
-            f"Suction lift: the pump stands {lift} above the lowest source level. It must be "
+            f"Suction lift: the pump stands {height} above the lowest source level. It must be "
             "primed before it starts and kept primed (a foot valve, a priming system or a "
             "self-priming pump), and the suction line must be free of air leaks; the practical "
             "lift is well below the barometric limit, and the NPSH margin here decides it."
@@ -243,6 +243,7 @@ def solve(model: Model) -> Trace:
             q = model.operation.profile[int(pid[1:]) - 1][0]
             point = replace(design.case, id=f"{pid}x", title=_crest_title(pid, crest), flow=q,
                             crest=crest)  # fmt: skip
+            assert design_curve is not None  # profile states exist only with a curve
             lifted_point = _profile_state(b, model, point, design, design_curve, eta_drive, states)
             state_route = route.case_route(states[point.id])
             if state_route:

@@ -561,9 +561,9 @@ def _bound_status(trace: dict[str, Any]) -> list[Finding]:
     status = trace.get("status")
     if not isinstance(status, dict):
         return []
-    given = trace.get("given") if isinstance(trace.get("given"), dict) else {}
-    results = trace.get("results") if isinstance(trace.get("results"), dict) else {}
-    checks = trace.get("checks") if isinstance(trace.get("checks"), list) else []
+    given: dict[str, Any] = trace["given"] if isinstance(trace.get("given"), dict) else {}
+    results: dict[str, Any] = trace["results"] if isinstance(trace.get("results"), dict) else {}
+    checks: list[Any] = trace["checks"] if isinstance(trace.get("checks"), list) else []
     curve = any(str(k).startswith("pump.curve.flow[") for k in given)
     fails = any(isinstance(c, dict) and c.get("status") == "fail" for c in checks)
     if curve and "operating_point" not in results:

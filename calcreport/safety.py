@@ -606,7 +606,7 @@ class Route:
             return recorded[point["node"]]
 
         placed = {p.id for p in model.pipes if p.elevation_start and p.elevation_end}
-        unplaced = [
+        unplaced: list[dict[str, Any]] = [
             {"id": f"pipe.{p.id}", "item": f"pipe {p.id}", "at": p.id, "rating": p.pressure_rating}
             for p in model.pipes
             if p.pressure_rating and p.id not in placed

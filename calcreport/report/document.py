@@ -789,7 +789,7 @@ class _Report:
 
     def fitting_list(self, ident: str) -> str:
         step = self.step(f"pipe.{ident}.k_total")
-        parts = []
+        parts: list[list[Any]] = []  # [item, count], one per distinct fitting in a run
         args = step["arguments"]
         for K, count_source, count in zip(
             args["K"]["value"], args["count"]["from"], args["count"]["value"], strict=True
