@@ -398,6 +398,7 @@ class Route:
         self._heads: dict[tuple[str, str], Given] = {}
         self._vapour: dict[str, Given] = {}
         self._elevations: dict[str, Given] = {}
+        self._restraint: dict[tuple[str, str], Given] = {}  # default c1 by (state, ν source)
         # Surge head change by pipe for each (event, state), once screened.
         self.rises: dict[tuple[str, str], dict[str, Given]] = {}
         self.downsurge = ""  # the state whose pump-trip downsurge is the lowest
@@ -1150,13 +1151,17 @@ class Route:
                 "speed, c1 = 1 − ν/2 (anchored at its upstream end only), is taken for the "
                 "screening; give restraint to use the pipe's own."
             )
-            c1 = b.step(
+            # One step for each Poisson's ratio: pipes of one wall material share it.
+            known = self._restraint.get((case.id, nu.key))
+            c1 = known or b.step(
                 sid(f"surge.{pipe.id}.restraint_factor"),
-                f"Restraint factor of {pipe.id} (not given: the highest wave speed)",
+                f"Restraint factor where the restraint is not given (ν of {pipe.id}: the "
+                "highest wave speed)",
                 surge.upstream_anchor_restraint_factor,
                 case.id,
                 nu=nu,
             )
+            self._restraint[(case.id, nu.key)] = c1
         return b.step(
             sid(f"surge.{pipe.id}.wave_speed"),
             f"Wave speed in {pipe.id} (Korteweg)",

@@ -242,6 +242,7 @@ class TraceBuilder:
         self.steps: list[Step] = []
         self._ids: set[str] = set()
         self.assumptions: list[dict[str, str]] = []
+        self._assumed: dict[tuple[str, float | None], str] = {}  # (text, value) -> its id
         self.given: dict[str, dict[str, Any]] = {}
         self.solutions: dict[str, dict[str, Any]] = {}
         self._by_func = {eq.func: eq for eq in registered().values()}
@@ -264,10 +265,10 @@ class TraceBuilder:
     def assume(self, text: str, value: float | None = None, unit: str = "") -> Given:
         """Number an assumption (A1, A2, …) and return its value as a source; the same
         assumption made again (same text and value) keeps its number."""
-        for entry in self.assumptions:
-            if entry["text"] == text and entry.get("quantity", {}).get("value") == value:
-                return Given(value if value is not None else math.nan, unit, entry["id"])
-        ident = f"A{len(self.assumptions) + 1}"
+        known = self._assumed.get((text, value))
+        if known is not None:
+            return Given(value if value is not None else math.nan, unit, known)
+        ident = self._assumed[text, value] = f"A{len(self.assumptions) + 1}"
         entry: dict[str, Any] = {"id": ident, "text": text}
         if value is not None:
             entry["value"] = f"{fmt(value)} {pretty_unit(unit)}".strip()
