@@ -236,6 +236,8 @@ def parse(value: Any, kind: str) -> float:
         raise UnitProblem(f"The value {shown} does not start with a number; {give}")
     number = float(match.group(0))
     unit = text[match.end() :].strip()
+    if kind == "pressure":
+        unit = _gauge_unit(unit, shown, give)
     if re.match(r"^[,_]\d", unit):
         raise UnitProblem(
             f"The value {shown} cannot be read (write the number without thousands "
@@ -306,6 +308,30 @@ def _bounded(value: float, kind: str, shown: str, give: str) -> float:
             f"lies between {low:g} and {high:g}{unit} in magnitude; {give}"
         )
     return value
+
+
+# The marks the report prints on pressures: gauge is what the input takes; an absolute
+# value needs the site's barometric pressure taken away first.
+_GAUGE_MARK = re.compile(r"^(?P<unit>[A-Za-z]+)\s*\(\s*(?:g|gauge)\s*\)$", re.IGNORECASE)
+_ABSOLUTE_MARK = re.compile(
+    r"^(?P<unit>[A-Za-z]+?)\s*(?:\(\s*(?:a|abs|absolute)\s*\)|a)$", re.IGNORECASE
+)
+
+
+def _gauge_unit(unit: str, shown: str, give: str) -> str:
+    """The pressure unit with a gauge mark taken off; an absolute mark refused, saying why."""
+    gauge = _GAUGE_MARK.match(unit)
+    if gauge and gauge["unit"] in _FAST:
+        return gauge["unit"]
+    absolute = _ABSOLUTE_MARK.match(unit)
+    if absolute and absolute["unit"] in ("Pa", "kPa", "MPa", "bar", "psi", "mbar"):
+        raise UnitProblem(
+            f"The value {shown} is an absolute pressure; the input takes pressures on liquid "
+            f"surfaces as gauge (site.station_pressure as absolute, without a mark): write "
+            f"the gauge value, the absolute less the barometric pressure, in {absolute['unit']} "
+            f"with no mark; {give}"
+        )
+    return unit
 
 
 def _check_unit_grammar(unit: str, shown: str, give: str) -> None:

@@ -5,6 +5,7 @@ thermal minimum flow described as the operating point, a cost without its curren
 titled by a level range the input does not give.
 """
 
+import re
 from pathlib import Path
 
 import pytest
@@ -70,3 +71,41 @@ def test_an_open_item_asks_for_an_aged_pipe_state():
     assert any("No aged-pipe state" in n for n in new_only.notes)
     aged = _route('[pump]\nelevation = "0 m"', '[envelope]\nroughness = "0.5 mm"\n')
     assert not any("No aged-pipe state" in n for n in aged.notes)
+
+
+@pytest.mark.parametrize(
+    ("value", "pa"),
+    [("45 psi(g)", 45 * 6894.757293168361), ("310 kPa(g)", 310e3), ("2 bar (gauge)", 2e5)],
+)
+def test_the_gauge_mark_the_report_prints_is_read(value, pa):
+    from calcreport.units import parse
+
+    # NIST SP 811: 1 psi = 6894.757293168 Pa.
+    assert parse(value, "pressure") == pytest.approx(pa, rel=1e-12)
+
+
+@pytest.mark.parametrize("value", ["14.7 psia", "101 kPa(a)", "1 bara", "3 MPa(abs)"])
+def test_an_absolute_mark_is_refused_saying_what_to_write(value):
+    from calcreport.units import UnitProblem, parse
+
+    with pytest.raises(UnitProblem) as err:
+        parse(value, "pressure")
+    assert "absolute pressure" in str(err.value) and "gauge value" in str(err.value)
+
+
+def test_a_us_report_prints_check_speeds_in_rpm_and_times_with_their_unit(tmp_path):
+    text = (EXAMPLES / "cooling_water_selected_pump.toml").read_text(encoding="utf-8")
+    text = text.replace('units = "SI"', 'units = "US"').replace(
+        'pressure_rating = "1600 kPa"',
+        'pressure_rating = "1600 kPa"\nspeed_range = ["600 rpm", "1480 rpm"]',
+    )
+    path = tmp_path / "us.toml"
+    path.write_text(text, encoding="utf-8")
+    assert main(["build", str(path), "-o", str(tmp_path)]) == 0
+    reader = pypdf.PdfReader(tmp_path / "us.pdf")
+    flat = " ".join(" ".join(page.extract_text() for page in reader.pages).split())
+    start = flat.index("Minimum speed above the speed that lifts the static head")
+    assert "rpm" in flat[start : start + 300] and "1/s" not in flat[start : start + 300]
+    assert "in feet of the pumped liquid" in flat
+    # The check's value, the closing time, with its unit (section Design checks).
+    assert re.search(r"\b20(?:\.0+)? s > 0\.\d+ s\b", flat)

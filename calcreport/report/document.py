@@ -77,6 +77,8 @@ _KIND_OF_UNIT = {
     "Pa": "pressure",
     "K": "temperature",
     "delta_degC": "temperature_difference",
+    "1/s": "speed",
+    "s": "time",
     "kg/m^3": "density",
     "Pa*s": "viscosity",
     "m/s": "velocity",
@@ -1267,8 +1269,9 @@ class _Report:
             kind = _KIND_OF_UNIT.get(unit)
             gauge = "(g)" if kind == "pressure" else ""  # checked pressures are gauge
             value = self.q(c["value"], kind) + gauge if c["value"] else "—"
-            if c["value"] and not kind:
-                value = f"{c['value']['value']:.4g}"
+            if c["value"] and not kind:  # a ratio, or a unit the report has no kind for
+                unit = pretty_unit(c["value"]["unit"])
+                value = f"{c['value']['value']:.4g} {unit}".strip()
             limit = (
                 f"{c['comparison']} {self.q(c['limit'], kind)}{gauge}"
                 if c["limit"]
