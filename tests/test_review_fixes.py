@@ -109,3 +109,25 @@ def test_a_us_report_prints_check_speeds_in_rpm_and_times_with_their_unit(tmp_pa
     assert "in feet of the pumped liquid" in flat
     # The check's value, the closing time, with its unit (section Design checks).
     assert re.search(r"\b20(?:\.0+)? s > 0\.\d+ s\b", flat)
+
+
+def test_every_iec_rating_has_its_class_efficiency():
+    """IEC 60034-30-1 runs to 1000 kW: every rating of the catalog's IEC 60072-1 series
+    (to 400 kW) has an IE2 and an IE3 efficiency, so no motor loses its electrical power to
+    a gap in the table (values from memory, see the catalog file)."""
+    from calcreport import catalog
+
+    ratings = catalog.motor_ratings("IEC")
+    for cls in ("IE2", "IE3"):
+        table = catalog.motor_efficiency(cls)
+        assert set(ratings) <= set(table), cls
+        efficiencies = [table[r][0] for r in sorted(table)]
+        assert efficiencies == sorted(efficiencies)  # never lower for a larger motor
+
+
+def test_catalog_provenance_cites_no_notes_outside_the_project():
+    root = Path(__file__).parent.parent / "calcreport" / "catalog"
+    for path in root.iterdir():
+        if path.suffix in (".csv", ".toml"):
+            text = path.read_text(encoding="utf-8")
+            assert "CHECK-VALUES" not in text and "triton" not in text, path.name
