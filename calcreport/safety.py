@@ -57,7 +57,7 @@ def placement(ft: Fitting) -> str:
     pipe), "start", "along" (at ``ft.distance``), "end" or "exit" (as it leaves)."""
     if ft.at:
         return ft.at
-    if ft.kind.startswith("entrance") or (not ft.kind and ENTRANCE_NOTE.search(ft.note)):
+    if ft.kind.endswith("entrance") or (not ft.kind and ENTRANCE_NOTE.search(ft.note)):
         return "entrance"
     if ft.kind == "exit" or (not ft.kind and EXIT_NOTE.search(ft.note)):
         return "exit"

@@ -543,7 +543,7 @@ def test_named_fittings_resolve_to_catalog_coefficients():
     fluids = pytest.importorskip("fluids")
     text = CASE.replace(
         'fittings = [{ K = 0.5, note = "entrance" }, { K = 0.57 }]',
-        'fittings = [{ kind = "entrance_sharp" }, { kind = "gate_valve" }]',
+        'fittings = [{ kind = "sharp_edged_entrance" }, { kind = "gate_valve" }]',
     )
     text = text.replace("{ K = 3.0, count = 1 }", '{ kind = "swing_check_valve", count = 2 }')
     t = solve(loads(text.encode()))

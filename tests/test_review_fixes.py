@@ -131,3 +131,14 @@ def test_catalog_provenance_cites_no_notes_outside_the_project():
         if path.suffix in (".csv", ".toml"):
             text = path.read_text(encoding="utf-8")
             assert "CHECK-VALUES" not in text and "triton" not in text, path.name
+
+
+def test_an_earlier_entrance_name_reads_as_its_new_one():
+    from calcreport.model.loader import loads
+
+    text = (EXAMPLES / "reservoir_fill_si.toml").read_text(encoding="utf-8")
+    assert 'kind = "sharp_edged_entrance"' in text
+    old = solve(loads(text.replace("sharp_edged_entrance", "entrance_sharp").encode()))
+    new = solve(loads(text.encode()))
+    assert old.results["total_dynamic_head"] == new.results["total_dynamic_head"]
+    assert "catalog.fittings.sharp_edged_entrance.K" in old.given

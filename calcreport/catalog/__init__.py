@@ -22,6 +22,7 @@ from pathlib import Path
 from typing import Any
 
 __all__ = [
+    "FITTING_ALIASES",
     "check_valve_lift",
     "criteria",
     "elastic_moduli",
@@ -83,6 +84,14 @@ def fingerprint() -> str:
 def _rows(name: str) -> list[dict[str, str]]:
     with (_HERE / name).open(encoding="utf-8") as handle:
         return list(csv.DictReader(line for line in handle if not line.startswith("#")))
+
+
+# Fitting kinds renamed in plain trade words; the earlier names are read as these.
+FITTING_ALIASES = {
+    "entrance_sharp": "sharp_edged_entrance",
+    "entrance_projecting": "projecting_entrance",
+    "entrance_rounded": "rounded_entrance",
+}
 
 
 @cache

@@ -1690,6 +1690,7 @@ def _fittings(r: _Reader, raw: Any, pipe_path: str, length: Given | None) -> tup
         dp = r.quantity(data, "dp", where, "pressure", positive=True)
         at_flow = r.quantity(data, "at_flow", where, "flow", positive=True)
         kind = r.text(data, "kind", where, "")
+        kind = catalog.FITTING_ALIASES.get(kind, kind)  # an earlier name of the kind
         given = [name for name in ("K", "dp", "kind") if name in data]
         if len(given) != 1:
             found = f"got {' and '.join(given)}" if given else "got none of them"
