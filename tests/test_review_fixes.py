@@ -142,3 +142,13 @@ def test_an_earlier_entrance_name_reads_as_its_new_one():
     new = solve(loads(text.encode()))
     assert old.results["total_dynamic_head"] == new.results["total_dynamic_head"]
     assert "catalog.fittings.sharp_edged_entrance.K" in old.given
+
+
+def test_concrete_roughness_is_a_typical_value_with_its_range():
+    from calcreport.catalog.pipes import roughness
+
+    # Moody (1944): concrete 0.3 to 3 mm; the typical value returned is the range's
+    # geometric middle (common practice, no published source), not its low end.
+    found = roughness("concrete")
+    assert found.value == pytest.approx(1.0e-3)
+    assert found.range == pytest.approx((0.3e-3, 3.0e-3))
