@@ -152,3 +152,18 @@ def test_concrete_roughness_is_a_typical_value_with_its_range():
     found = roughness("concrete")
     assert found.value == pytest.approx(1.0e-3)
     assert found.range == pytest.approx((0.3e-3, 3.0e-3))
+
+
+def test_the_conclusion_names_the_state_the_duty_is_decided_in(tmp_path):
+    from test_calc import CASE, _analytic_curve
+
+    text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
+    text += '[surge]\npump_stop_time = "600 s"\n'  # a slow trip: a pass, so a conclusion of it
+    path = tmp_path / "selected.toml"
+    path.write_text(text, encoding="utf-8")
+    assert main(["build", str(path), "-o", str(tmp_path)]) == 0
+    reader = pypdf.PdfReader(tmp_path / "selected.pdf")
+    flat = " ".join(" ".join(page.extract_text() for page in reader.pages[:4]).split())
+    conclusion = flat[flat.index("1.3 Conclusion") :][:500]
+    assert "The selected pump delivers" in conclusion
+    assert "the required flow is met with least margin in C1" in conclusion

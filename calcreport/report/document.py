@@ -729,13 +729,24 @@ class _Report:
                 "curve for every case and recheck this calculation against it."
             )
         reviews = [c for c in self.t["checks"] if c["status"] == "review"]
+        sized = self.sizing_state()
         if reviews:
             return (
                 f"The selected pump delivers {flow} at {tdh} in the design case and meets "
-                f"every criterion that can fail; {len(reviews)} item"
+                f"every criterion that can fail{sized}; {len(reviews)} item"
                 f"{'s are' if len(reviews) != 1 else ' is'} marked for review."
             )
-        return f"The selected pump delivers {flow} at {tdh}; every criterion is met."
+        return f"The selected pump delivers {flow} at {tdh}; every criterion is met{sized}."
+
+    def sizing_state(self) -> str:
+        """``" (the required flow governs in C2, title)"``: the state the duty check of the
+        selected pump is decided in, where the trace has that check."""
+        duty = next((c for c in self.t["checks"] if c["id"] == "duty_flow"), None)
+        if duty is None:
+            return ""
+        titles = {c["id"]: c.get("title", "") for c in self.t.get("cases", [])}
+        title = f", {text(titles[duty['case']])}" if titles.get(duty["case"]) else ""
+        return f" (the required flow is met with least margin in {text(duty['case'])}{title})"
 
     def worst_case(self, key: str, pick: Callable[..., Any]) -> str:
         """``" in the design case and X in Cn (title)"`` where another case's traced head
