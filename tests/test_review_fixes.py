@@ -167,3 +167,14 @@ def test_the_conclusion_names_the_state_the_duty_is_decided_in(tmp_path):
     conclusion = flat[flat.index("1.3 Conclusion") :][:500]
     assert "The selected pump delivers" in conclusion
     assert "the required flow is met with least margin in C1" in conclusion
+
+
+def test_a_pe_size_in_inches_is_answered_with_the_nearest_sizes_by_diameter():
+    from calcreport.catalog.pipes import CatalogLookupError, resolve
+
+    # ISO 4427-2 sizes are outside diameters in mm: "6" (inches, 152.4 mm) lies between
+    # dn 140 and dn 160, not near dn 20.
+    with pytest.raises(CatalogLookupError) as err:
+        resolve("6", "SDR 11", "pe")
+    assert err.value.suggestions == ("140", "160")
+    assert "6 in is 152.4 mm" in str(err.value)

@@ -468,10 +468,20 @@ def _size(fam: _Family, nominal_size: str) -> str:
             f"give the nominal size in inches, one of {', '.join(choices)}."
         )
         raise CatalogLookupError(message, kind="nominal_size", value=text, choices=choices)
-    suggestions = _suggest(text.strip(), choices, None if value is None else float(value))
+    target = None if value is None else float(value)
+    smallest = min((v for c in choices if (v := _as_number(c)) is not None), default=None)
+    inches = fam.size_kind == "dn_mm" and target is not None and smallest and target < smallest
+    if inches:  # below every dn in mm: most likely a nominal size in inches
+        assert target is not None
+        target *= 25.4
+    suggestions = _suggest(text.strip(), choices, target)
     if fam.size_kind == "dn_mm":
         defined = f"Defined (dn, mm): {', '.join(choices)}"
         head = f"'{text}' is not a nominal outside diameter of {fam.noun}"
+        if inches:
+            head += (
+                f", whose sizes are outside diameters in mm ({text.strip()} in is {target:.4g} mm)"
+            )
     else:
         defined = f"Defined (nominal inches): {', '.join(choices)}"
         if fam.dn_column:
