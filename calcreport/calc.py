@@ -39,7 +39,7 @@ from calcreport.physics import (
     viscous,
     water,
 )
-from calcreport.trace import Check, Trace, TraceBuilder, quantity
+from calcreport.trace import Check, Trace, TraceBuilder, quantity, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
 __all__ = ["solve"]
@@ -251,7 +251,7 @@ def solve(model: Model) -> Trace:
             found += checks.evaluate(model, lifted_point, point.id)
             profile[point.id] = lifted_point
     if "electrical_power" in by_case["C1"]:
-        P_e = Given(by_case["C1"]["electrical_power"]["value"], "W", "power.electrical")
+        P_e = source_of(by_case["C1"]["electrical_power"])
         energy = _energy(b, model, states["C1"].case, P_e, profile, notes)
         if energy:
             by_case["C1"]["energy"] = energy
@@ -770,15 +770,13 @@ def _solve_case(
         results["operating_point"] = point
         eta_pump = eta_curve or eta_pump
         if "bep_flow" in point and case.id == "C1":  # the design chart's regions
-            Q_bep = Given(point["bep_flow"]["value"], "m^3/s", "solver.curve_bep_flow")
-            results["operating_region"] = _regions(b, model, Q_bep)
+            results["operating_region"] = _regions(b, model, source_of(point["bep_flow"]))
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive))
     results["required_flow"] = _q(required)
     results["pumps_running"] = _q(case.running)
     results["duty_case"] = case.duty
     if "shaft_power" in results:
-        P_s = Given(results["shaft_power"]["value"], "W", case.sid("power.shaft"))
-        _per_pump_power(b, case, P_s, results)
+        _per_pump_power(b, case, source_of(results["shaft_power"]), results)
     results["system_curve"], duty = _system_curve(model, case, liquid, surfaces, curve)
     if case.id == "C1":  # the required duty on the design system curve, for its chart
         results["duty_point"] = duty
@@ -1311,12 +1309,7 @@ def _lift_speed(
         "pump.static_lift",
         f"Highest static head (case {worst.id})",
         losses.head_sum,
-        h=[
-            Given(by_case[worst.id]["static_head"]["value"], "m", worst.sid("system.static_head")),
-            Given(
-                by_case[worst.id]["pressure_head"]["value"], "m", worst.sid("system.pressure_head")
-            ),
-        ],
+        h=[source_of(by_case[worst.id][key]) for key in ("static_head", "pressure_head")],
     )
     H0 = curve.head[0]
     if model.pump.count.value > 1 and model.pump.arrangement == "series":
@@ -1388,15 +1381,13 @@ def _motor_loading(
     """The motor with its loading (shaft power per pump over the rating) in every state."""
     if "rated_power" not in selected:
         return selected
-    rated = Given(selected["rated_power"]["value"], "W", "motor.rated_power")
+    rated = source_of(selected["rated_power"])
     loading = {}
     for cid, r in by_state.items():
         if "shaft_power" not in r:
             continue
         prefix = "" if cid == "C1" else f"{cid}."
-        key = "shaft_power_per_pump" if "shaft_power_per_pump" in r else "shaft_power"
-        step = "power.shaft_per_pump" if key == "shaft_power_per_pump" else "power.shaft"
-        P = Given(r[key]["value"], "W", prefix + step)
+        P = source_of(r.get("shaft_power_per_pump", r["shaft_power"]))
         loading[cid] = _q(b.step(f"{prefix}motor.loading", "Motor loading", motor.loading,
                                  cid, P=P, P_rated=rated))  # fmt: skip
     return {**selected, "loading": loading}
@@ -2316,13 +2307,10 @@ def _duty_profile(
                 pump_head=point["head"],
                 electrical_power=state["electrical_power"],
             )
-            sid = state["state_id"]
-            powers.append(Given(state["electrical_power"]["value"], "W", f"{sid}.power.electrical"))
+            powers.append(source_of(state["electrical_power"]))
             if "throttling_loss" in point:
                 row["throttling_loss"] = point["throttling_loss"]
-                lost.append(
-                    Given(state["throttling_power"]["value"], "W", f"{sid}.energy.throttling_power")
-                )
+                lost.append(source_of(state["throttling_power"]))
             # Each point's share of the year, for the energy chart (the total is a step).
             row["annual_energy"] = quantity(powers[-1].value * t.value, "J")
             if op.energy_price is not None:
@@ -2412,7 +2400,6 @@ def _profile_state(
         pumps_running=_q(point.running),
         duty_case=True,
         state_kind="profile",
-        state_id=pid,
     )
     n = point.running.value
     parallel = model.pump.arrangement == "parallel"

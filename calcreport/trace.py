@@ -50,6 +50,11 @@ def bound(given: Given) -> dict[str, Any]:
     return {"value": float(given.value), "unit": given.unit, "from": given.key}
 
 
+def source_of(result: dict[str, Any]) -> Given:
+    """The value a :func:`bound` result came from, as an argument for a later step."""
+    return Given(result["value"], result["unit"], result["from"])
+
+
 def _unit(doc_unit: str) -> str:
     return "" if doc_unit in ("-", "") else doc_unit
 
