@@ -215,7 +215,14 @@ def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
     heads = results["pump_curve"]["head"]["value"]
     shutoff, peak = heads[0], max(heads)
     drooping = peak > shutoff * (1 + 1e-6)
-    static = results["static_head"]["value"] + results["pressure_head"]["value"]
+    # The highest static head of any state the pump runs in, not the design case's alone.
+    case, static = max(
+        (
+            (cid, r["static_head"]["value"] + r["pressure_head"]["value"])
+            for cid, r in states(results).items()
+        ),
+        key=lambda item: item[1],
+    )
     parallel = model.pump.count.value > 1 and model.pump.arrangement == "parallel"
     risky = drooping and (parallel or static > shutoff)
     why = []
@@ -235,7 +242,7 @@ def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
         "can operate at two flows for one head: unstable in parallel operation and against a "
         "high static head",
         reference="karassik_2008",
-        case="C1",
+        case=case,
         message=("drooping curve; " + " and ".join(why))
         if risky
         else (

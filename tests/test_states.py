@@ -236,3 +236,21 @@ def test_throttled_point_flange_sees_the_pump_head_and_the_line_the_system_head(
     vs = _solve().results["profile_states"]["P3"]["route"]["min_pressure_head"]["value"]
     assert state["route"]["min_pressure_head"]["value"] == pytest.approx(vs, rel=1e-9)
     assert any("throttling valve is taken just downstream" in a["text"] for a in t.assumptions)
+
+
+def test_a_drooping_curve_is_judged_at_the_highest_static_head_of_any_case():
+    """The drooping curve of tests/test_route.py (42 m at shutoff, 42.5 m at its peak) against
+    23 m of static head in the design case passes; a destination range reaching 43 m of static
+    head in another case exceeds the shutoff head there: a review naming that case."""
+    from test_route import CURVE, QUIET, ROUTE
+
+    base = ROUTE.replace("CREST", "26.0")
+    design_only = solve(loads((base + CURVE + QUIET).encode()))
+    assert _check(design_only, "curve_stability").status == "pass"
+    text = base.replace(
+        '[destination]\nlevel = "25.0 m"', '[destination]\nlevel = "25.0 m"\nlevel_high = "45.0 m"'
+    )
+    ranged = solve(loads((text + CURVE + QUIET).encode()))
+    check = _check(ranged, "curve_stability")
+    assert check.status == "review" and check.case == "C2"
+    assert "static head exceeds the shutoff head" in check.message
