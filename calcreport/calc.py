@@ -1560,7 +1560,7 @@ def _glycol(b: TraceBuilder, model: Model, T: Given, prefix: str) -> Liquid:
         "MEG": (glycol.ethylene_glycol_density, glycol.ethylene_glycol_viscosity),
         "MPG": (glycol.propylene_glycol_density, glycol.propylene_glycol_viscosity),
     }[code]
-    M = b.datum(f"catalog.glycol.{code}.molar_mass", glycol.MOLAR_MASS[code], "")
+    M = b.datum(f"catalog.glycol.{fluid.kind}.molar_mass", glycol.MOLAR_MASS[code], "")
     p_v = b.step(
         f"{prefix}fluid.vapor_pressure",
         f"Vapour pressure of the {name} solution (Raoult's law)",

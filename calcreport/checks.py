@@ -17,7 +17,7 @@ from calcreport.model.schema import Model
 from calcreport.physics import pump
 from calcreport.safety import EXIT_NOTE
 from calcreport.trace import Check
-from calcreport.units import show
+from calcreport.units import KIND_OF_SI_UNIT, parse, pretty_unit, show
 
 __all__ = ["criterion", "evaluate", "governing", "once", "preferred_range", "states"]
 
@@ -283,23 +283,27 @@ def criterion(model: Model, name: str) -> tuple[float, str, str, bool]:
     if given is not None:
         return given.value, f"Project criterion criteria.{name}", "input", True
     default = catalog.criteria()[name]
-    return _default_value(name), default["basis"], default["reference"], False
+    system = model.project.units if "us_value" in default else "SI"
+    basis = default["basis"]
+    if system == "US":
+        number, unit = default["us_value"].split(" ", 1)
+        basis += (
+            f". In US units the limit is {number} {pretty_unit(unit)}, {default['us_basis']} "
+            f"({default['value']} in SI)"
+        )
+    return _default_value(name, system), basis, default["reference"], False
 
 
 @cache
-def _default_value(name: str) -> float:
-    from calcreport.units import parse
-
+def _default_value(name: str, system: str) -> float:
+    """A default limit in SI: in a US report its customary value where the table gives one."""
     default = catalog.criteria()[name]
-    return parse(default["value"], default["kind"])
-
-
-_KINDS = {"m": "length", "m/s": "velocity", "m^3/s": "flow"}
+    return parse(default["us_value" if system == "US" else "value"], default["kind"])
 
 
 def _say(model: Model, value: float, si_unit: str) -> str:
     """A value for a check's message, in the report's units (``"4.92 ft/s"``)."""
-    return show({"value": value, "unit": si_unit}, _KINDS[si_unit], model.project.units, 3)
+    return show({"value": value, "unit": si_unit}, KIND_OF_SI_UNIT[si_unit], model.project.units, 3)
 
 
 def _status(ok: bool, project_set: bool) -> str:

@@ -6,6 +6,10 @@ not a trace raises :class:`calcreport.errors.TraceError`). Nothing here
 prints: :func:`render_text` gives the readable form and
 :meth:`DiffReport.to_json` the structured one.
 
+The readable form prints numbers in the units of the newer trace's report (kWh, kPa or
+psi, marked gauge or absolute) with the report's rounding of results; the JSON form keeps
+the SI values of the traces.
+
 Numbers compare to a relative threshold (:data:`THRESHOLD`) so that float
 noise is not reported as a change. Quantities whose value is a list (the
 system curve, a pump curve) are summarised in one row, "curve changed",
@@ -21,6 +25,7 @@ from pathlib import Path
 from typing import Any
 
 from calcreport.recheck import read_trace, validate
+from calcreport.units import show_keyed
 
 __all__ = [
     "REPORT_FORMAT",
@@ -236,6 +241,7 @@ def _identity(trace: dict[str, Any], path: str) -> dict[str, Any]:
         "calc_id": project.get("calc_id"),
         "revision": project.get("revision"),
         "date": project.get("date"),
+        "units": "US" if project.get("units") == "US" else "SI",
     }
 
 
@@ -493,13 +499,14 @@ def _diff_project(old: dict[str, Any], new: dict[str, Any]) -> list[Change]:
 # ---- the readable form -----------------------------------------------------------------
 
 
-def _show(value: Any) -> str:
+def _show(value: Any, unit: str = "", key: str = "", system: str = "SI") -> str:
+    """A value as the terminal prints it: a number in the report's units and rounding."""
     if value is None:
         return "—"
     if isinstance(value, bool):
         return str(value).lower()
     if _is_number(value):
-        return f"{value:.10g}"
+        return show_keyed(float(value), unit, key, system)
     if isinstance(value, str):
         return value if len(value) <= 40 else value[:37] + "..."
     if isinstance(value, list):
@@ -525,12 +532,12 @@ def _table(header: tuple[str, ...], rows: list[tuple[str, ...]], limit: int) -> 
     return lines
 
 
-def _change_rows(changes: tuple[Change, ...]) -> list[tuple[str, ...]]:
+def _change_rows(changes: tuple[Change, ...], system: str) -> list[tuple[str, ...]]:
     rows = []
     for c in changes:
-        unit = c.unit if c.old_unit is None else f"{c.old_unit} → {c.unit}"
         kind = c.kind if not c.note else f"{c.kind} ({c.note})"
-        rows.append((c.key, kind, _show(c.old), _show(c.new), unit, _pct(c.change_percent)))
+        old = _show(c.old, c.old_unit or c.unit, c.key, system)
+        rows.append((c.key, kind, old, _show(c.new, c.unit, c.key, system), _pct(c.change_percent)))
     return rows
 
 
@@ -544,25 +551,27 @@ def render_text(report: DiffReport, limit: int = 60) -> str:
         date = f", {ident['date']}" if ident.get("date") else ""
         calc = ident.get("calc_id") or "(no calc id)"
         lines.append(f"  {side}: {calc}{rev}{date}; input sha256 {sha[:12] or '—'}")
-    header = ("key", "change", "old", "new", "unit", "change %")
+    system = report.new.get("units", "SI")
+    header = ("key", "change", "old", "new", "change %")
     if report.project:
         lines += ["", "Project details:"]
-        lines += _table(header[:4], [r[:4] for r in _change_rows(report.project)], limit)
+        rows = [r[:4] for r in _change_rows(report.project, system)]
+        lines += _table(header[:4], rows, limit)
     if report.inputs:
         lines += ["", "Inputs:"]
-        lines += _table(header, _change_rows(report.inputs), limit)
+        lines += _table(header, _change_rows(report.inputs, system), limit)
     if report.results:
         lines += ["", "Results that moved:"]
-        lines += _table(("result", *header[1:]), _change_rows(report.results), limit)
+        lines += _table(("result", *header[1:]), _change_rows(report.results, system), limit)
     if report.checks:
         rows = []
         for c in report.checks:
             status = f"{c.old_status or '—'} → {c.new_status or '—'}"
-            rows.append(
-                (c.id, c.case, c.kind, status, _show(c.old_value), _show(c.new_value), c.unit)
-            )
+            old = _show(c.old_value, c.unit, c.id, system)
+            new = _show(c.new_value, c.unit, c.id, system)
+            rows.append((c.id, c.case, c.kind, status, old, new))
         lines += ["", "Checks:"]
-        lines += _table(("check", "case", "change", "status", "old", "new", "unit"), rows, limit)
+        lines += _table(("check", "case", "change", "status", "old", "new"), rows, limit)
     if report.steps_added or report.steps_removed:
         lines += ["", "Steps:"]
         for label, ids in (("added", report.steps_added), ("removed", report.steps_removed)):

@@ -21,16 +21,19 @@ from typing import Any
 
 __all__ = [
     "KINDS",
+    "KIND_OF_SI_UNIT",
     "Kind",
     "UnitProblem",
     "as_written",
     "display_unit",
     "expected",
     "fmt",
+    "kind_of",
     "parse",
     "pretty_unit",
     "registry",
     "show",
+    "show_keyed",
     "to_display",
 ]
 
@@ -429,6 +432,55 @@ def to_display(value: float, si_unit: str, unit: str) -> float:
         return (value - fast[2]) / fast[1]
     ureg = registry()
     return float(ureg.Quantity(value, si_unit or "dimensionless").to(unit).magnitude)
+
+
+# The kind of a trace quantity from its SI unit; a length is a diameter or a roughness and a
+# pressure a modulus where its key says so (:func:`kind_of`).
+KIND_OF_SI_UNIT = {
+    "m": "length",
+    "m^3/s": "flow",
+    "Pa": "pressure",
+    "K": "temperature",
+    "delta_degC": "temperature_difference",
+    "1/s": "speed",
+    "s": "time",
+    "kg/m^3": "density",
+    "Pa*s": "viscosity",
+    "m/s": "velocity",
+    "W": "power",
+    "J": "energy",
+    "J/m^3": "specific_energy",
+    "m^3": "volume",
+}
+_KIND_BY_KEY = (
+    ("m", ("diameter", "thickness", "wall"), "diameter"),
+    ("m", ("roughness",), "roughness"),
+    ("Pa", ("modulus",), "modulus"),
+)
+# Pressures are gauge except the absolute ones the atmosphere and the liquid give.
+_ABSOLUTE_KEYS = ("barometric", "station_pressure", "vapor_pressure", "absolute")
+
+
+def kind_of(si_unit: str, key: str = "") -> str | None:
+    """The kind of a trace quantity in ``si_unit`` whose key is ``key`` (None: no kind)."""
+    name = key.rsplit(".", 1)[-1].lower()
+    for unit, words, kind in _KIND_BY_KEY:
+        if si_unit == unit and any(w in name for w in words):
+            return kind
+    return KIND_OF_SI_UNIT.get(si_unit)
+
+
+def show_keyed(value: float, si_unit: str, key: str, system: str, sig: int = 4) -> str:
+    """A trace value named by ``key`` as printed in ``system``, pressures marked gauge or
+    absolute: ``"45.00 psi(g)"``, ``"119028 kWh"``; a unit of no kind prints as it is."""
+    kind = kind_of(si_unit, key)
+    if kind is None:
+        return f"{fmt(value, sig)} {pretty_unit(si_unit)}".strip()
+    out = show({"value": value, "unit": si_unit}, kind, system, sig)
+    if kind == "pressure":
+        absolute = any(word in key.lower() for word in _ABSOLUTE_KEYS)
+        out += ("a" if system == "US" else "(abs)") if absolute else "(g)"
+    return out
 
 
 def fmt(x: float, sig: int = 5) -> str:

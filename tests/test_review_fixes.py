@@ -178,3 +178,102 @@ def test_a_pe_size_in_inches_is_answered_with_the_nearest_sizes_by_diameter():
         resolve("6", "SDR 11", "pe")
     assert err.value.suggestions == ("140", "160")
     assert "6 in is 152.4 mm" in str(err.value)
+
+
+def _us_pair(tmp_path):
+    """The US example's trace and one with the destination held at 50 psig instead of 45."""
+    import json
+
+    text = (EXAMPLES / "process_transfer_us.toml").read_text(encoding="utf-8")
+    assert '"45 psig"' in text
+    paths = []
+    for name, body in (("old", text), ("new", text.replace('"45 psig"', '"50 psig"'))):
+        path = tmp_path / f"{name}.toml"
+        path.write_text(body, encoding="utf-8")
+        assert main(["build", str(path), "-o", str(tmp_path / name)]) == 0
+        paths.append(tmp_path / name / f"{name}.trace.json")
+    return paths, [json.loads(p.read_text(encoding="utf-8")) for p in paths]
+
+
+def test_diff_prints_in_the_report_units_and_keeps_si_in_json(tmp_path):
+    from calcreport.diff import diff, render_text
+
+    _, (old, new) = _us_pair(tmp_path)
+    report = diff(old, new)
+    shown = render_text(report, limit=500)
+    assert "45.00 psi(g)" in shown and "50.00 psi(g)" in shown
+    assert "kWh" in shown and "USD" in shown
+    assert not re.search(r"\de[+-]\d|\bJ\b|\bPa\b", shown)
+    assert not re.search(r"\d{6,}\.\d", shown)  # no ten-figure numbers
+    given = {c.key: c for c in report.inputs}["destination.pressure"]
+    as_json = {c["key"]: c for c in report.to_json()["inputs"]}["destination.pressure"]
+    assert as_json["unit"] == "Pa" and as_json["new"] == pytest.approx(given.new)
+    assert as_json["new"] == pytest.approx(50 * 6894.757, rel=1e-6)  # psi: NIST SP 811
+
+
+def test_diff_of_an_si_report_prints_kpa_and_kwh(tmp_path):
+    from calcreport.diff import diff, render_text
+
+    text = (EXAMPLES / "reservoir_fill_si.toml").read_text(encoding="utf-8")
+    old = solve(load(EXAMPLES / "reservoir_fill_si.toml")).to_json()
+    changed = re.sub(r'(\[destination\][^\[]*?level = ")([\d.]+)', r"\g<1>133.0", text, count=1)
+    assert changed != text
+    path = tmp_path / "new.toml"
+    path.write_text(changed, encoding="utf-8")
+    shown = render_text(diff(old, solve(load(path)).to_json()), limit=500)
+    assert "kWh" in shown and " J" not in shown and "e+1" not in shown
+    assert re.search(r"kPa\(g\)", shown)
+
+
+def test_the_changes_page_of_a_us_report_is_in_us_units(tmp_path):
+    (old_trace, _), _ = _us_pair(tmp_path)
+    source = tmp_path / "new.toml"
+    out = tmp_path / "rev"
+    assert main(["build", str(source), "-o", str(out), "--previous", str(old_trace)]) == 0
+    reader = pypdf.PdfReader(out / "new.pdf")
+    page = next(p.extract_text() for p in reader.pages if "Changes since" in p.extract_text())
+    assert "45.00 psi(g)" in page and "50.00 psi(g)" in page
+    assert not re.search(r"\d (Pa|J|m³/s|m)\b", page)
+
+
+def test_default_limits_of_a_us_report_are_customary_values_and_say_so():
+    us = solve(load(EXAMPLES / "process_transfer_us.toml"))
+    si = solve(load(EXAMPLES / "reservoir_fill_si.toml"))
+
+    def limit(trace, ident):
+        check = next(c for c in trace.checks if c.id.startswith(ident))
+        return check.limit, check.basis
+
+    value, basis = limit(us, "velocity_max.D")
+    assert value == pytest.approx(10 * 0.3048)  # 10 ft/s exactly (1 ft = 0.3048 m, NIST SP 811)
+    assert "10 ft/s, a rounded customary value (3.0 m/s in SI)" in basis
+    value, basis = limit(si, "velocity_max.D")
+    assert value == pytest.approx(3.0) and "US units" not in basis
+    value, basis = limit(us, "min_pressure")
+    assert value == pytest.approx(7 * 0.3048) and "rounded up" in basis
+
+
+@pytest.mark.parametrize(
+    ("kind", "words"),
+    [
+        ('kind = "ethylene_glycol"\nmass_fraction = 0.30', "ethylene glycol–water"),
+        ('kind = "propylene_glycol"\nmass_fraction = 0.30', "propylene glycol–water"),
+        ('kind = "seawater"\nmass_fraction = 0.035', "seawater"),
+        ('kind = "methanol"', "methanol"),
+    ],
+)
+def test_working_lines_name_the_liquid_in_words_not_library_codes(kind, words):
+    pytest.importorskip("CoolProp")
+    from test_integrity import BASE
+
+    from calcreport.model.loader import loads
+
+    assert 'kind = "water"' in BASE
+    trace = solve(loads(BASE.replace('kind = "water"', kind).encode())).to_json()
+    liquid = [s for s in trace["steps"] if s["id"].startswith("fluid.")]
+    printed = " ".join(
+        " ".join([s["equation"], s["latex"], s["substituted"], *s["inputs"]]) for s in liquid
+    )
+    assert words in printed
+    for code in ("MEG", "MPG", "INCOMP", "MITSW", "CoolProp", "Methanol"):
+        assert code not in printed, code

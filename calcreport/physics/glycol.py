@@ -73,15 +73,17 @@ def _incomp(output: str, fluid: str, T: float, w: float) -> float:
 
 @equation(
     symbol="ρ",
-    text="ρ = ρ_MEG(T, w)",
-    latex=r"\rho = \rho_{MEG}(T, w)",
-    substitute="CoolProp INCOMP::MEG at T = {T}, mass fraction w = {w}",
+    text="ρ = ρ(T, w), ethylene glycol–water",
+    latex=r"\rho = \rho(T, w)",
+    substitute=(
+        "Melinder (2010) fit for ethylene glycol–water at T = {T}, glycol mass fraction w = {w}"
+    ),
     reference="melinder_2010",
 )
 def ethylene_glycol_density(T: Any, w: Any) -> Any:
     r"""Density of an aqueous ethylene-glycol solution at atmospheric pressure.
 
-    .. math:: \rho = \rho_{MEG}(T, w)
+    .. math:: \rho = \rho(T, w)
 
     Parameters
     ----------
@@ -106,15 +108,17 @@ def ethylene_glycol_density(T: Any, w: Any) -> Any:
 
 @equation(
     symbol="μ",
-    text="μ = μ_MEG(T, w)",
-    latex=r"\mu = \mu_{MEG}(T, w)",
-    substitute="CoolProp INCOMP::MEG at T = {T}, mass fraction w = {w}",
+    text="μ = μ(T, w), ethylene glycol–water",
+    latex=r"\mu = \mu(T, w)",
+    substitute=(
+        "Melinder (2010) fit for ethylene glycol–water at T = {T}, glycol mass fraction w = {w}"
+    ),
     reference="melinder_2010",
 )
 def ethylene_glycol_viscosity(T: Any, w: Any) -> Any:
     r"""Dynamic viscosity of an aqueous ethylene-glycol solution.
 
-    .. math:: \mu = \mu_{MEG}(T, w)
+    .. math:: \mu = \mu(T, w)
 
     Parameters
     ----------
@@ -137,15 +141,17 @@ def ethylene_glycol_viscosity(T: Any, w: Any) -> Any:
 
 @equation(
     symbol="ρ",
-    text="ρ = ρ_MPG(T, w)",
-    latex=r"\rho = \rho_{MPG}(T, w)",
-    substitute="CoolProp INCOMP::MPG at T = {T}, mass fraction w = {w}",
+    text="ρ = ρ(T, w), propylene glycol–water",
+    latex=r"\rho = \rho(T, w)",
+    substitute=(
+        "Melinder (2010) fit for propylene glycol–water at T = {T}, glycol mass fraction w = {w}"
+    ),
     reference="melinder_2010",
 )
 def propylene_glycol_density(T: Any, w: Any) -> Any:
     r"""Density of an aqueous propylene-glycol solution at atmospheric pressure.
 
-    .. math:: \rho = \rho_{MPG}(T, w)
+    .. math:: \rho = \rho(T, w)
 
     Parameters
     ----------
@@ -168,15 +174,17 @@ def propylene_glycol_density(T: Any, w: Any) -> Any:
 
 @equation(
     symbol="μ",
-    text="μ = μ_MPG(T, w)",
-    latex=r"\mu = \mu_{MPG}(T, w)",
-    substitute="CoolProp INCOMP::MPG at T = {T}, mass fraction w = {w}",
+    text="μ = μ(T, w), propylene glycol–water",
+    latex=r"\mu = \mu(T, w)",
+    substitute=(
+        "Melinder (2010) fit for propylene glycol–water at T = {T}, glycol mass fraction w = {w}"
+    ),
     reference="melinder_2010",
 )
 def propylene_glycol_viscosity(T: Any, w: Any) -> Any:
     r"""Dynamic viscosity of an aqueous propylene-glycol solution.
 
-    .. math:: \mu = \mu_{MPG}(T, w)
+    .. math:: \mu = \mu(T, w)
 
     Parameters
     ----------

@@ -110,7 +110,7 @@ def _make(kind: str, prop: str) -> Callable[..., Any]:
             return _evaluate(output, "T", T, "P", 101325.0, fluid=f"INCOMP::MITSW[{w:.6g}]")
 
         doc = _SEAWATER_DOC.format(what=what, symbol=symbol, unit=unit)
-        substitute = "CoolProp INCOMP::MITSW at T = {T}, salinity w = {w}"
+        substitute = "Sharqawy et al. (2010) seawater correlations at T = {T}, salinity w = {w}"
         arguments = "T, w"
         reference = "sharqawy_2010"
     else:
@@ -130,7 +130,7 @@ def _make(kind: str, prop: str) -> Callable[..., Any]:
         doc = _PURE_DOC.format(
             what=what, name=name, params=params, symbol=symbol, unit=unit, fluid=fluid
         )
-        substitute = f"CoolProp {fluid} at " + ", ".join(
+        substitute = f"reference equation of state of {name} at " + ", ".join(
             f"{a} = {{{a}}}" for a in arguments.split(", ")
         )
         reference = "coolprop_2014"

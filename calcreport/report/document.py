@@ -38,7 +38,15 @@ from reportlab.platypus import (
 
 from calcreport.report import style
 from calcreport.report.mathtext import Equation
-from calcreport.units import display_unit, fmt, pretty_unit, show, to_display
+from calcreport.units import (
+    KIND_OF_SI_UNIT,
+    display_unit,
+    fmt,
+    pretty_unit,
+    show,
+    show_keyed,
+    to_display,
+)
 
 __all__ = ["render_pdf"]
 
@@ -70,23 +78,6 @@ MAX_FITTINGS_LISTED = 12  # fitting entries in a pipe's table row
 # Longest node table printed in full; a longer route prints its governing nodes.
 MAX_NODE_ROWS = 60
 
-# Kind of quantity for display, by SI unit.
-_KIND_OF_UNIT = {
-    "m": "length",
-    "m^3/s": "flow",
-    "Pa": "pressure",
-    "K": "temperature",
-    "delta_degC": "temperature_difference",
-    "1/s": "speed",
-    "s": "time",
-    "kg/m^3": "density",
-    "Pa*s": "viscosity",
-    "m/s": "velocity",
-    "W": "power",
-    "J": "energy",
-    "J/m^3": "specific_energy",
-}
-
 
 @cache
 def _jinja() -> Any:
@@ -109,16 +100,15 @@ def _lines(name: str, **values: Any) -> list[str]:
     return [line.strip() for line in _template(name, **values).splitlines() if line.strip()]
 
 
-def _short(value: Any, unit: str = "") -> str:
-    """A changed value as the changes page prints it (SI, as in the trace)."""
-    if isinstance(value, dict) and "value" in value:
-        return _short(value["value"], value.get("unit", unit))
+def _short(value: Any, unit: str, key: str, system: str) -> str:
+    """A changed value as the changes page prints it: in the report's units, rounded as its
+    results are."""
     if isinstance(value, list):
         return f"{len(value)} values"
     if isinstance(value, dict):
         return "changed"
     if isinstance(value, int | float) and not isinstance(value, bool):
-        return f"{fmt(float(value), 5)} {pretty_unit(unit)}".strip()
+        return show_keyed(float(value), unit, key, system)
     return "—" if value is None else str(value)
 
 
@@ -180,14 +170,14 @@ class _Report:
         if quantity is None:
             return "—"
         unit = quantity["unit"]
-        kind = kind or _KIND_OF_UNIT.get(unit)
+        kind = kind or KIND_OF_SI_UNIT.get(unit)
         if kind is None:
             return f"{fmt(quantity['value'], sig)} {pretty_unit(unit)}".strip()
         return show(quantity, kind, self.system, sig)
 
     def q_both(self, quantity: dict[str, Any], kind: str | None = None) -> str:
         """SI value, and the US value beside it in a US report."""
-        kind = kind or _KIND_OF_UNIT.get(quantity["unit"])
+        kind = kind or KIND_OF_SI_UNIT.get(quantity["unit"])
         si = show(quantity, kind, "SI") if kind else self.q(quantity)
         if self.system == "US" and kind:
             return f"{si} ({show(quantity, kind, 'US')})"
@@ -667,8 +657,14 @@ class _Report:
             for ch in list(changes)[:limit]:
                 pct = "—" if ch.change_percent is None else f"{ch.change_percent:+.3g} %"
                 unit = getattr(ch, "unit", "") or ""
+                old_unit = getattr(ch, "old_unit", None) or unit
                 out_rows.append(
-                    [text(ch.key), text(_short(ch.old, unit)), text(_short(ch.new, unit)), pct]
+                    [
+                        text(ch.key),
+                        text(_short(ch.old, old_unit, ch.key, self.system)),
+                        text(_short(ch.new, unit, ch.key, self.system)),
+                        pct,
+                    ]
                 )
             return out_rows
 
@@ -1277,7 +1273,7 @@ class _Report:
         extra: list[tuple[Any, ...]] = []
         for n, c in enumerate(checks, start=1):
             unit = (c["value"] or c["limit"] or {"unit": ""})["unit"]
-            kind = _KIND_OF_UNIT.get(unit)
+            kind = KIND_OF_SI_UNIT.get(unit)
             gauge = "(g)" if kind == "pressure" else ""  # checked pressures are gauge
             value = self.q(c["value"], kind) + gauge if c["value"] else "—"
             if c["value"] and not kind:  # a ratio, or a unit the report has no kind for
