@@ -246,7 +246,41 @@ def test_pvc_spot_checks(nps, schedule, od_in, wall_in, seen_in):
     pipe = resolve(nps, schedule, family="pvc")
     assert pipe.family == "pvc"
     assert mm(pipe.outside_diameter) == pytest.approx(od_in * IN, abs=1e-6), seen_in
-    assert mm(pipe.wall_thickness) == pytest.approx(wall_in * IN, abs=0.006), seen_in
+    assert mm(pipe.min_wall_thickness) == pytest.approx(wall_in * IN, abs=0.006), seen_in
+    assert pipe.wall_thickness > pipe.min_wall_thickness  # the bore takes the mean wall
+
+
+# ASTM D1785 Table 2 minimum and maximum walls in mm, schedules 40 and 80, as reproduced in a
+# supplier's data sheet ("ASTM D1785, ASTM D2665", pdfcoffee.com/astm-d1785-9-pdf-free.html):
+# the maximum is the minimum plus the tolerance, 12 % of the minimum and at least 0.020 in.
+D1785_MIN_MAX = [
+    ("1/2", "40", 2.77, 3.28), ("1/2", "80", 3.73, 4.24), ("1", "40", 3.38, 3.89),
+    ("1", "80", 4.55, 5.08), ("2", "40", 3.91, 4.42), ("2", "80", 5.54, 6.20),
+    ("2-1/2", "40", 5.16, 5.77), ("3", "40", 5.49, 6.15), ("3", "80", 7.62, 8.53),
+    ("4", "40", 6.02, 6.73), ("4", "80", 8.56, 9.58), ("5", "80", 9.52, 10.66),
+    ("6", "40", 7.11, 7.97), ("6", "80", 10.97, 12.29), ("8", "40", 8.18, 9.17),
+    ("8", "80", 12.70, 14.22),
+]  # fmt: skip
+
+
+@pytest.mark.parametrize(("nps", "schedule", "minimum", "maximum"), D1785_MIN_MAX)
+def test_pvc_bore_takes_the_mean_of_the_d1785_minimum_and_maximum_wall(
+    nps, schedule, minimum, maximum
+):
+    pipe = resolve(nps, schedule, family="pvc")
+    # The reproduction prints to 0.01 mm, some values cut rather than rounded (10.66 for 10.668).
+    assert mm(pipe.min_wall_thickness) == pytest.approx(minimum, abs=0.01)
+    assert mm(pipe.wall_thickness) == pytest.approx((minimum + maximum) / 2, abs=0.01)
+    assert mm(pipe.inner_diameter) == pytest.approx(
+        mm(pipe.outside_diameter) - (minimum + maximum), abs=0.02
+    )
+    assert "mean wall" in pipe.bore_basis
+
+
+def test_pvc_half_inch_schedule_40_bore_is_the_average_id():
+    # 1/2 in Sch 40: OD 0.840 in, wall 0.109 in minimum, 0.129 in maximum (reproduction above):
+    # mean-wall bore 0.840 - 2 x 0.119 = 0.602 in.
+    assert mm(resolve("1/2", "40", "pvc").inner_diameter) == pytest.approx(0.602 * IN, abs=1e-9)
 
 
 # (dn mm, SDR, minimum wall mm, reproduction) for ISO 4427-2 / EN 12201-2 [S]
@@ -272,8 +306,22 @@ PE_SPOT = [
 def test_pe_spot_checks(dn, sdr, wall_mm, seen_in):
     pipe = resolve(str(dn), f"SDR{sdr}", family="pe")
     assert mm(pipe.outside_diameter) == pytest.approx(dn)
-    assert mm(pipe.wall_thickness) == pytest.approx(wall_mm, abs=1e-9), seen_in
-    assert mm(pipe.inner_diameter) == pytest.approx(dn - 2 * wall_mm, abs=1e-9)
+    assert mm(pipe.min_wall_thickness) == pytest.approx(wall_mm, abs=1e-9), seen_in
+    # Bore from the mean wall: e_min plus half the grade V tolerance of ISO 11922-1,
+    # 0.1 e_min + 0.1 mm rounded up to 0.1 mm (from memory).
+    tolerance = math.ceil(round(wall_mm + 1, 9)) / 10
+    assert mm(pipe.inner_diameter) == pytest.approx(dn - 2 * wall_mm - tolerance, abs=1e-9)
+
+
+@pytest.mark.parametrize(
+    ("dn", "sdr", "e_min", "e_max"),
+    [(110, "11", 10.0, 11.1), (63, "11", 5.8, 6.5), (20, "11", 2.0, 2.3), (160, "17", 9.5, 10.6)],
+)
+def test_pe_mean_wall_sits_between_the_standard_minimum_and_maximum(dn, sdr, e_min, e_max):
+    # EN 12201-2 / ISO 4427-2 wall table, e_min and e_max (from memory).
+    pipe = resolve(str(dn), f"SDR{sdr}", family="pe")
+    assert mm(pipe.wall_thickness) == pytest.approx((e_min + e_max) / 2, abs=1e-9)
+    assert "mean wall" in pipe.bore_basis and "ISO 11922-1" in pipe.bore_basis
 
 
 def _pe_rule(dn: int, sdr: str) -> float:
@@ -349,8 +397,10 @@ def test_pvc_against_fluids(schedule):
     for nps, di, do, t in zip(nps_list, dis, dos, ts, strict=True):
         pipe = resolve(str(nps), schedule, "pvc")
         assert mm(pipe.outside_diameter) == pytest.approx(do, abs=0.05)
-        assert mm(pipe.wall_thickness) == pytest.approx(t, abs=0.05)
-        assert mm(pipe.inner_diameter) == pytest.approx(di, abs=0.05)
+        assert mm(pipe.min_wall_thickness) == pytest.approx(t, abs=0.05)
+        # fluids' bore is the minimum wall's; ours is the mean wall's, smaller by the tolerance.
+        tolerance = 2 * (pipe.wall_thickness - pipe.min_wall_thickness)
+        assert mm(pipe.inner_diameter) == pytest.approx(di - mm(tolerance), abs=0.05)
     assert len(nps_list) == len(pipes.sizes("pvc")) == 23
 
 

@@ -277,3 +277,43 @@ def test_working_lines_name_the_liquid_in_words_not_library_codes(kind, words):
     assert words in printed
     for code in ("MEG", "MPG", "INCOMP", "MITSW", "CoolProp", "Methanol"):
         assert code not in printed, code
+
+
+def _reproduction_keys():
+    import tomllib
+
+    root = Path(__file__).parent.parent / "calcreport" / "catalog"
+    with (root / "sources.toml").open("rb") as handle:
+        return set(tomllib.load(handle)["reproductions"])
+
+
+def test_printed_catalog_provenance_names_primary_sources_only():
+    from calcreport.catalog import pipes
+
+    keys = _reproduction_keys()
+    printed = [pipes.roughness(m).published for m in pipes.materials()]
+    for family in pipes.families():
+        for size in pipes.sizes(family):
+            schedules = pipes.schedules(family, size)
+            printed += [pipes.resolve(size, s, family).published for s in schedules]
+    for line in printed:
+        assert line and "read in" not in line and "sources.toml" not in line, line
+        assert not any(key in line for key in keys), line
+
+
+def test_a_pe_pipe_report_states_the_bore_basis_and_no_reproduction(tmp_path):
+    from test_integrity import BASE
+
+    old = 'length = "150 m"\ninner_diameter = "102.26 mm"\nroughness = "0.045 mm"'
+    assert old in BASE
+    text = BASE.replace(
+        old, 'length = "150 m"\nnominal_size = "110"\nschedule = "SDR 11"\nmaterial = "hdpe"'
+    )
+    assert text != BASE
+    path = tmp_path / "pe.toml"
+    path.write_text(text, encoding="utf-8")
+    assert main(["build", str(path), "-o", str(tmp_path)]) == 0
+    reader = pypdf.PdfReader(tmp_path / "pe.pdf")
+    flat = " ".join(" ".join(page.extract_text() for page in reader.pages).split())
+    assert "mean wall" in flat and "ISO 11922-1" in flat
+    assert not any(key in flat for key in _reproduction_keys())

@@ -5,7 +5,7 @@ Families (data files in this folder, described in ``sources.toml``):
 ``steel``      ASME B36.10M welded and seamless wrought steel pipe, NPS 1/8-36
 ``stainless``  ASME B36.19M stainless steel pipe, schedules 5S, 10S, 40S, 80S
 ``copper``     ASTM B88 copper water tube, types K, L, M
-``pvc``        ASTM D1785 PVC pipe, schedules 40 and 80 (minimum walls)
+``pvc``        ASTM D1785 PVC pipe, schedules 40 and 80 (minimum walls tabulated)
 ``pe``         ISO 4427-2 / EN 12201-2 polyethylene pipe, metric OD series by SDR
 
 >>> pipe = resolve("NPS 6", "Sch 40")
@@ -18,7 +18,11 @@ Families (data files in this folder, described in ``sources.toml``):
 
 Lengths are returned in metres. Inner diameter is outside diameter minus twice the wall, computed
 here from the table's millimetre columns (the standard's own SI values for B36.10M/B36.19M, exact
-conversions of the inch values for B88 and D1785). Unknown names raise
+conversions of the inch values for B88 and D1785). The plastics standards tabulate a minimum
+wall, whose bore is the largest the standard allows and so understates the head: for PVC and PE
+the bore is taken with the mean wall, the minimum plus half the standard's wall tolerance
+(:func:`_mean_wall_mm`), and that wall is the one returned; the minimum is kept beside it.
+Unknown names raise
 :class:`CatalogLookupError`, a :class:`LookupError` whose message is a full sentence naming the
 value, the close matches and the valid choices.
 """
@@ -27,7 +31,9 @@ from __future__ import annotations
 
 import csv
 import difflib
+import math
 import re
+import tomllib
 from dataclasses import dataclass
 from fractions import Fraction
 from functools import cache
@@ -84,6 +90,12 @@ class PipeSize:
     inner_diameter: float
     source: str
     table: str
+    # The tabulated minimum wall where the standard gives one (PVC, PE), and how the bore follows.
+    min_wall_thickness: float | None = None
+    bore_basis: str = "outside diameter and wall as tabulated"
+    # The primary published source as the report prints it (``source`` also names the
+    # reproductions a value was read in, for the catalog's maintainers).
+    published: str = ""
 
 
 @dataclass(frozen=True)
@@ -96,6 +108,7 @@ class Roughness:
     description: str
     source: str
     table: str
+    published: str = ""
 
 
 @dataclass(frozen=True)
@@ -531,7 +544,9 @@ def _lookup(family: str, size: str, schedule: str, given: str) -> PipeSize:
     # conversions): 1 in = 25.4 mm exactly, so NPS 6 Sch 40 is 6.065 in = 154.051 mm.
     scale = Fraction(254, 10) if fam.od_column.endswith("_in") else Fraction(1)
     od_mm = Fraction(row[fam.od_column]) * scale
-    wall_mm = Fraction(row[fam.wall_column]) * scale
+    tabulated_mm = Fraction(row[fam.wall_column]) * scale
+    mean = _MEAN_WALL.get(family)
+    wall_mm = tabulated_mm if mean is None else mean[0](tabulated_mm)
     return PipeSize(
         family=family,
         nominal_size=size,
@@ -541,7 +556,54 @@ def _lookup(family: str, size: str, schedule: str, given: str) -> PipeSize:
         inner_diameter=_metres(od_mm - 2 * wall_mm),
         source=row["source"],
         table=fam.table,
+        min_wall_thickness=None if mean is None else _metres(tabulated_mm),
+        bore_basis="outside diameter and wall as tabulated" if mean is None else mean[1],
+        published=_printed(fam.table)
+        + (
+            "; this wall by the rule of ISO 4065, e_min = dn/(2S + 1), not read from the table"
+            if row.get("basis") == "rule"
+            else ""
+        ),
     )
+
+
+@cache
+def _printed(table: str) -> str:
+    """The primary source of ``table`` as the report prints it (sources.toml ``printed``)."""
+    with (_HERE / "sources.toml").open("rb") as handle:
+        return str(tomllib.load(handle)["files"][table]["printed"])
+
+
+def _d1785_mean_wall(minimum_mm: Fraction) -> Fraction:
+    """ASTM D1785 Table 2: the wall may exceed its minimum by 12 % of it, at least 0.020 in
+    (the tabulated tolerance, to 0.001 in); the mean wall is the minimum plus half of that."""
+    inch = Fraction(254, 10)
+    tolerance_in = max(Fraction(20, 1000), round(minimum_mm / inch * Fraction(12, 100), 3))
+    return minimum_mm + tolerance_in * inch / 2
+
+
+def _iso_mean_wall(minimum_mm: Fraction) -> Fraction:
+    """ISO 4427-2 / EN 12201-2 walls take the grade V tolerance of ISO 11922-1: 0.1 e_min +
+    0.1 mm, rounded up to 0.1 mm; the mean wall is the minimum plus half of that."""
+    tolerance_tenths = math.ceil(minimum_mm + 1 - Fraction(1, 10**9))  # (0.1 e + 0.1) in 0.1 mm
+    return minimum_mm + Fraction(tolerance_tenths, 10) / 2
+
+
+# family -> (mean wall from the tabulated minimum, in mm; how the report states the bore)
+_MEAN_WALL = {
+    "pvc": (
+        _d1785_mean_wall,
+        "bore from the average outside diameter and the mean wall: the minimum wall plus half "
+        "the D1785 tolerance (12 % of the minimum, at least 0.020 in), so the head is not "
+        "understated by the largest bore",
+    ),
+    "pe": (
+        _iso_mean_wall,
+        "bore from the nominal outside diameter (the least mean OD) and the mean wall: e_min "
+        "plus half the grade V tolerance of ISO 11922-1 (0.1 e_min + 0.1 mm, rounded up to "
+        "0.1 mm; from memory), so the head is not understated by the largest bore",
+    ),
+}
 
 
 def _schedule_error(fam: _Family, size: str, schedule: str, given: str) -> CatalogLookupError:
@@ -615,4 +677,5 @@ def roughness(material: str) -> Roughness:
         description=row["description"],
         source=row["source"],
         table=ROUGHNESS_TABLE,
+        published=row["published"],
     )

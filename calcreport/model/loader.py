@@ -1614,10 +1614,13 @@ def _catalog_diameter(
         r.problem(f"{path}.{'material' if kind == 'family' else kind}", str(exc))
         return None, None
     key = f"catalog.{size.table.removesuffix('.csv')}[{size.nominal_size} {size.schedule}]"
+    minimum = (
+        f" (minimum {size.min_wall_thickness * 1e3:.2f} mm)" if size.min_wall_thickness else ""
+    )
     sources["inner_diameter"] = (
         f"{size.family} pipe NPS/DN {size.nominal_size}, {size.schedule}: OD "
-        f"{size.outside_diameter * 1e3:.2f} mm, wall {size.wall_thickness * 1e3:.2f} mm; "
-        f"{size.source}"
+        f"{size.outside_diameter * 1e3:.2f} mm, wall {size.wall_thickness * 1e3:.2f} mm"
+        f"{minimum}; {size.bore_basis}; {size.published}"
     )
     sources["family"] = size.family
     return (
@@ -1645,7 +1648,7 @@ def _catalog_roughness(
     except LookupError as exc:
         r.problem(f"{path}.material", str(exc))
         return None
-    sources["roughness"] = f"{found.material} (new): {found.source}"
+    sources["roughness"] = f"{found.material} (new): {found.published}"
     return Given(found.value, "m", f"catalog.roughness[{found.material}]")
 
 
