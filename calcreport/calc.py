@@ -123,10 +123,11 @@ def solve(model: Model) -> Trace:
     if model.source.level_low:
         b.assume("NPSH available is taken at the lowest source level, source.level_low.")
     if model.envelope.roughness is None:
+        example = '"0.02 in"' if model.project.units == "US" else '"0.5 mm"'
         notes.append(
             "No aged-pipe state is given: the heads use new-pipe roughness, which understates "
             "them as the pipe ages (common practice, no published source, is to check an aged "
-            'state): give envelope.roughness, such as "0.5 mm", on the project\'s basis.'
+            f"state): give envelope.roughness, such as {example}, on the project's basis."
         )
     lowest = model.source.level_low or model.source.level
     if model.pump.elevation.value > lowest.value:

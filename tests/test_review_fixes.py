@@ -317,3 +317,39 @@ def test_a_pe_pipe_report_states_the_bore_basis_and_no_reproduction(tmp_path):
     flat = " ".join(" ".join(page.extract_text() for page in reader.pages).split())
     assert "mean wall" in flat and "ISO 11922-1" in flat
     assert not any(key in flat for key in _reproduction_keys())
+
+
+@pytest.fixture(scope="module")
+def us_report(tmp_path_factory):
+    out = tmp_path_factory.mktemp("us")
+    assert main(["build", str(EXAMPLES / "process_transfer_us.toml"), "-o", str(out)]) == 0
+    pdf = pypdf.PdfReader(out / "process_transfer_us.pdf")
+    return [" ".join(page.extract_text().split()) for page in pdf.pages]
+
+
+def test_us_assumptions_print_their_values_in_us_units(us_report):
+    flat = " ".join(us_report)
+    assert "no outlet velocity head is added. (0 ft)" in flat
+    assert "(0 m)" not in flat and "(0 m/s)" not in flat
+
+
+def test_a_value_the_same_in_both_systems_prints_once(us_report):
+    flat = " ".join(us_report)
+    assert re.search(r"Result: E = \d+ kWh inputs", flat)
+    assert not re.search(r"kWh \(\d+ kWh\)", flat)
+
+
+def test_every_us_page_outside_the_worked_steps_reads_in_us_units(us_report):
+    # Worked steps substitute in SI (stated in the conventions) with each result also in US
+    # units; every other line of the report is in US units. SI appears only in the inputs
+    # table's "as used (SI)" column and beside a default limit's customary value.
+    si = re.compile(r"\d ?(kPa|Pa|m³/s|L/s|kg/m³|mm|°C|kW|m/s|m)(\(g\))?(?![\w³²/])")
+    for number, page in enumerate(us_report, start=1):
+        if "as used (SI)" in page or "Full step listing" in page:
+            continue
+        lines = re.split(r"(?=\[[\w.\[\]]+\])|Result:", page)  # step blocks start with [id]
+        for piece in lines:
+            if "inputs:" in piece or " = " in piece:
+                continue  # a worked step (SI substitution) or its result
+            hit = si.search(re.sub(r"\([^()]* in SI\)", "", piece))
+            assert hit is None, (number, piece[max(0, hit.start() - 80) : hit.end() + 20])

@@ -179,9 +179,8 @@ class _Report:
         """SI value, and the US value beside it in a US report."""
         kind = kind or KIND_OF_SI_UNIT.get(quantity["unit"])
         si = show(quantity, kind, "SI") if kind else self.q(quantity)
-        if self.system == "US" and kind:
-            return f"{si} ({show(quantity, kind, 'US')})"
-        return si
+        us = show(quantity, kind, "US") if self.system == "US" and kind else si
+        return si if us == si else f"{si} ({us})"  # kWh, rpm and s are the same in both
 
     def table(
         self,
@@ -863,6 +862,9 @@ class _Report:
         out.append(self.heading("Assumptions", 2))
         for a in self.t["assumptions"]:
             value = f" ({text(a['value'])})" if a.get("value") else ""
+            quantity = a.get("quantity")
+            if quantity and KIND_OF_SI_UNIT.get(quantity["unit"]):  # in the report's units
+                value = f" ({self.q(quantity)})"
             out.append(self.p(f"<b>{a['id']}</b>  {text(a['text'])}{value}"))
         out.append(self.heading("Design criteria", 2))
         rows = [["Criterion", "Limit", "Basis", "Source"]]
