@@ -34,7 +34,7 @@ def load(path: str | Path) -> Model:
 
 def solve(model: Model) -> Trace:
     """Solve a validated model; the trace holds every step, result and check."""
-    from calcreport.calc import solve as _solve
+    from calcreport.solver import solve as _solve
 
     return _solve(model)
 

@@ -190,8 +190,8 @@ def _check(args: argparse.Namespace) -> int:
 
 
 def _solve(args: argparse.Namespace) -> int:
-    from calcreport.calc import solve
     from calcreport.model.loader import load
+    from calcreport.solver import solve
 
     trace = solve(load(args.input, args.files_anywhere))
     if args.json:
@@ -202,10 +202,10 @@ def _solve(args: argparse.Namespace) -> int:
 
 
 def _build(args: argparse.Namespace) -> int:
-    from calcreport.calc import solve
     from calcreport.model.loader import load
     from calcreport.output import write_all
     from calcreport.report import render
+    from calcreport.solver import solve
 
     source = Path(args.input)
     model = load(source, args.files_anywhere)

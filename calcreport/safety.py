@@ -1,6 +1,6 @@
 """Pressure safety along the route and surge screening: their part of the solve stage.
 
-:func:`calcreport.calc.solve` calls these once its operating states are
+:func:`calcreport.solver.solve` calls these once its operating states are
 solved. For each state, :func:`profile` lays the energy and hydraulic grade
 lines over every point where the route's pressure is read (each pipe's
 stations, both sides of every fitting location, and the pump's flanges) and
@@ -30,7 +30,7 @@ from calcreport.trace import TraceBuilder, quantity
 from calcreport.trace import bound as _q  # a result naming its source
 
 if TYPE_CHECKING:
-    from calcreport.calc import Case, CurvePoints, Liquid
+    from calcreport.solver.states import Case, CurvePoints, Liquid
 
 __all__ = [
     "EXIT_NOTE",

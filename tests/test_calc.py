@@ -5,14 +5,15 @@ from pathlib import Path
 
 import pytest
 
-from calcreport.calc import solve
 from calcreport.model.loader import loads
 from calcreport.physics.equation import lookup
+from calcreport.solver import solve
 
 EXAMPLES = Path(__file__).parent.parent / "input_examples"
 
-# The end-to-end case of CHECK-VALUES.md section 11 [V]: water 20 degC, open
-# tanks at sea level, levels +2.0 m and +25.0 m above the pump centreline.
+# The project's own end-to-end check case, recomputed independently with fluids 1.3.1
+# (Colebrook) and IAPWS-95 water properties: water 20 degC, open tanks at sea level,
+# levels +2.0 m and +25.0 m above the pump centreline.
 CASE = """
 format = 1
 [fluid]
@@ -103,8 +104,8 @@ def test_against_independent_calculation(trace):
 
 
 def test_check_values_end_to_end(trace):
-    # CHECK-VALUES.md section 11 [V] (properties from IAPWS-95 there, IF97 here:
-    # 1e-6 in density), tolerance 1e-4 relative as stated there.
+    # Computed with fluids 1.3.1 (Colebrook) and IAPWS-95 water properties (IF97 here:
+    # 1e-6 in density); tolerance 1e-4 relative with K fixed.
     r = trace.results
     assert r["pipes"]["S1"]["velocity"]["value"] == pytest.approx(1.07303, rel=1e-5)
     assert r["pipes"]["S1"]["reynolds"]["value"] == pytest.approx(164_742, rel=1e-4)
@@ -122,7 +123,7 @@ def test_check_values_end_to_end(trace):
 
 
 def test_system_curve_check_values(trace):
-    # CHECK-VALUES.md section 11 [V]: H(Q) at 0/5/10/15/20/25/30 L/s.
+    # Computed with fluids 1.3.1 and IAPWS-95 water: H(Q) at 0/5/10/15/20/25/30 L/s.
     curve = trace.results["system_curve"]
     flows = curve["flow"]["value"]
     heads = dict(zip((round(q * 1e3, 6) for q in flows), curve["head"]["value"], strict=True))
@@ -151,7 +152,8 @@ def test_curve_passes_through_duty_point(trace):
 
 
 def test_high_site_lowers_npsh_available():
-    # CHECK-VALUES.md section 11 [V]: NPSHa 10.2674 m at 1500 m elevation.
+    # Computed with fluids 1.3.1 (US Standard Atmosphere 1976, fluids.atmosphere) and
+    # IAPWS-95 water: NPSHa 10.2674 m at 1500 m elevation.
     high = CASE.replace("[source]", '[site]\nelevation = "1500 m"\n[source]')
     r = solve(loads(high.encode())).results
     assert r["npsh_available"]["value"] == pytest.approx(10.2674, rel=1e-4)
@@ -313,7 +315,7 @@ def test_missing_exit_item_asks_for_review():
 
 
 def _analytic_curve(step_ls=0.5, top=40.0, speed=""):
-    """CHECK-VALUES.md section 11 pump: H = 42 + 0.2q - 0.02q^2, eta = 0.78[1 - ((q-22)/22)^2]."""
+    """The check case's own pump: H = 42 + 0.2q - 0.02q^2, eta = 0.78[1 - ((q-22)/22)^2]."""
     n = round(top / step_ls)
     qs = [i * step_ls for i in range(n + 1)]
     heads = [42 + 0.2 * q - 0.02 * q * q for q in qs]
@@ -327,7 +329,7 @@ def _analytic_curve(step_ls=0.5, top=40.0, speed=""):
 
 
 def test_operating_point_against_check_values():
-    # CHECK-VALUES.md section 11 [V]: operating point q 23.3282 L/s, H 35.7815 m,
+    # Computed with fluids 1.3.1 and IAPWS-95 water: operating point q 23.3282 L/s, H 35.7815 m,
     # eta 0.7772, brake power 10 514.1 W; 1e-4 relative with K fixed. The curve is
     # given as points every 0.5 L/s; the monotone cubic reproduces it to ~1e-5.
     text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
@@ -343,7 +345,7 @@ def test_operating_point_against_check_values():
 
 
 def test_affinity_moves_the_curve_and_finds_a_new_intersection():
-    # CHECK-VALUES.md section 11 [V]: at 90 % speed q 18.0178 L/s, H 30.7704 m.
+    # Computed with fluids 1.3.1 and IAPWS-95 water: at 90 % speed q 18.0178 L/s, H 30.7704 m.
     speeds = 'speed = "3000 rpm"\n'
     text = CASE.replace("efficiency = 0.78\n", 'speed = "2700 rpm"\n') + _analytic_curve(
         speed=speeds
@@ -373,7 +375,7 @@ def test_motor_is_next_standard_rating_above_the_peak_power():
     t = solve(loads(text.encode()))
     motor = t.results["motor"]
     peak = motor["peak_shaft_power"]["value"]
-    # IEC 60072-1 output series (from memory, CHECK-VALUES.md section 8 [M]).
+    # IEC 60072-1 output series (from memory).
     iec_kw = [0.75, 1.1, 1.5, 2.2, 3, 4, 5.5, 7.5, 11, 15, 18.5, 22, 30, 37, 45, 55, 75, 90]
     expected = min(k for k in iec_kw if k * 1e3 >= peak) * 1e3
     assert motor["rated_power"]["value"] == pytest.approx(expected)
@@ -496,7 +498,7 @@ def test_peak_required_flow_governs_the_duty_check():
     t = solve(loads(text.encode()))
     duty = next(c for c in t.checks if c.id == "duty_flow")
     assert duty.limit == pytest.approx(0.025)
-    assert duty.status == "fail"  # the pump gives about 23.3 L/s (CHECK-VALUES section 11)
+    assert duty.status == "fail"  # the pump gives about 23.3 L/s (operating point above)
 
 
 def test_trace_records_software_and_catalog_versions():
@@ -574,7 +576,9 @@ def test_unknown_fitting_kind_suggests_close_names():
 
 def test_catalog_pipe_sizes_and_materials_solve_without_explicit_values():
     # Issue 5 "done when": NPS 6 schedule 40 resolves to 154.05 mm (6.065 in, ASME B36.10M,
-    # CHECK-VALUES section 2 [M✓]); commercial steel 0.045 mm (Moody 1944 / White Table 6.1 [S]).
+    # from memory, confirmed in fluids.piping 1.3.1); commercial steel 0.045 mm (Moody,
+    # Trans. ASME 66, 1944, from memory; White, Fluid Mechanics, Table 6.1, read in a
+    # secondary source).
     text = CASE.replace(
         'inner_diameter = "154.051 mm"\nroughness = "0.045 mm"',
         'nominal_size = "NPS 6"\nschedule = "Sch 40"\nmaterial = "commercial_steel"',
@@ -588,8 +592,9 @@ def test_catalog_pipe_sizes_and_materials_solve_without_explicit_values():
     assert s1["inner_diameter"]["value"] == pytest.approx(0.154051, abs=1e-9)
     assert s1["roughness"]["value"] == pytest.approx(4.5e-5, rel=1e-12)
     assert "B36.10M" in s1["sources"]["inner_diameter"]
-    # NPS 4 Sch 40 is 4.026 in = 102.2604 mm: the CHECK-VALUES section 11 case exactly,
-    # TDH 32.49768 m [V] (its stated tolerance 1e-4 covers IF97 against IAPWS-95).
+    # NPS 4 Sch 40 is 4.026 in = 102.2604 mm: the end-to-end check case exactly, TDH
+    # 32.49768 m computed with fluids 1.3.1 and IAPWS-95 water (its tolerance 1e-4 covers
+    # IF97 against IAPWS-95).
     assert t.results["total_dynamic_head"]["value"] == pytest.approx(32.49768, rel=1e-5)
     assert "catalog.asme_b36_10m_steel[6 40].inner_diameter" in t.given
 
@@ -665,7 +670,8 @@ def test_hazen_williams_cross_check_and_method():
 
 
 def test_speed_range_cases_use_the_affinity_scaled_curve():
-    # CHECK-VALUES section 11 [V]: at 90 % speed the operating point is 18.0178 L/s, 30.7704 m
+    # Computed with fluids 1.3.1 and IAPWS-95 water: at 90 % speed the operating point is
+    # 18.0178 L/s, 30.7704 m
     # (design levels; here the range cases run at the level extremes, which equal the design
     # levels because no level range is given).
     text = CASE.replace(
@@ -691,8 +697,9 @@ def test_pump_efficiency_input_and_curve_efficiency_together():
 
 
 def test_foot_valve_by_the_crane_friction_factor_multiple():
-    # Crane TP-410: K = 75 f_T for a hinged-disc foot valve with strainer (CHECK-VALUES
-    # section 4 [M✓]); f_T against fluids.friction.ft_Crane (a smooth fit, within 0.1 %).
+    # Crane TP-410: K = 75 f_T for a hinged-disc foot valve with strainer (from memory,
+    # confirmed in fluids.fittings.K_foot_valve_Crane, fluids 1.3.1); f_T against
+    # fluids.friction.ft_Crane (a smooth fit, within 0.1 %).
     fluids = pytest.importorskip("fluids")
     text = CASE.replace('{ K = 0.5, note = "entrance" }', '{ kind = "foot_valve_strainer" }')
     t = solve(loads(text.encode()))

@@ -1,9 +1,9 @@
 """Pipe dimension and roughness catalogs against published tables and an independent library.
 
-Labels as in shared/CHECK-VALUES.md: [V] computed with a reference library (fluids 1.3.1),
-[S] seen in a published table or a page quoting it, [M] from memory, [M✓] from memory and
-reproduced by a library. Reproduction keys (chart_asa, etb_b88, ...) are described in
-calcreport/catalog/sources.toml [reproductions].
+Labels beside each value: [V] computed with a reference library (fluids 1.3.1), [S] seen in a
+published table or a page quoting it, [M] from memory, not confirmed, [M✓] from memory and
+reproduced exactly by a reference library (fluids 1.3.1). Reproduction keys (chart_asa,
+etb_b88, ...) are described in calcreport/catalog/sources.toml [reproductions].
 """
 
 from __future__ import annotations
@@ -43,11 +43,11 @@ def manifest() -> dict:
         return tomllib.load(handle)
 
 
-# --- CHECK-VALUES section 2: ASME B36.10M steel --------------------------------------------
+# --- ASME B36.10M steel --------------------------------------------------------------------
 
 
 def test_nps6_sch40_inner_diameter():
-    # CHECK-VALUES §2: NPS 6 Sch 40 ID 154.08 mm [V, fluids.piping.nearest_pipe], 6.065 in [M✓];
+    # NPS 6 Sch 40 ID 154.08 mm [V, fluids.piping.nearest_pipe], 6.065 in [M✓];
     # ASME B36.10M Table 1. Tolerance ±0.12 mm.
     pipe = resolve("6", "40")
     assert mm(pipe.inner_diameter) == pytest.approx(154.05, abs=0.12)
@@ -57,7 +57,8 @@ def test_nps6_sch40_inner_diameter():
     assert "ASME B36.10M" in pipe.source
 
 
-# CHECK-VALUES §2 table: NPS, OD in [M✓] / mm [V], Sch 40 and Sch 80 wall / ID mm [V].
+# ASME B36.10M: NPS, OD in [M✓] / mm [V], Sch 40 and Sch 80 wall / ID mm [V]
+# (fluids.piping.nearest_pipe).
 CHECK_B36_10M = [
     ("2", 2.375, 60.3, "40", 3.91, 52.48),
     ("2", 2.375, 60.3, "80", 5.54, 49.22),
@@ -72,7 +73,7 @@ CHECK_B36_10M = [
 
 @pytest.mark.parametrize(("nps", "od_in", "od_mm", "schedule", "wall_mm", "id_mm"), CHECK_B36_10M)
 def test_check_values_b36_10m_table(nps, od_in, od_mm, schedule, wall_mm, id_mm):
-    # CHECK-VALUES §2 [V]/[M✓], ASME B36.10M; tolerance ±0.12 mm on ID.
+    # ASME B36.10M [V]/[M✓]; tolerance ±0.12 mm on ID.
     pipe = resolve(nps, schedule)
     assert mm(pipe.inner_diameter) == pytest.approx(id_mm, abs=0.12)
     assert mm(pipe.outside_diameter) == pytest.approx(od_mm, abs=0.05)
@@ -82,7 +83,7 @@ def test_check_values_b36_10m_table(nps, od_in, od_mm, schedule, wall_mm, id_mm)
 
 @pytest.mark.parametrize(
     ("nps", "id_mm"),
-    # CHECK-VALUES §2, Sch 40 ID [V] (fluids.piping.nearest_pipe), ASME B36.10M
+    # ASME B36.10M Sch 40 ID [V] (fluids.piping.nearest_pipe)
     [("1", 26.64), ("1-1/2", 40.94), ("3", 77.92), ("10", 254.46), ("12", 303.18)],
 )
 def test_check_values_sch40_inner_diameters(nps, id_mm):
@@ -90,7 +91,7 @@ def test_check_values_sch40_inner_diameters(nps, id_mm):
 
 
 def test_std_differs_from_sch40_above_nps10():
-    # CHECK-VALUES §2 [V]: 12" STD wall 9.53 mm, Sch 40 10.31 mm (ASME B36.10M).
+    # ASME B36.10M [V, fluids.piping]: 12" STD wall 9.53 mm, Sch 40 10.31 mm.
     std, sch40 = resolve("12", "STD"), resolve("12", "40")
     assert mm(std.wall_thickness) == pytest.approx(9.53, abs=0.005)
     assert mm(sch40.wall_thickness) == pytest.approx(10.31, abs=0.005)
@@ -637,12 +638,12 @@ def test_module_examples():
     assert result.attempted >= 3 and result.failed == 0
 
 
-# --- roughness: CHECK-VALUES section 3 ------------------------------------------------------
+# --- roughness ----------------------------------------------------------------------------
 
 
 @pytest.mark.parametrize(
     ("material", "value_mm"),
-    # CHECK-VALUES §3: Moody (Trans. ASME 66, 1944) [M], White Fluid Mechanics Table 6.1 [S];
+    # Moody (Trans. ASME 66, 1944) [M], White Fluid Mechanics Table 6.1 [S];
     # the values as read in efunda_moody and engineersedge_roughness.
     [("drawn_tubing", 0.0015),  # drawn tubing 0.0015 mm [S]
      ("copper", 0.0015),  # drawn copper 1.5 micron [S]
@@ -658,7 +659,7 @@ def test_roughness_against_white_and_moody(material, value_mm):
 
 
 def test_commercial_steel_roughness():
-    # CHECK-VALUES §3 [S]: commercial steel / wrought iron 0.045-0.046 mm (Moody 0.00015 ft,
+    # [S]: commercial steel / wrought iron 0.045-0.046 mm (Moody 0.00015 ft,
     # White 0.046 mm). Crane TP-410 0.0018 in for clean commercial steel [M]: within 2 %.
     for material in ("commercial_steel", "wrought_iron", "steel", "Commercial Steel"):
         value = mm(roughness(material).value)
@@ -668,7 +669,7 @@ def test_commercial_steel_roughness():
 
 @pytest.mark.parametrize(
     ("material", "low_mm", "high_mm"),
-    # CHECK-VALUES §3 [S]: concrete 0.3-3 mm, riveted steel 0.9-9 mm (Moody, read in
+    # [S]: concrete 0.3-3 mm, riveted steel 0.9-9 mm (Moody, read in
     # efunda_moody); plastics 0.0015-0.007 mm (plastics_range, secondary [S]).
     [("concrete", 0.3, 3.0), ("riveted_steel", 0.9, 9.0), ("pvc", 0.0015, 0.007),
      ("hdpe", 0.0015, 0.007)],

@@ -19,9 +19,9 @@ from typing import Any
 
 import pytest
 
-from calcreport.calc import solve
 from calcreport.model.loader import load, loads
 from calcreport.report import charts
+from calcreport.solver import solve
 
 ROOT = Path(__file__).parent.parent
 EXAMPLES = {
@@ -402,7 +402,7 @@ def test_drawing_leaves_matplotlib_settings_alone(traces) -> None:
 
 def test_importing_the_charts_module_does_not_import_matplotlib() -> None:
     code = (
-        "import sys, calcreport.report.charts, calcreport.calc; "
+        "import sys, calcreport.report.charts, calcreport.solver; "
         "sys.exit('matplotlib' in sys.modules or 'matplotlib.pyplot' in sys.modules)"
     )
     result = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)

@@ -5,10 +5,10 @@ from pathlib import Path
 
 import pytest
 
-from calcreport.calc import solve
 from calcreport.cli import main
 from calcreport.errors import InputError
 from calcreport.model.loader import load
+from calcreport.solver import solve
 
 EXAMPLE = Path(__file__).parent.parent / "input_examples" / "cooling_water_selected_pump.toml"
 CSV = """# the example's own curve, as a vendor file

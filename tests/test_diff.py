@@ -9,11 +9,11 @@ from typing import Any
 
 import pytest
 
-from calcreport.calc import solve
 from calcreport.cli import main
 from calcreport.diff import diff, render_text
 from calcreport.errors import TraceError
 from calcreport.model.loader import loads
+from calcreport.solver import solve
 
 ROOT = Path(__file__).parent.parent
 EXAMPLE = ROOT / "input_examples" / "reservoir_fill_si.toml"

@@ -1,11 +1,11 @@
-"""Aged-pipe and dirty-strainer cases, on the CHECK-VALUES.md section 11 case."""
+"""Aged-pipe and dirty-strainer cases, on the end-to-end check case of test_calc."""
 
 import pytest
 from test_calc import CASE
 
-from calcreport.calc import solve
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
+from calcreport.solver import solve
 
 fluids = pytest.importorskip("fluids")
 
@@ -58,7 +58,7 @@ def test_aged_needs_a_stated_value():
 def test_power_curve_gives_the_efficiency_of_the_efficiency_curve():
     # The section-11 pump given by its shaft power at SG 1.0 instead of its efficiency:
     # P_i = 1000 g Q_i H_i / eta_i (5 kW at shutoff). The operating point is unchanged
-    # (CHECK-VALUES.md section 11 [V]: eta 0.7772, brake power 10 514.1 W).
+    # (computed with fluids 1.3.1 and IAPWS-95 water: eta 0.7772, brake power 10 514.1 W).
     qs = [i * 0.5 for i in range(81)]
     heads = [42 + 0.2 * q - 0.02 * q * q for q in qs]
     effs = [0.78 * (1 - ((q - 22) / 22) ** 2) for q in qs]
@@ -155,7 +155,7 @@ def test_duty_margin_is_an_explicit_project_criterion():
 
 
 def test_motor_efficiency_from_its_class_at_the_selected_rating():
-    # IEC 60034-30-1 IE3, 4-pole 50 Hz (CHECK-VALUES.md section 8 [M]): 30 kW 93.6 %.
+    # IEC 60034-30-1 IE3, 4-pole 50 Hz (from memory): 30 kW 93.6 %.
     from test_calc import _analytic_curve
 
     text = CASE.replace("efficiency = 0.78\n", "").replace(

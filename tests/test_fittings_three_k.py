@@ -4,10 +4,10 @@ import pytest
 from test_calc import CASE
 
 from calcreport import catalog
-from calcreport.calc import solve
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
 from calcreport.physics import fittings
+from calcreport.solver import solve
 
 fluids = pytest.importorskip("fluids")
 

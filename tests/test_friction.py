@@ -8,7 +8,7 @@ import pytest
 from calcreport.errors import ConvergenceError
 from calcreport.physics import friction
 
-# CHECK-VALUES.md section 1 [V]: Colebrook as implemented in fluids 1.3.1
+# Computed with fluids 1.3.1: Colebrook as implemented there
 # (fluids.friction.Colebrook; Colebrook, J. ICE 11(4):133-156, 1939).
 COLEBROOK_TABLE = [
     (1e4, 0.0, 0.030883),
@@ -60,7 +60,7 @@ def test_colebrook_vectorised_matches_scalar():
 
 
 def test_smooth_limit_is_prandtl_karman():
-    # CHECK-VALUES.md section 1 [V]: Colebrook with eD = 0 equals
+    # Checked with fluids 1.3.1: Colebrook with eD = 0 equals
     # Prandtl-von Karman-Nikuradse 1/sqrt(f) = 2 log10(Re sqrt(f)) - 0.8 to 6 figures.
     # Colebrook's 2.51 gives 2 log10(Re sqrt f / 2.51) = 2 log10(Re sqrt f) - 0.7993.
     f = friction.colebrook(1e6, 0.0)
@@ -70,7 +70,7 @@ def test_smooth_limit_is_prandtl_karman():
 
 @pytest.mark.parametrize(
     ("eD", "f_rough"),
-    # Fully rough limit 1/sqrt(f) = -2 log10(eD/3.7), CHECK-VALUES.md section 1 [V].
+    # Fully rough limit 1/sqrt(f) = -2 log10(eD/3.7), computed with fluids 1.3.1.
     [(1e-4, 0.011980), (1e-3, 0.019635), (1e-2, 0.037904), (5e-2, 0.071551)],
 )
 def test_fully_rough_limit(eD, f_rough):
@@ -78,13 +78,14 @@ def test_fully_rough_limit(eD, f_rough):
 
 
 def test_laminar():
-    # Hagen-Poiseuille 64/Re, CHECK-VALUES.md section 1 [V]: 0.064 at Re 1000.
+    # Hagen-Poiseuille 64/Re (fluids 1.3.1 friction_laminar): 0.064 at Re 1000.
     assert friction.laminar(1000.0) == pytest.approx(0.064, rel=1e-15)
 
 
 def test_swamee_jain_within_stated_accuracy():
-    # Swamee & Jain 1976 claim about 1 % [M]; measured -0.70 ... +2.83 % over
-    # 5e3 <= Re <= 1e8, 1e-6 <= eD <= 1e-2 (CHECK-VALUES.md section 1 [V]): test 3 %.
+    # Swamee & Jain (J. Hydraulics Div. ASCE 102(HY5), 1976) claim about 1 % (from memory);
+    # measured -0.70 ... +2.83 % against fluids 1.3.1 Colebrook over 5e3 <= Re <= 1e8,
+    # 1e-6 <= eD <= 1e-2: test 3 %.
     worst = 0.0
     for Re in np.logspace(math.log10(5e3), 8, 25):
         for eD in (1e-6, 1e-5, 1e-4, 1e-3, 1e-2):
@@ -96,7 +97,7 @@ def test_swamee_jain_within_stated_accuracy():
 
 @pytest.mark.parametrize(
     ("Re", "eD", "f"),
-    # CHECK-VALUES.md section 1, Swamee-Jain column [V, fluids 1.3.1].
+    # Computed with fluids 1.3.1 (fluids.friction.Swamee_Jain_1976).
     [(1e5, 1e-4, 0.018452), (1e6, 1e-3, 0.020029), (1e5, 1e-2, 0.038751)],
 )
 def test_swamee_jain_table(Re, eD, f):

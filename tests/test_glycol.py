@@ -2,16 +2,16 @@
 
 import pytest
 
-from calcreport.calc import solve
 from calcreport.model.loader import loads
 from calcreport.physics import glycol, water
+from calcreport.solver import solve
 
 pytest.importorskip("CoolProp")
 
 
 @pytest.mark.parametrize(
     ("func", "T", "rho", "mu"),
-    # CHECK-VALUES.md section 5, 30 % by mass [V, CoolProp 8.0.0 INCOMP]; a second published
+    # 30 % by mass, computed with CoolProp 8.0.0 INCOMP (MEG, MPG); a second published
     # data set differs by up to 0.7 % (density) and 3 % (viscosity), hence 1 % / 5 %.
     [
         ("ethylene", 278.15, 1043.47, 3.5592e-3),
@@ -25,13 +25,13 @@ def test_density_and_viscosity(func, T, rho, mu):
     viscosity = getattr(glycol, f"{func}_glycol_viscosity")
     assert density(T, 0.3) == pytest.approx(rho, rel=0.01)
     assert viscosity(T, 0.3) == pytest.approx(mu, rel=0.05)
-    # and to the digits CHECK-VALUES prints, since this is the same formulation
+    # and to the digits listed above, since this is the same formulation
     assert density(T, 0.3) == pytest.approx(rho, abs=0.006)
 
 
 def test_raoult_vapor_pressure_by_hand():
     # x_w = (0.7/18.015) / (0.7/18.015 + 0.3/62.068) for 30 % ethylene glycol; p_sat,water
-    # at 20 degC from IAPWS-IF97 (2339.2 Pa, CHECK-VALUES section 5).
+    # at 20 degC from IAPWS-IF97 (2339.2 Pa, computed with iapws 1.5.5).
     x_w = (0.7 / 18.015) / (0.7 / 18.015 + 0.3 / 62.068)
     expected = x_w * water.saturation_pressure(293.15)
     assert glycol.raoult_vapor_pressure(293.15, 0.3, 62.068) == pytest.approx(expected, rel=1e-14)

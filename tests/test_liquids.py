@@ -3,10 +3,10 @@
 import pytest
 from test_calc import CASE
 
-from calcreport.calc import solve
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
 from calcreport.physics import liquids
+from calcreport.solver import solve
 
 pytest.importorskip("CoolProp")
 

@@ -17,11 +17,11 @@ from typing import Any
 
 import pytest
 
-from calcreport.calc import solve
 from calcreport.cli import main
 from calcreport.errors import TraceError
 from calcreport.model.loader import load
 from calcreport.recheck import SCOPE, read_trace, recheck, recheck_file, render_text
+from calcreport.solver import solve
 
 ROOT = Path(__file__).parent.parent
 EXAMPLES = sorted((ROOT / "input_examples").glob("*.toml"))

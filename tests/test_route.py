@@ -1,9 +1,10 @@
 """Pressure along the route, ratings at shutoff and surge screening, end to end.
 
-The hand values use the intermediate results of CHECK-VALUES.md section 11 [V]
-(water 20 degC, open tanks at sea level, Q 20 L/s): suction loss 0.13180 m,
-discharge friction 8.04585 m over 150 m of NPS 4 Sch 40 (D 0.102260 m),
-discharge minor loss 1.32003 m (sum K 4.3660), v 2.43515 m/s, TDH 32.49768 m.
+The hand values use the intermediate results of the end-to-end check case of test_calc,
+computed with fluids 1.3.1 (Colebrook) and IAPWS-95 water properties (water 20 degC,
+open tanks at sea level, Q 20 L/s): suction loss 0.13180 m, discharge friction
+8.04585 m over 150 m of NPS 4 Sch 40 (D 0.102260 m), discharge minor loss 1.32003 m
+(sum K 4.3660), v 2.43515 m/s, TDH 32.49768 m.
 Here the discharge runs over a crest: D1 (100 m, all the fittings) rises to
 the crest, D2 (50 m, the exit only) falls to the outlet. Each loss is taken
 where it happens: D1's fittings at its start, friction along the pipes, the
@@ -12,9 +13,9 @@ exit as the liquid leaves D2.
 
 import pytest
 
-from calcreport.calc import solve
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
+from calcreport.solver import solve
 
 G = 9.80665
 V = 2.43515
@@ -194,7 +195,7 @@ def test_project_criterion_fails_when_not_met():
     assert _check(t, "min_pressure").status == "fail"
 
 
-# CHECK-VALUES.md section 11 pump curve H = 42 + 0.2q - 0.02q^2 (q in L/s): it
+# The check case's own pump curve H = 42 + 0.2q - 0.02q^2 (q in L/s): it
 # droops, with its highest head 42.5 m at 5 L/s.
 CURVE = """
 [pump.curve]

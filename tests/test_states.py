@@ -13,8 +13,8 @@ import CoolProp.CoolProp as CP
 import pytest
 from fluids.friction import Colebrook
 
-from calcreport.calc import solve
 from calcreport.model.loader import loads
+from calcreport.solver import solve
 
 G = 9.80665
 D = 0.15408  # m, NPS 6 Sch 40 (ASME B36.10M)

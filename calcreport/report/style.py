@@ -1,11 +1,13 @@
 """Report appearance as data: page sizes, margins, fonts and paragraph styles.
 
-Fonts are the DejaVu family shipped in ``calcreport/fonts`` (Bitstream Vera
-licence, ``LICENSE-DejaVu.txt``), registered once and embedded in every PDF.
+Fonts are the DejaVu family kept in the repository's top-level ``fonts/`` (Bitstream Vera
+licence, ``LICENSE-DejaVu.txt``), installed as the data package ``calcreport.fonts``,
+registered once and embedded in every PDF.
 """
 
 from __future__ import annotations
 
+import importlib.util
 from functools import cache
 from pathlib import Path
 
@@ -17,7 +19,17 @@ from reportlab.lib.units import mm
 
 __all__ = ["PAGE", "Styles", "page_size", "register_fonts", "styles"]
 
-FONTS = Path(__file__).resolve().parent.parent / "fonts"
+
+def _fonts_folder() -> Path:
+    """Where the fonts are: the installed data package, or ``fonts/`` of a source tree run
+    without installing."""
+    spec = importlib.util.find_spec("calcreport.fonts")
+    if spec is not None and spec.submodule_search_locations:
+        return Path(next(iter(spec.submodule_search_locations))).resolve()
+    return Path(__file__).resolve().parents[2] / "fonts"
+
+
+FONTS = _fonts_folder()
 # reportlab font name -> file in FONTS
 FACES = {
     "DejaVu": "DejaVuSans.ttf",
