@@ -13,9 +13,8 @@ from functools import cache
 from typing import Any
 
 from calcreport import catalog
-from calcreport.model.schema import Model
+from calcreport.model.schema import EXIT_NOTE, Model
 from calcreport.physics import pump
-from calcreport.safety import EXIT_NOTE
 from calcreport.trace import Check
 from calcreport.units import KIND_OF_SI_UNIT, parse, pretty_unit, show
 

@@ -1,6 +1,7 @@
-"""The command line: ``calcreport new | check | solve | build``.
+"""The command line: ``calcreport new | check | solve | build | recheck | diff``.
 
-Exit status: 0 success, 2 bad input or usage, 1 internal failure. Only this
+Exit status: 0 success, 2 bad input or usage, 1 internal failure (``recheck`` and ``diff``
+also exit 1 for a mismatch or a difference). Only this
 module prints and exits; everything below it raises.
 """
 
@@ -216,7 +217,7 @@ def _build(args: argparse.Namespace) -> int:
         return EXIT_INPUT
     previous = None
     if args.previous:
-        from calcreport.recheck import read_trace
+        from calcreport.tracefile import read_trace
 
         previous = read_trace(args.previous)
     pdf = folder / f"{source.stem}.pdf"

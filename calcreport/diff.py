@@ -24,7 +24,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from calcreport.recheck import read_trace, validate
+from calcreport.tracefile import read_trace, validate
 from calcreport.units import show_keyed
 
 __all__ = [

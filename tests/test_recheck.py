@@ -20,8 +20,9 @@ import pytest
 from calcreport.cli import main
 from calcreport.errors import TraceError
 from calcreport.model.loader import load
-from calcreport.recheck import SCOPE, read_trace, recheck, recheck_file, render_text
+from calcreport.recheck import SCOPE, recheck, recheck_file, render_text
 from calcreport.solver import solve
+from calcreport.tracefile import read_trace
 
 ROOT = Path(__file__).parent.parent
 EXAMPLES = sorted((ROOT / "input_examples").glob("*.toml"))

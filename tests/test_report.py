@@ -84,7 +84,7 @@ def _contents_entries(page: str) -> list[tuple[str, str]]:
 
 
 def test_sections_in_reviewers_order(built):
-    # DESIGN.md, "The report a checker expects": cover, summary, contents, then the body.
+    # The order a plan checker reads: cover, summary, contents, then the body (DEVELOPERS.md).
     order = [
         "Summary",
         "The system at a glance",

@@ -175,7 +175,7 @@ def test_sub_atmospheric_crest_fails_naming_the_node():
     assert any(n in check.message for n in CREST_NODES) and "sub-atmospheric" in check.message
     assert t.results["route"]["crest"]["node"] in CREST_NODES
     assert t.results["route"]["crest"]["above_destination"]["value"] == pytest.approx(5.0)
-    # No pump curve: still preliminary (DESIGN.md), the failure said in the reason.
+    # No pump curve: still preliminary, the failure said in the reason.
     assert (
         t.status["value"] == "preliminary" and "1 design check already fails" in t.status["reason"]
     )

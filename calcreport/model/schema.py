@@ -2,11 +2,14 @@
 
 Every quantity is a float in the SI unit of its kind (m, m^3/s, Pa, K,
 kg/m^3, Pa*s). ``Given`` pairs a value with the input key it came from, so
-the trace can name the key as the source of each argument.
+the trace can name the key as the source of each argument. :data:`EXIT_NOTE` and
+:data:`ENTRANCE_NOTE` read a fitting's note as the exit or entrance of its pipe where it
+names no kind.
 """
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field
 
 __all__ = [
@@ -84,6 +87,11 @@ class Vessel:
     inlet: str = "submerged"  # destination only: submerged | free
     outlet_elevation: Given | None = None
     intake_diameter: Given | None = None  # source only: inlet (bell) diameter, submergence
+
+
+# A fitting noted as the exit (or entrance) of its pipe, when it names no kind.
+EXIT_NOTE = re.compile(r"\bexit\b|\boutlet\b|discharge into", re.IGNORECASE)
+ENTRANCE_NOTE = re.compile(r"\bentrance\b|\bbell ?mouth\b", re.IGNORECASE)
 
 
 @dataclass(frozen=True)

@@ -12,8 +12,9 @@ One module a stage: :mod:`~calcreport.solver.states` (what passes between them),
 flow and by an array sweep for the system curve), :mod:`~calcreport.solver.pumpcurve`,
 :mod:`~calcreport.solver.operating`, :mod:`~calcreport.solver.motor_size`,
 :mod:`~calcreport.solver.energy`, :mod:`~calcreport.solver.profile` and
-:mod:`~calcreport.solver.results`; the route and surge screening are
-:mod:`calcreport.safety`, the checks :mod:`calcreport.checks`.
+:mod:`~calcreport.solver.results`, :mod:`~calcreport.solver.route_pressure` (pressures
+along the route and ratings) and :mod:`~calcreport.solver.surge_screen`; the checks are
+:mod:`calcreport.checks`.
 """
 
 from __future__ import annotations
@@ -22,8 +23,9 @@ from dataclasses import replace
 from pathlib import PurePath
 from typing import Any
 
-from calcreport import __version__, catalog, checks, safety
+from calcreport import __version__, catalog, checks
 from calcreport.model.schema import Model
+from calcreport.solver import route_pressure
 from calcreport.solver.cases import _cases
 from calcreport.solver.energy import _energy
 from calcreport.solver.liquid import (
@@ -119,8 +121,8 @@ def solve(model: Model) -> Trace:
         motor_rating = _motor(b, model, liquid, motor_curve or top_curve)
         if motor_rating and model.motor_class:
             model = _class_efficiency(b, model, motor_rating, notes)
-    route = safety.Route(b, model)
-    states: dict[str, safety.State] = {}
+    route = route_pressure.Route(b, model)
+    states: dict[str, route_pressure.State] = {}
     design_curve = curve
 
     def run(case: Case, case_liquid: Liquid, case_surfaces: Any) -> dict[str, Any]:
@@ -164,7 +166,7 @@ def solve(model: Model) -> Trace:
     # state is solved again with the pump lifting to the crest.
     design = states["C1"]
     for case in list(cases):
-        crest = safety.controlling_crest(model, design, states[case.id])
+        crest = route_pressure.controlling_crest(model, design, states[case.id])
         if crest is not None:
             lifted = replace(
                 case, id=f"{case.id}x", title=_crest_title(case.title, crest), crest=crest
@@ -173,7 +175,7 @@ def solve(model: Model) -> Trace:
             st = states[case.id]
             by_case[lifted.id] = run(lifted, st.liquid, st.surfaces)
     for pid in list(profile):
-        crest = safety.controlling_crest(model, design, states[pid])
+        crest = route_pressure.controlling_crest(model, design, states[pid])
         if crest is not None:
             q = model.operation.profile[int(pid[1:]) - 1][0]
             point = replace(design.case, id=f"{pid}x", title=_crest_title(pid, crest), flow=q,

@@ -13,7 +13,7 @@ from typing import Any
 
 import numpy as np
 
-from calcreport import catalog, safety
+from calcreport import catalog
 from calcreport.model.schema import Fitting, Given, Model, Pipe
 from calcreport.physics import (
     fittings,
@@ -22,6 +22,7 @@ from calcreport.physics import (
     losses,
     pump,
 )
+from calcreport.solver import route_pressure
 from calcreport.solver.states import Case, Liquid
 from calcreport.trace import TraceBuilder
 
@@ -148,7 +149,7 @@ def _pipe(
     method: str = "darcy_weisbach",
     water_liquid: bool = True,
     fittings_method: str = "two_k",
-) -> tuple[dict[str, Given], list[safety.FittingLoss]]:
+) -> tuple[dict[str, Given], list[route_pressure.FittingLoss]]:
     """Velocity, Reynolds number, friction factor, friction and minor losses of one pipe,
     with the loss of each fitting item (where along the pipe it is taken is the route's)."""
     sid = case.sid
@@ -290,7 +291,7 @@ def _pipe(
     }
     rated = list(heads.values())
     items = [
-        safety.FittingLoss(ft, by_fitting.get(i), heads.get(i))
+        route_pressure.FittingLoss(ft, by_fitting.get(i), heads.get(i))
         for i, ft in enumerate(pipe.fittings, start=1)
     ]
     if rated:
@@ -472,7 +473,7 @@ def _crest_heads(
     z_c = pipe.elevation_start if x <= 0.0 else pipe.elevation_end
     assert z_c is not None
     node = {"pipe": ident, "station": station, "x": x, "name": name}
-    h_L = safety.head_loss_to(ev, model, case, h, index, node, "system.crest")
+    h_L = route_pressure.head_loss_to(ev, model, case, h, index, node, "system.crest")
     at_crest = ev.assume(
         "Where the crest controls the flow its pressure is the atmosphere's (an air valve, "
         "or the break of the liquid column); beyond it the line runs part-full.",

@@ -11,7 +11,7 @@ from typing import Any
 
 import numpy as np
 
-from calcreport import checks, safety
+from calcreport import checks
 from calcreport.model.schema import Given, Model
 from calcreport.physics import (
     head,
@@ -20,6 +20,7 @@ from calcreport.physics import (
     pump,
     water,
 )
+from calcreport.solver import route_pressure
 from calcreport.solver.energy import _per_pump_power, _power
 from calcreport.solver.hydraulics import _hydraulics, _Sweep
 from calcreport.solver.results import _results
@@ -37,7 +38,7 @@ def _solve_case(
     curve: CurvePoints | None,
     eta_drive: Given,
     notes: list[str],
-    states: dict[str, safety.State],
+    states: dict[str, route_pressure.State],
 ) -> dict[str, Any]:
     """Hydraulics, operating point, NPSH and power of one case (its state kept in ``states``)."""
     required = case.flow
@@ -51,8 +52,8 @@ def _solve_case(
     submergence = _intake(b, model, case, h)
     if submergence:
         results["intake"] = submergence
-    results["profile"] = safety.profile(model, case, liquid, h, surfaces[1], surfaces[2])
-    states[case.id] = safety.State(case, liquid, surfaces, h, results["profile"])
+    results["profile"] = route_pressure.profile(model, case, liquid, h, surfaces[1], surfaces[2])
+    states[case.id] = route_pressure.State(case, liquid, surfaces, h, results["profile"])
     eta_pump = model.pump.efficiency
     if operating is not None and curve is not None:
         point, eta_curve = _operating_point(b, model, case, curve, h)

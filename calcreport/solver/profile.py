@@ -9,12 +9,12 @@ from typing import Any
 
 import numpy as np
 
-from calcreport import safety
 from calcreport.model.schema import Given, Model
 from calcreport.physics import (
     power,
     pump,
 )
+from calcreport.solver import route_pressure
 from calcreport.solver.energy import _electrical, _per_pump_power
 from calcreport.solver.hydraulics import _hydraulics
 from calcreport.solver.operating import _commissioning, _curve_values, _intake
@@ -27,10 +27,10 @@ from calcreport.trace import bound as _q  # a result naming its source
 def _profile_states(
     b: TraceBuilder,
     model: Model,
-    design: safety.State,
+    design: route_pressure.State,
     curve: CurvePoints | None,
     eta_drive: Given,
-    states: dict[str, safety.State],
+    states: dict[str, route_pressure.State],
 ) -> dict[str, dict[str, Any]]:
     """The duty profile's points as operating states, each a result of the shape of a case.
 
@@ -63,10 +63,10 @@ def _profile_state(
     b: TraceBuilder,
     model: Model,
     point: Case,
-    design: safety.State,
+    design: route_pressure.State,
     curve: CurvePoints,
     eta_drive: Given,
-    states: dict[str, safety.State],
+    states: dict[str, route_pressure.State],
 ) -> dict[str, Any]:
     """Hydraulics, pump state, NPSH and power of one profile point (its state kept in
     ``states``); ``unserved`` says why when the pump cannot run there."""
@@ -144,10 +144,10 @@ def _profile_state(
             eta = _curve_values(b, point, curve, Q0, h["npsh_available"], found, (speed, n0))
     # Throttled, the valve is taken just past the pump: its flange sees the pump's own head.
     throttled = H_pump is not H_sys
-    result["profile"] = safety.profile(
+    result["profile"] = route_pressure.profile(
         model, point, liquid, h, surfaces[1], surfaces[2], H_pump if throttled else None
     )
-    states[pid] = safety.State(
+    states[pid] = route_pressure.State(
         point, liquid, surfaces, h, result["profile"], H_pump if throttled else None
     )
     if "unserved" in result:
