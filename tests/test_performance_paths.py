@@ -18,7 +18,7 @@ from typing import Any
 import numpy as np
 import pytest
 
-from calcreport.report import charts
+from calcreport.report.charts import base, losses_chart, placement
 
 
 @pytest.fixture
@@ -26,12 +26,12 @@ def rc():
     """The charts' matplotlib settings, as every chart is drawn under them."""
     import matplotlib
 
-    with matplotlib.rc_context(charts._RC):
+    with matplotlib.rc_context(base._RC):
         yield
 
 
 def _axes(log: bool = False) -> tuple[Any, Any]:
-    fig = charts._new_figure(3.0)
+    fig = base._new_figure(3.0)
     ax = fig.add_subplot()
     if log:
         ax.set_xscale("log")
@@ -60,7 +60,7 @@ def _extent(ann: Any, renderer: Any) -> Any:
 @pytest.mark.parametrize("log", [False, True])
 def test_candidate_boxes_are_the_boxes_matplotlib_reports(rc, log: bool) -> None:
     fig, ax = _axes(log)
-    placer = charts._Placer(fig, ax)
+    placer = placement._Placer(fig, ax)
     anchor, other = ((3e4, 0.02), (2e6, 0.05)) if log else ((30.0, 20.0), (90.0, 45.0))
     ann = ax.annotate(
         "pump\nTDH 50.2 m",
@@ -109,7 +109,7 @@ def test_segments_hit_agrees_with_edge_crossing_tests() -> None:
     seg[20:40, 3] = seg[20:40, 1]  # horizontal
     corner = rng.uniform(0, 90, (60, 2))
     boxes = np.hstack([corner, corner + rng.uniform(1, 25, (60, 2))])
-    hit = charts._segments_hit(seg, boxes)
+    hit = placement._segments_hit(seg, boxes)
     assert hit.shape == (60, 300)
     expected = [[_crosses(s, b) for s in seg] for b in boxes]
     assert hit.tolist() == expected
@@ -117,12 +117,12 @@ def test_segments_hit_agrees_with_edge_crossing_tests() -> None:
 
 
 def test_segments_hit_with_no_segments() -> None:
-    assert charts._segments_hit(np.empty((0, 4)), [(0, 0, 1, 1)]).shape == (1, 0)
+    assert placement._segments_hit(np.empty((0, 4)), [(0, 0, 1, 1)]).shape == (1, 0)
 
 
 def test_scores_count_every_obstacle_as_one_candidate_at_a_time_would(rc) -> None:
     fig, ax = _axes()
-    placer = charts._Placer(fig, ax)
+    placer = placement._Placer(fig, ax)
     rng = np.random.default_rng(3)
     for _ in range(30):  # lines all over the axes, most far from the label
         placer.add_polyline(rng.uniform((0, 0), (100, 50), (4, 2)))
@@ -132,14 +132,14 @@ def test_scores_count_every_obstacle_as_one_candidate_at_a_time_would(rc) -> Non
         for cy in np.arange(ay - 60, ay + 60, 5.1):
             placer.boxes.append((cx, cy, cx + 1.5, cy + 1.0))
     ann = ax.annotate("D12  L 60 m\nID 202.7 mm", (95, 25), (0, 0), textcoords="offset points")
-    options = [((95.0, 25.0), o) for o in charts._ring((7, 12, 20, 28, 38), [(0, 5)])]
+    options = [((95.0, 25.0), o) for o in placement._ring((7, 12, 20, 28, 38), [(0, 5)])]
     boxes, _ = placer._candidate_boxes(ann, options)
     scores = placer._scores(boxes, inside=True)
     p = placer.pad
     for box, score in zip(boxes, scores, strict=True):
         padded = box + (-p, -p, p, p)
-        expected = float(charts._segments_hit(placer.segments, padded).sum())
-        expected += 10.0 * sum(charts._overlap(padded, other) for other in placer.boxes)
+        expected = float(placement._segments_hit(placer.segments, padded).sum())
+        expected += 10.0 * sum(placement._overlap(padded, other) for other in placer.boxes)
         outside = box[0] < x0 or box[1] < y0 or box[2] > x1 or box[3] > y1
         assert score == expected + 20.0 * outside
     assert len(set(scores.tolist())) > 3  # the candidates differ: the test sees something
@@ -149,9 +149,9 @@ def test_a_rival_nearer_than_the_anchor_counts_against_a_place() -> None:
     boxes = np.array([(10.0, 0.0, 20.0, 5.0), (-20.0, 0.0, -10.0, 5.0), (200.0, 0.0, 210.0, 5.0)])
     anchors = np.array([(0.0, 0.0), (0.0, 0.0), (205.0, -4.0)])
     rivals = np.array([(25.0, 2.0), (1e6, 1e6), (np.nan, 0.0), (30.0, np.inf)])
-    near = charts._nearer_to_rival(boxes, anchors, rivals)
+    near = placement._nearer_to_rival(boxes, anchors, rivals)
     assert near.tolist() == [True, False, False]  # 5 pt from the rival, 10 pt from the anchor
-    assert not charts._nearer_to_rival(boxes, anchors, rivals[1:]).any()
+    assert not placement._nearer_to_rival(boxes, anchors, rivals[1:]).any()
 
 
 # -- placement --------------------------------------------------------------------------------
@@ -159,7 +159,7 @@ def test_a_rival_nearer_than_the_anchor_counts_against_a_place() -> None:
 
 def test_place_keeps_the_first_of_the_best_candidates(rc) -> None:
     fig, ax = _axes()
-    placer = charts._Placer(fig, ax)
+    placer = placement._Placer(fig, ax)
     ann = placer.place("first", (50, 25), [(0, 5), (0, -8)])
     assert tuple(ann.xyann) == (0, 5)
     x, y = ax.transData.transform((50, 25))
@@ -175,19 +175,21 @@ def test_labels_along_a_busy_line_keep_off_it_and_apart(rc) -> None:
     fig, ax = _axes()
     x = np.linspace(2, 98, 17)
     ax.plot(x, 0.45 * x + 2, marker="o", ms=3)
-    placer = charts._Placer(fig, ax)
+    placer = placement._Placer(fig, ax)
     placer.add_lines()
     anns = [
-        placer.place(f"D{i}", (xi, 0.45 * xi + 2), [(0, 5), (0, -8)] + charts._ring((12, 20, 30)))
+        placer.place(
+            f"D{i}", (xi, 0.45 * xi + 2), [(0, 5), (0, -8)] + placement._ring((12, 20, 30))
+        )
         for i, xi in enumerate(x, start=1)
     ]
     renderer = fig._get_renderer()
     boxes = [_extent(a, renderer) for a in anns]
     line = placer.segments[: len(x) - 1]
     for i, box in enumerate(boxes):
-        assert not charts._segments_hit(line, box).any(), anns[i].get_text()
+        assert not placement._segments_hit(line, box).any(), anns[i].get_text()
         for other in boxes[i + 1 :]:
-            assert not charts._overlap(box, other), anns[i].get_text()
+            assert not placement._overlap(box, other), anns[i].get_text()
     assert all(isinstance(a, Text) for a in anns)
 
 
@@ -221,8 +223,8 @@ def test_clusters_are_the_groups_of_comparing_every_pair() -> None:
     points += [(6.0, 300.0), (12.0, 300.0), (-0.1, -0.1), (0.1, 0.1)]  # on cell edges
     points += [(math.inf, 5.0), (math.nan, 5.0), (-math.inf, -math.inf)]
     ax = SimpleNamespace(transData=IdentityTransform())
-    assert charts._clusters(ax, points, 6.0) == _clusters_brute_force(points, 6.0)
-    assert charts._clusters(ax, [], 6.0) == []
+    assert placement._clusters(ax, points, 6.0) == _clusters_brute_force(points, 6.0)
+    assert placement._clusters(ax, [], 6.0) == []
 
 
 # -- layout and bars --------------------------------------------------------------------------
@@ -233,8 +235,8 @@ def test_frozen_layout_is_the_layout_a_draw_gives(rc) -> None:
     drawn, ax2 = _axes(log=True)
     for a in (ax, ax2):
         a.plot([2e3, 5e6], [0.01, 0.05], label="a line with a long legend entry")
-        charts._legend_above(a)
-    charts._freeze_layout(frozen)
+        base._legend_above(a)
+    base._freeze_layout(frozen)
     drawn.draw_without_rendering()
     assert ax.get_position().bounds == ax2.get_position().bounds
     renderer, renderer2 = frozen._get_renderer(), drawn._get_renderer()
@@ -266,7 +268,7 @@ def test_loss_breakdown_bars_are_the_parts_row_by_row(rc) -> None:
             },
         },
     }
-    fig, _ = charts._draw_loss_breakdown(trace)
+    fig, _ = losses_chart._draw_loss_breakdown(trace)
     from matplotlib.colors import to_rgba
 
     bars = [
@@ -274,7 +276,7 @@ def test_loss_breakdown_bars_are_the_parts_row_by_row(rc) -> None:
          p.get_hatch())
         for p in fig.axes[0].patches
     ]  # fmt: skip
-    blue, tan, green = to_rgba(charts.BLUE), to_rgba("#e7c3a8"), to_rgba("#c8dbb8")
+    blue, tan, green = to_rgba(base.BLUE), to_rgba("#e7c3a8"), to_rgba("#c8dbb8")
     assert bars == [
         (0, 0.0, 20.0, to_rgba("#9a9a9a"), None),
         (1, 0.0, -2.0, to_rgba("#c8c8c8"), None),
