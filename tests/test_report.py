@@ -337,7 +337,7 @@ def test_route_pressures_and_surge_are_reported(built):
 def test_template_lines_stay_separate_whatever_the_conditions(flag):
     # A conditional block must not swallow the line break after it (two sentences run
     # together in the cautions once did).
-    from calcreport.report.document import _lines
+    from calcreport.report.sections.common import _lines
 
     cautions = _lines("cautions.j2", assessed=flag)
     assert len(cautions) == 6
@@ -362,7 +362,7 @@ def test_a_step_on_the_whole_curve_lists_its_points_as_ranges(built):
 
 
 def test_key_runs_join_consecutive_indices_only():
-    from calcreport.report.document import _key_runs
+    from calcreport.report.sections.common import _key_runs
 
     keys = ["q", "a[1]", "a[2]", "a[3]", "b[1]", "b[2]", "a[5]", "a[6]", "a[7]", "a[9]"]
     assert _key_runs(keys) == ["q", "a[1–3]", "b[1]", "b[2]", "a[5–7]", "a[9]"]

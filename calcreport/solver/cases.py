@@ -7,9 +7,7 @@ from __future__ import annotations
 from dataclasses import replace
 
 from calcreport.model.schema import Fitting, Given, Model, Pipe
-from calcreport.physics import (
-    pump,
-)
+from calcreport.physics import pump
 from calcreport.solver.liquid import _destination_elevation
 from calcreport.solver.states import Case
 from calcreport.trace import TraceBuilder

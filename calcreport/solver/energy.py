@@ -7,9 +7,7 @@ from __future__ import annotations
 from typing import Any
 
 from calcreport.model.schema import Given, Model
-from calcreport.physics import (
-    power,
-)
+from calcreport.physics import power
 from calcreport.solver.states import Case, Liquid
 from calcreport.trace import TraceBuilder, quantity, source_of
 from calcreport.trace import bound as _q  # a result naming its source

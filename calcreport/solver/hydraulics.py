@@ -15,13 +15,7 @@ import numpy as np
 
 from calcreport import catalog
 from calcreport.model.schema import Fitting, Given, Model, Pipe
-from calcreport.physics import (
-    fittings,
-    friction,
-    head,
-    losses,
-    pump,
-)
+from calcreport.physics import fittings, friction, head, losses, pump
 from calcreport.solver import route_pressure
 from calcreport.solver.states import Case, Liquid
 from calcreport.trace import TraceBuilder

@@ -7,13 +7,7 @@ from __future__ import annotations
 from typing import Any
 
 from calcreport.model.schema import Given, Model, Vessel
-from calcreport.physics import (
-    atmosphere,
-    glycol,
-    head,
-    liquids,
-    water,
-)
+from calcreport.physics import atmosphere, glycol, head, liquids, water
 from calcreport.solver.states import Liquid
 from calcreport.trace import TraceBuilder
 

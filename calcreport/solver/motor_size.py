@@ -9,10 +9,7 @@ from typing import Any
 
 from calcreport import catalog
 from calcreport.model.schema import Model
-from calcreport.physics import (
-    motor,
-    power,
-)
+from calcreport.physics import motor, power
 from calcreport.solver.states import CurvePoints, Liquid
 from calcreport.trace import TraceBuilder, source_of
 from calcreport.trace import bound as _q  # a result naming its source

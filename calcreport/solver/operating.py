@@ -13,13 +13,7 @@ import numpy as np
 
 from calcreport import checks
 from calcreport.model.schema import Given, Model
-from calcreport.physics import (
-    head,
-    intake,
-    losses,
-    pump,
-    water,
-)
+from calcreport.physics import head, intake, losses, pump, water
 from calcreport.solver import route_pressure
 from calcreport.solver.energy import _per_pump_power, _power
 from calcreport.solver.hydraulics import _hydraulics, _Sweep

@@ -10,10 +10,7 @@ from typing import Any
 import numpy as np
 
 from calcreport.model.schema import Given, Model
-from calcreport.physics import (
-    power,
-    pump,
-)
+from calcreport.physics import power, pump
 from calcreport.solver import route_pressure
 from calcreport.solver.energy import _electrical, _per_pump_power
 from calcreport.solver.hydraulics import _hydraulics

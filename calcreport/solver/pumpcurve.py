@@ -7,10 +7,7 @@ from __future__ import annotations
 from typing import Any
 
 from calcreport.model.schema import Given, Model
-from calcreport.physics import (
-    pump,
-    viscous,
-)
+from calcreport.physics import pump, viscous
 from calcreport.solver.states import Case, CurvePoints, Liquid
 from calcreport.trace import TraceBuilder
 from calcreport.trace import bound as _q  # a result naming its source

@@ -5,9 +5,7 @@ from __future__ import annotations
 from typing import Any
 
 from calcreport.model.schema import Given, Model
-from calcreport.physics import (
-    friction,
-)
+from calcreport.physics import friction
 from calcreport.solver.states import Liquid
 from calcreport.trace import Check
 from calcreport.trace import bound as _q  # a result naming its source

@@ -1,0 +1,151 @@
+"""The contents, the system at a glance (sketch, profile, pipe table) and the basis of the
+calculation: conventions, assumptions, design criteria, inputs as entered and as used.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from reportlab.platypus import Flowable, Paragraph, Table, TableStyle
+
+from calcreport.report import style
+from calcreport.report.sections.common import MAX_FITTINGS_LISTED, _ContentsMark, _lines, text
+from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit
+
+
+class BasisSection:
+    """The contents, the system at a glance and the basis of the calculation."""
+
+    # The builder's own attributes and helpers (see calcreport.report.document._Report).
+    t: dict[str, Any]
+    r: dict[str, Any]
+    s: Any
+    system: str
+
+    def contents(self) -> list[Flowable]:
+        return [Paragraph("Contents", self.s.h1), _ContentsMark()]
+
+    def at_a_glance(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("The system at a glance")]
+        out += self.figure("sketch")
+        out += self.figure("profile")
+        rows = [["Pipe", "Side", "Length", "Inner diameter", "Roughness", "Fittings (K × count)"]]
+        for ident, p in self.r["pipes"].items():
+            fittings = self.fitting_list(ident)
+            rows.append(
+                [
+                    text(ident),
+                    p["side"].replace("_", " "),
+                    self.q(p["length"], "length"),
+                    self.q(p["inner_diameter"], "diameter"),
+                    self.q(p["roughness"], "roughness", 3),
+                    fittings,
+                ]
+            )
+        w = self.width
+        out.append(self.table(rows, [w * 0.08, w * 0.1, w * 0.12, w * 0.14, w * 0.12, w * 0.44]))
+        for ident, p in self.r["pipes"].items():
+            for what, source in p.get("sources", {}).items():
+                out.append(
+                    self.p(
+                        f"{text(ident)} {what.replace('_', ' ')} from the catalog: {text(source)}",
+                        self.s.small,
+                    )
+                )
+        return out
+
+    def fitting_list(self, ident: str) -> str:
+        step = self.step(f"pipe.{ident}.k_total")
+        parts: list[list[Any]] = []  # [item, count], one per distinct fitting in a run
+        args = step["arguments"]
+        for K, count_source, count in zip(
+            args["K"]["value"], args["count"]["from"], args["count"]["value"], strict=True
+        ):
+            base = count_source.rsplit(".", 1)[0]
+            kind = self.entered_value(f"{base}.kind")
+            label = self.entered_value(f"{base}.note") or kind.replace("_", " ") or "item"
+            how = f" ({text(kind)}, catalog)" if kind else ""
+            item = f"{text(label)}{how}: K {fmt(K, 3)}"
+            if parts and parts[-1][0] == item:  # the same item again: one entry, counted
+                parts[-1][1] += count
+            else:
+                parts.append([item, count])
+        listed = [f"{item} × {fmt(count, 3)}" for item, count in parts]
+        for n in range(1, 100):
+            rated = self.steps_by_id.get(f"pipe.{ident}.equipment[{n}]")
+            if rated is None:
+                break
+            listed.append(
+                f"{text(rated['title'].replace('Loss of ', ''))}: rated loss "
+                f"{self.q_both(rated['arguments']['dp'], 'pressure')} at "
+                f"{self.q(rated['arguments']['Q_rated'], 'flow')}"
+            )
+        if len(listed) > MAX_FITTINGS_LISTED:  # a table row cannot break across pages
+            more = len(listed) - MAX_FITTINGS_LISTED
+            listed = [*listed[:MAX_FITTINGS_LISTED], f"and {more} more (step pipe.{ident}.k_total)"]
+        return "; ".join(listed) or "none"
+
+    def basis(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Basis of the calculation")]
+        out.append(self.heading("Conventions", 2))
+        box = [
+            [self.p(f"C{n}. {line}", self.s.small)]
+            for n, line in enumerate(
+                _lines(
+                    "conventions.j2",
+                    us=self.system == "US",
+                    route="max_pressure" in self.r.get("route", {}),
+                ),
+                1,
+            )
+        ]
+        conventions = Table(box, colWidths=[self.width])
+        conventions.setStyle(
+            TableStyle(
+                [
+                    ("BOX", (0, 0), (-1, -1), 0.8, style.INK),
+                    ("BACKGROUND", (0, 0), (-1, -1), style.SHADE),
+                ]
+            )
+        )
+        out.append(conventions)
+        out.append(self.heading("Assumptions", 2))
+        for a in self.t["assumptions"]:
+            value = f" ({text(a['value'])})" if a.get("value") else ""
+            quantity = a.get("quantity")
+            if quantity and KIND_OF_SI_UNIT.get(quantity["unit"]):  # in the report's units
+                value = f" ({self.q(quantity)})"
+            out.append(self.p(f"<b>{a['id']}</b>  {text(a['text'])}{value}"))
+        out.append(self.heading("Design criteria", 2))
+        rows = [["Criterion", "Limit", "Basis", "Source"]]
+        seen = set()
+        for c in self.t["checks"]:
+            key = (c["id"].split(".")[0], c["limit"]["value"] if c["limit"] else None)
+            if key in seen or c["limit"] is None:
+                continue
+            seen.add(key)
+            source = (
+                "common practice, no published source"
+                if c["reference"] == "common_practice"
+                else self.ref(c["reference"])
+            )
+            rows.append(
+                [
+                    text(c["title"].split(" in ")[0]),
+                    f"{c['comparison']} {self.q(c['limit'])}",
+                    text(c["basis"]),
+                    source,
+                ]
+            )
+        w = self.width
+        out.append(self.table(rows, [w * 0.2, w * 0.14, w * 0.46, w * 0.2]))
+        out.append(self.heading("Inputs as entered and as used (SI)", 2))
+        rows = [["Input key", "As entered", "As used (SI)"]]
+        for key, q in self.t["given"].items():
+            entered = self.entered_value(key)
+            si = f"{fmt(q['value'], 6)} {pretty_unit(q['unit'])}".strip()
+            if "pressure" in key and q["unit"] == "Pa":
+                si += " (abs)" if key == "site.station_pressure" else " (gauge)"
+            rows.append([self.p(text(key), self.s.mono), text(entered), si])
+        out.append(self.table(rows, [w * 0.42, w * 0.3, w * 0.28]))
+        return out

@@ -1,0 +1,199 @@
+"""The closing chapters: design checks, charts, cautions and code deferral, references, and
+the appendices (full step listing, friction-factor chart, files read and the input).
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from reportlab.platypus import Flowable, PageBreak, Paragraph, Table, TableStyle
+
+from calcreport.report import style
+from calcreport.report.sections.common import _lines, text
+from calcreport.units import KIND_OF_SI_UNIT, pretty_unit
+
+
+class ClosingSections:
+    """Design checks, charts, cautions, references and the appendices."""
+
+    # The builder's own attributes and helpers (see calcreport.report.document._Report).
+    t: dict[str, Any]
+    r: dict[str, Any]
+    s: Any
+    system: str
+
+    def check_table(self, checks: list[dict[str, Any]], basis: bool = True) -> Table:
+        """The checks with their values and limits; with ``basis``, each criterion's basis
+        and source (the summary leaves them to the design-checks section)."""
+        rows = [["Status", "Check", "Case", "Value", "Limit", "Basis"][: 6 if basis else 5]]
+        extra: list[tuple[Any, ...]] = []
+        for n, c in enumerate(checks, start=1):
+            unit = (c["value"] or c["limit"] or {"unit": ""})["unit"]
+            kind = KIND_OF_SI_UNIT.get(unit)
+            gauge = "(g)" if kind == "pressure" else ""  # checked pressures are gauge
+            value = self.q(c["value"], kind) + gauge if c["value"] else "—"
+            if c["value"] and not kind:  # a ratio, or a unit the report has no kind for
+                unit = pretty_unit(c["value"]["unit"])
+                value = f"{c['value']['value']:.4g} {unit}".strip()
+            limit = (
+                f"{c['comparison']} {self.q(c['limit'], kind)}{gauge}"
+                if c["limit"]
+                else text(c["comparison"])
+            )
+            source = (
+                "common practice"
+                if c["reference"] == "common_practice"
+                else self.ref(c["reference"])
+            )
+            message = f"<br/><i>{text(c['message'])}</i>" if c["message"] else ""
+            rows.append(
+                [
+                    c["status"].upper(),
+                    text(c["title"]) + message,
+                    text(c["case"]),
+                    value,
+                    limit,
+                    f"{text(c['basis'])} ({source})",
+                ][: 6 if basis else 5]
+            )
+            extra += [
+                ("BACKGROUND", (0, n), (0, n), style.STATUS_FILL[c["status"]]),
+                ("TEXTCOLOR", (0, n), (0, n), style.STATUS_INK[c["status"]]),
+            ]
+        w = self.width
+        widths = (
+            [w * 0.09, w * 0.25, w * 0.06, w * 0.11, w * 0.12, w * 0.37]
+            if basis
+            else [w * 0.09, w * 0.55, w * 0.08, w * 0.13, w * 0.15]
+        )
+        table = self.table(rows, widths)
+        for n, c in enumerate(checks, start=1):
+            table._cellvalues[n][0] = Paragraph(
+                f"<font color='{'white' if c['status'] == 'fail' else 'black'}'><b>"
+                f"{c['status'].upper()}</b></font>",
+                self.s.cell,
+            )
+        table.setStyle(TableStyle(extra))
+        return table
+
+    def checks(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Design checks")]
+        out.append(
+            self.p(
+                "Sorted fail, review, pass. A limit of common practice is a rule of "
+                "thumb for review, not a code requirement; a limit the project sets in "
+                "its input fails when exceeded."
+            )
+        )
+        out.append(self.check_table(self.t["checks"]))
+        return out
+
+    def charts(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Charts")]
+        for key in ("system_curve", "npsh", "loss_breakdown"):
+            out += self.figure(key)
+        return out
+
+    def cautions(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Exclusions, cautions and code-deferral notes")]
+        out.append(self.heading("Cautions from this calculation's results", 2))
+        specific = [
+            f"{text(c['title'])} ({text(c['case'])}): {c['status']}"
+            + (f" — {text(c['message'])}" if c["message"] else "")
+            for c in self.t["checks"]
+            if c["status"] != "pass"
+        ]
+        specific += [text(n) for n in self.t["notes"]]
+        for a in self.t["assumptions"]:
+            if "efficiency" in a["text"].lower():
+                specific.append(f"Assumption {a['id']}: {text(a['text'])}")
+        if "pump.efficiency" in self.t["given"]:
+            specific.append(
+                "The pump efficiency is an assumed value until a pump is selected; "
+                "shaft and electrical power scale inversely with it."
+            )
+        for n, item in enumerate(specific or ["None."], start=1):
+            out.append(self.p(f"{n}. {item}"))
+        out.append(self.heading("Standing cautions and code deferral", 2))
+        extra = [text(c) for c in self.t["project"].get("report", {}).get("cautions", [])]
+        assessed = "rating_check" in self.r.get("route", {}) or "surge" in self.r
+        for n, line in enumerate(_lines("cautions.j2", assessed=assessed) + extra, start=1):
+            out.append(self.p(f"{n}. {line}"))
+        return out
+
+    def references(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("References")]
+        for key, citation in self.t["references"].items():
+            out.append(
+                self.p(
+                    f"[{self.refs[key]}] {text(citation)} "
+                    f"<font name='DejaVuMono' size='7'>({text(key)})</font>"
+                )
+            )
+        return out
+
+    def appendix(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Appendix A — Full step listing", numbered=False)]
+        out.append(
+            self.p(
+                "Every step of every case, in the order computed: its substituted equation, "
+                "result and inputs. Each equation is typeset once, with its first worked step "
+                "(in the calculation section, or here)."
+            )
+        )
+        for st in self.t["steps"]:
+            out += self.step_block(st, typeset=st["function"] not in self.typeset)
+        out += [
+            PageBreak(),
+            self.heading("Appendix B — Darcy friction factor chart", numbered=False),
+        ]
+        out += self.figure("friction_factor")
+        out += [
+            PageBreak(),
+            self.heading("Appendix C — Files read and the input as entered", numbered=False),
+        ]
+        inp = self.t["input"]
+        sw = self.t.get("software", {})
+        rows = [
+            ["File", "SHA-256"],
+            [f"{text(inp['path'])} (input)", self.p(text(inp["sha256"]), self.s.mono)],
+        ]
+        rows += [
+            [
+                f"{text(f['path'])} ({text(f.get('role', 'data'))})",
+                self.p(text(f["sha256"]), self.s.mono),
+            ]
+            for f in inp.get("files", [])
+        ]
+        out.append(self.table(rows, [self.width * 0.4, self.width * 0.6]))
+        out.append(
+            self.p(
+                f"Produced by {text(sw.get('name', 'calcreport'))} "
+                f"{text(sw.get('version', ''))}; trace format {text(self.t['format'])}.",
+                self.s.small,
+            )
+        )
+        from calcreport.recheck import SCOPE
+
+        out.append(
+            self.p(
+                f"<b>Checking this calculation by machine.</b> The trace file written beside this "
+                f"report can be rechecked with <font name='DejaVuMono'>calcreport recheck</font>. "
+                f"{text(SCOPE)} Catalog data version (SHA-256) "
+                f"{text(sw.get('catalog_sha256', '—'))}.",
+                self.s.small,
+            )
+        )
+        out.append(self.p(f"Input echoed verbatim (SHA-256 {text(inp['sha256'])}):", self.s.small))
+        # A monospaced line holds a fixed count of characters: longer lines are cut into
+        # pieces of that count (each ending in ↩), so layout time stays linear in the input.
+        from reportlab.pdfbase.pdfmetrics import stringWidth
+
+        mono = self.s.mono
+        per_line = max(20, int(self.width / stringWidth("M", mono.fontName, mono.fontSize)) - 1)
+        for line in self.input_text.splitlines() or [""]:
+            pieces = [line[i : i + per_line] for i in range(0, len(line), per_line)] or [""]
+            for n, piece in enumerate(pieces, start=1):
+                shown = text(piece).replace(" ", "&nbsp;") + ("↩" if n < len(pieces) else "")
+                out.append(Paragraph(shown or "&nbsp;", mono))
+        return out

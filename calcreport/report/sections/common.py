@@ -1,0 +1,141 @@
+"""Shared parts of the report sections: section map, limits of what is listed, templates
+and the escaping of the input's own text.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Sequence
+from functools import cache
+from pathlib import Path
+from typing import Any
+from xml.sax.saxutils import escape
+
+from reportlab.platypus import Flowable
+
+from calcreport.units import show_keyed
+
+TEMPLATES = Path(__file__).parent.parent / "templates"
+
+
+# Section of each step, by the first part of its id.
+SECTIONS = (
+    ("site", "Site and liquid properties", ("site.", "fluid.", "source.", "destination.")),
+    ("pipes", "Pipe hydraulics", ("pipe.",)),
+    ("system", "System head and total dynamic head", ("system.",)),
+    ("pump", "Operating point on the pump curve", ("pump.",)),
+    ("npsh", "NPSH available and margin", ("npsh.",)),
+    ("power", "Power and energy", ("power.", "energy.")),
+    ("motor", "Motor rating", ("motor.",)),
+    ("route", "Pressure along the route", ("route.",)),
+    ("surge", "Surge screening", ("surge.",)),
+)
+
+
+# Sections whose steps come from the cases that govern their checks, not only C1.
+_ANY_CASE = ("route", "surge")
+
+
+_CASE_PREFIX = re.compile(r"^C\d+\.")
+
+
+_PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
+
+
+_ROUTE_CHECKS = ("min_pressure", "pressure_rating", "surge")
+
+
+# Equations whose result is a sum of money, printed in the input's currency.
+_MONEY = frozenset(
+    {"power.annual_cost", "power.cost_sum", "power.demand_cost", "power.present_value"}
+)
+
+
+COVER_REVISIONS = 4  # the latest revisions shown on the cover
+
+
+MAX_FITTINGS_LISTED = 12  # fitting entries in a pipe's table row
+
+
+# Longest node table printed in full; a longer route prints its governing nodes.
+MAX_NODE_ROWS = 60
+
+
+@cache
+def _jinja() -> Any:
+    import jinja2
+
+    return jinja2.Environment(
+        loader=jinja2.FileSystemLoader(str(TEMPLATES)),
+        autoescape=True,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        keep_trailing_newline=False,
+    )
+
+
+def _template(name: str, **values: Any) -> str:
+    return str(_jinja().get_template(name).render(**values))
+
+
+def _lines(name: str, **values: Any) -> list[str]:
+    return [line.strip() for line in _template(name, **values).splitlines() if line.strip()]
+
+
+def _short(value: Any, unit: str, key: str, system: str) -> str:
+    """A changed value as the changes page prints it: in the report's units, rounded as its
+    results are."""
+    if isinstance(value, list):
+        return f"{len(value)} values"
+    if isinstance(value, dict):
+        return "changed"
+    if isinstance(value, int | float) and not isinstance(value, bool):
+        return show_keyed(float(value), unit, key, system)
+    return "—" if value is None else str(value)
+
+
+def text(value: Any) -> str:
+    """Text from the input, escaped so it prints literally (no markup, no control chars)."""
+    cleaned = "".join(ch if ch >= " " or ch in "\t" else " " for ch in str(value))
+    return escape(cleaned)
+
+
+_INDEXED = re.compile(r"^(.*)\[(\d+)\]$")
+
+
+def _key_runs(keys: Sequence[str]) -> list[str]:
+    """Input keys with each run of three or more consecutive indices written as one:
+    ``pump.curve.flow[1]``, ``[2]``, … ``[81]`` become ``pump.curve.flow[1–81]``."""
+    out: list[str] = []
+    run: list[tuple[str, int]] = []
+
+    def close() -> None:
+        if len(run) >= 3:
+            out.append(f"{run[0][0]}[{run[0][1]}–{run[-1][1]}]")
+        else:
+            out.extend(f"{name}[{i}]" for name, i in run)
+        run.clear()
+
+    for key in keys:
+        m = _INDEXED.match(key)
+        if m and run and m.group(1) == run[-1][0] and int(m.group(2)) == run[-1][1] + 1:
+            run.append((m.group(1), int(m.group(2))))
+            continue
+        close()
+        if m:
+            run.append((m.group(1), int(m.group(2))))
+        else:
+            out.append(key)
+    close()
+    return out
+
+
+class _ContentsMark(Flowable):
+    """Where the contents list starts; the canvas writes it once every page is known."""
+
+    def wrap(self, available_width: float, available_height: float) -> tuple[float, float]:
+        return available_width, 0.0
+
+    def draw(self) -> None:
+        x, y = self.canv.absolutePosition(0, 0)
+        self.canv._contents_at = (self.canv.getPageNumber(), x, y)
