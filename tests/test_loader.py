@@ -986,16 +986,16 @@ def test_text_length_bound():
 
 
 def test_pipe_and_fitting_count_bounds():
-    from calcreport.model import loader
+    from calcreport.model.sections import pipes as pipe_reader
 
     base = STARTER.read_text("utf-8")
     pipe = base[base.index("[[pipe]]") : base.index("[[pipe]]", base.index("[[pipe]]") + 1)]
     many = base + "\n".join(
         pipe.replace('id = "S1"', f'id = "X{i}"').replace('side = "suction"', 'side = "discharge"')
-        for i in range(loader.MAX_PIPES + 1)
+        for i in range(pipe_reader.MAX_PIPES + 1)
     )
     assert any(p.key == "pipe" and "at most" in p.message for p in problems(many))
-    fittings = ", ".join(["{ K = 0.1 }"] * (loader.MAX_FITTINGS + 1))
+    fittings = ", ".join(["{ K = 0.1 }"] * (pipe_reader.MAX_FITTINGS + 1))
     crowded = base.replace(
         'fittings = [\n  { K = 0.5, note = "sharp-edged entrance" },',
         f"fittings = [{fittings},\n",
@@ -1005,9 +1005,9 @@ def test_pipe_and_fitting_count_bounds():
 
 
 def test_curve_point_bound():
-    from calcreport.model import loader
+    from calcreport.model.sections import reader
 
-    n = loader.MAX_CURVE_POINTS + 1
+    n = reader.MAX_CURVE_POINTS + 1
     curve = (
         f'\n[pump.curve]\nflow = {{ unit = "L/s", values = {list(range(n))} }}\n'
         f'head = {{ unit = "m", values = {[40.0 - 0.01 * i for i in range(n)]} }}\n'
