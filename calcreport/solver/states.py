@@ -9,6 +9,9 @@ from dataclasses import dataclass
 from calcreport.model.schema import Given, Model, Pipe
 
 CURVE_POINTS = 61
+# The profile nodes at the pump's flanges, where the route reads the pump's own pressures.
+SUCTION_FLANGE = "pump suction flange"
+DISCHARGE_FLANGE = "pump discharge flange"
 
 
 @dataclass(frozen=True)
