@@ -33,11 +33,12 @@ import csv
 import difflib
 import math
 import re
-import tomllib
 from dataclasses import dataclass
 from fractions import Fraction
 from functools import cache
 from pathlib import Path
+
+from calcreport.catalog import _table
 
 __all__ = [
     "CatalogLookupError",
@@ -567,11 +568,9 @@ def _lookup(family: str, size: str, schedule: str, given: str) -> PipeSize:
     )
 
 
-@cache
 def _printed(table: str) -> str:
     """The primary source of ``table`` as the report prints it (sources.toml ``printed``)."""
-    with (_HERE / "sources.toml").open("rb") as handle:
-        return str(tomllib.load(handle)["files"][table]["printed"])
+    return str(_table("sources.toml")["files"][table]["printed"])
 
 
 def _d1785_mean_wall(minimum_mm: Fraction) -> Fraction:

@@ -135,19 +135,7 @@ def energy(trace: dict[str, Any]) -> Figure:
     return _render(_draw_energy, trace)
 
 
-FIGURES = (
-    "sketch",
-    "system_curve",
-    "npsh",
-    "profile",
-    "loss_breakdown",
-    "friction_factor",
-    "route_pressure",
-    "energy",
-)
-
-
-# Chart name -> the function that draws it.
+# Chart name -> the function that draws it, in report order.
 _DRAWERS: dict[str, Callable[[dict[str, Any]], tuple[Any, str]]] = {
     "sketch": _draw_sketch,
     "system_curve": _draw_system_curve,
@@ -158,6 +146,8 @@ _DRAWERS: dict[str, Callable[[dict[str, Any]], tuple[Any, str]]] = {
     "route_pressure": _draw_route_pressure,
     "energy": _draw_energy,
 }
+# The chart names in report order.
+FIGURES = tuple(_DRAWERS)
 
 
 def applies(name: str, trace: dict[str, Any]) -> bool:
