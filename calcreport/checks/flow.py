@@ -8,6 +8,7 @@ from typing import Any
 
 from calcreport.checks.criteria import _say, _status, criterion
 from calcreport.model.schema import EXIT_NOTE, Model
+from calcreport.physics.friction import LAMINAR_LIMIT, TURBULENT_LIMIT
 from calcreport.trace import Check
 
 
@@ -68,9 +69,9 @@ def _regime(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
         value=Re,
         unit="",
         limit=None,
-        comparison="not in 2000-4000",
-        basis="Friction factors between Re 2000 and 4000 are uncertain; Colebrook is used "
-        "there as the conservative value",
+        comparison=f"not in {LAMINAR_LIMIT:g}-{TURBULENT_LIMIT:g}",
+        basis=f"Friction factors between Re {LAMINAR_LIMIT:g} and {TURBULENT_LIMIT:g} are "
+        "uncertain; Colebrook is used there as the conservative value",
         reference="moody_1944",
         case=case,
         message=f"Re = {Re:.0f}: {regime} flow" + (" (transition band)" if transition else ""),

@@ -7,6 +7,7 @@ from __future__ import annotations
 from typing import Any
 
 from calcreport.model.schema import Model
+from calcreport.physics.motor import SERVICE_STANDARDS
 from calcreport.trace import Check
 
 
@@ -59,9 +60,9 @@ def _motor_site(model: Model, motor: dict[str, Any]) -> Check | None:
         unit="",
         limit=None,
         comparison="given",
-        basis="Rated output holds up to 1000 m altitude and 40 °C coolant (IEC 60034-1, NEMA "
-        "MG 1 usual service conditions); beyond them the manufacturer's derating factor "
-        "(motor.derating) applies",
+        basis="Rated output holds up to 1000 m altitude and 40 °C coolant "
+        f"({SERVICE_STANDARDS} usual service conditions); beyond them the manufacturer's "
+        "derating factor (motor.derating) applies",
         reference="iec_60034_1",
         case="all",
         message=f"site {beyond}"

@@ -8,6 +8,7 @@ from typing import Any
 
 from calcreport.checks.criteria import _say, _status, criterion, states
 from calcreport.model.schema import Model
+from calcreport.physics import viscous
 from calcreport.trace import Check
 
 
@@ -186,7 +187,8 @@ def _viscous(corrections: list[tuple[str, dict[str, Any]]]) -> Check:
     status = "fail" if beyond else ("review" if worst["applied"] else "pass")
     message = {
         "fail": "too viscous for the method: consider a positive-displacement pump",
-        "review": "the water curve is corrected; verify the factors against ANSI/HI 9.6.7 "
+        "review": "the water curve is corrected; verify the factors against "
+        f"{viscous.STANDARD} "
         "(equations as recalled)",
         "pass": "no correction needed (B at most 1)",
     }[status]
@@ -196,12 +198,12 @@ def _viscous(corrections: list[tuple[str, dict[str, Any]]]) -> Check:
         status=status,
         value=B,
         unit="",
-        limit=40.0,
+        limit=viscous.B_MAX,
         comparison="<",
-        basis="ANSI/HI 9.6.7 corrects water performance for a viscous liquid from the "
-        "parameter B: none for B up to 1, the method's range ends at B = 40",
+        basis=f"{viscous.STANDARD} corrects water performance for a viscous liquid from the "
+        f"parameter B: none for B up to 1, the method's range ends at B = {viscous.B_MAX:g}",
         reference="hi_viscous",
         case=case,
         message=message,
-        margin=40.0 - B,
+        margin=viscous.B_MAX - B,
     )

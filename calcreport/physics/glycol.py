@@ -35,6 +35,9 @@ M_WATER = 18.015  # g/mol
 MOLAR_MASS = {"MEG": 62.068, "MPG": 76.094}  # ethylene and propylene glycol, g/mol
 CODE = {"ethylene_glycol": "MEG", "propylene_glycol": "MPG"}  # fluid.kind -> CoolProp name
 MAX_FRACTION = 0.6
+# Temperatures [K] at which glycol solutions are computed: inside the fits, liquid and unfrozen
+# service.
+T_RANGE = (253.15, 373.15)
 _T_MIN_SAT = 273.16  # water's saturation pressure is taken no colder than its triple point
 
 

@@ -21,7 +21,7 @@ from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["KINDS", "PURE", "SALINITY_MAX", "property_function"]
+__all__ = ["KINDS", "PURE", "SALINITY_MAX", "T_RANGE", "property_function"]
 
 # fluid.kind -> (CoolProp fluid name, name in text)
 PURE = {
@@ -34,6 +34,17 @@ PURE = {
 }
 KINDS = (*PURE, "seawater")
 SALINITY_MAX = 0.12  # the seawater fit's range of salinity (mass fraction)
+# Lowest and highest temperature [K] of each liquid: the formulation's lower limit (about the
+# triple point) and a service limit of 150 degC (seawater: the fit's 120 degC).
+T_RANGE = {
+    "methanol": (176.0, 423.15),
+    "ethanol": (160.0, 423.15),
+    "toluene": (179.0, 423.15),
+    "benzene": (279.0, 423.15),
+    "n_hexane": (178.0, 423.15),
+    "n_heptane": (183.0, 423.15),
+    "seawater": (273.15, 393.15),
+}
 
 
 @cache

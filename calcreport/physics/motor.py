@@ -12,7 +12,17 @@ from typing import Any
 
 from calcreport.physics.equation import equation
 
-__all__ = ["derated_requirement", "loading", "standard_rating"]
+__all__ = [
+    "RATING_SERIES",
+    "SERVICE_STANDARDS",
+    "derated_requirement",
+    "loading",
+    "standard_rating",
+]
+
+# The standard each series of ratings comes from, and those that set usual service conditions.
+RATING_SERIES = {"IEC": "IEC 60072-1", "NEMA": "NEMA MG 1"}
+SERVICE_STANDARDS = "IEC 60034-1, NEMA MG 1"
 
 
 def _ratings_text(values: dict[str, Any], result: float, fmt: Any) -> str:

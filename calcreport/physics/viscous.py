@@ -29,6 +29,7 @@ from calcreport.physics.equation import equation
 
 __all__ = [
     "B_MAX",
+    "STANDARD",
     "efficiency_factor",
     "flow_factor",
     "head_factor",
@@ -40,6 +41,7 @@ __all__ = [
 ]
 
 B_MAX = 40.0  # the method's upper limit of B
+STANDARD = "ANSI/HI 9.6.7"  # the method's name as the report prints it
 
 
 @equation(

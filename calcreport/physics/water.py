@@ -43,6 +43,9 @@ _T_MIN_1 = 273.15  # [K]
 _T_MAX_1 = 623.15  # [K]
 _P_MAX_1 = 100.0e6  # [Pa]
 P_MAX = _P_MAX_1  # the highest pressure at which liquid water is computed [Pa]
+# Temperatures [K] at which liquid water is computed: from the triple point, where the
+# saturation line (region 4) begins, to the upper limit of region 1.
+T_RANGE = (273.16, _T_MAX_1)
 
 # (I_i, J_i, n_i), i = 1..34
 _REGION1: tuple[tuple[int, int, float], ...] = (

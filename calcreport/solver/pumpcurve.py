@@ -74,7 +74,8 @@ def _viscous(
         return curve, None
     if speed is None:
         notes.append(
-            "The viscosity correction of the pump curve (ANSI/HI 9.6.7) needs the pump speed: "
+            f"The viscosity correction of the pump curve ({viscous.STANDARD}) needs the pump "
+            "speed: "
             "give pump.curve.speed."
         )
         return curve, None
@@ -118,7 +119,7 @@ def _viscous(
     )
     B = b.step(
         case.sid("pump.viscous.parameter"),
-        "Viscosity parameter B (ANSI/HI 9.6.7)",
+        f"Viscosity parameter B ({viscous.STANDARD})",
         viscous.viscosity_parameter,
         case.id,
         nu=nu,
@@ -135,9 +136,9 @@ def _viscous(
     if B.value >= viscous.B_MAX:
         out["beyond_range"] = True
         notes.append(
-            f"The liquid is too viscous for the pump's correction (B = {B.value:.3g} ≥ 40, "
-            "beyond ANSI/HI 9.6.7): consider a positive-displacement pump; the water curve "
-            "is used unchanged."
+            f"The liquid is too viscous for the pump's correction (B = {B.value:.3g} ≥ "
+            f"{viscous.B_MAX:g}, beyond {viscous.STANDARD}): consider a positive-displacement "
+            "pump; the water curve is used unchanged."
         )
         done[key] = (curve, out)
         return done[key]
@@ -187,7 +188,8 @@ def _viscous(
                 )
             )
     b.assume(
-        "The pump curve is corrected for viscosity by ANSI/HI 9.6.7 (equations as recalled, "
+        f"The pump curve is corrected for viscosity by {viscous.STANDARD} (equations as "
+        "recalled, "
         "to be verified against the standard); NPSH required is the water curve's."
     )
     out.update(applied=True, flow_factor=_q(C_Q), efficiency_factor=_q(C_eta))

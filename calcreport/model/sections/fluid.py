@@ -13,28 +13,32 @@ from calcreport.model.schema import (
     Vessel,
 )
 from calcreport.model.sections.reader import _Reader
+from calcreport.physics import glycol, liquids, water
 from calcreport.units import as_written
 
-GLYCOLS = ("ethylene_glycol", "propylene_glycol")
-# Other liquids from CoolProp (calcreport.physics.liquids), with their lowest and highest
-# temperatures: the formulation's lower limit (about the triple point) and a service limit.
-LIQUID_RANGES = {
-    "methanol": (176.0, 423.15),
-    "ethanol": (160.0, 423.15),
-    "toluene": (179.0, 423.15),
-    "benzene": (279.0, 423.15),
-    "n_hexane": (178.0, 423.15),
-    "n_heptane": (183.0, 423.15),
-    "seawater": (273.15, 393.15),
-}
-FLUID_KINDS = ("water", *GLYCOLS, *LIQUID_RANGES, "custom")
-# Glycol solutions: the property fits' range, kept inside liquid and unfrozen service.
-GLYCOL_T_MIN = 253.15
-GLYCOL_T_MAX = 373.15
+GLYCOLS = tuple(glycol.CODE)
+FLUID_KINDS = ("water", *GLYCOLS, *liquids.T_RANGE, "custom")
 
-# Water is handled by IAPWS-IF97 region 1 from the triple point to 350 degC.
-WATER_T_MIN = 273.16
-WATER_T_MAX = 623.15
+
+def computed_range(kind: str) -> tuple[float, float] | None:
+    """Temperatures [K] at which the properties of a liquid ``kind`` are computed, or None
+    for a custom liquid (its properties are given, not computed)."""
+    if kind == "water":
+        return water.T_RANGE
+    if kind in GLYCOLS:
+        return glycol.T_RANGE
+    return liquids.T_RANGE.get(kind)
+
+
+def _within(value: float, bounds: tuple[float, float]) -> bool:
+    return bounds[0] <= value <= bounds[1]
+
+
+def range_text(low: float, high: float) -> str:
+    """A temperature range [K] as the loader's messages print it."""
+    return f"{low - 273.15:.4g} degC to {high - 273.15:.4g} degC"
+
+
 _FLUID_KEYS = {
     "kind",
     "temperature",
@@ -53,10 +57,10 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
     r.known_keys(data, "fluid", _FLUID_KEYS)
     kind = r.text(data, "kind", "fluid", "water", FLUID_KINDS)
     temperature = r.quantity(data, "temperature", "fluid", "temperature", required=True)
-    if temperature and kind == "water" and not WATER_T_MIN <= temperature.value <= WATER_T_MAX:
+    if temperature and kind == "water" and not _within(temperature.value, water.T_RANGE):
         r.problem(
             "fluid.temperature",
-            "Liquid water is computed from 0.01 degC to 350 degC; got "
+            f"Liquid water is computed from {range_text(*water.T_RANGE)}; got "
             f"{as_written(data['temperature'])}.",
         )
     custom = {
@@ -76,22 +80,22 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
                     f'give fluid.{key} only with kind = "custom".',
                 )
     fraction = None
-    if kind in LIQUID_RANGES and temperature:
-        low, high = LIQUID_RANGES[kind]
-        if not low <= temperature.value <= high:
+    if kind in liquids.T_RANGE and temperature:
+        if not _within(temperature.value, liquids.T_RANGE[kind]):
             r.problem(
                 "fluid.temperature",
-                f"{kind.replace('_', '-').capitalize()} is computed from {low - 273.15:.4g} degC "
-                f"to {high - 273.15:.4g} degC; got {as_written(data['temperature'])}.",
+                f"{kind.replace('_', '-').capitalize()} is computed from "
+                f"{range_text(*liquids.T_RANGE[kind])}; got {as_written(data['temperature'])}.",
             )
     if kind == "seawater":
         fraction = r.quantity(
             data, "mass_fraction", "fluid", "dimensionless", required=True, positive=True
         )
-        if fraction and fraction.value > 0.12:
+        if fraction and fraction.value > liquids.SALINITY_MAX:
             r.problem(
                 "fluid.mass_fraction",
-                "The salinity (mass fraction) must be at most 0.12, the range of the "
+                f"The salinity (mass fraction) must be at most {liquids.SALINITY_MAX:g}, the "
+                "range of the "
                 "seawater fit; ocean water is about 0.035.",
             )
             fraction = None
@@ -101,18 +105,18 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
         fraction = r.quantity(
             data, "mass_fraction", "fluid", "dimensionless", required=True, positive=True
         )
-        if fraction and fraction.value > 0.6:
+        if fraction and fraction.value > glycol.MAX_FRACTION:
             r.problem(
                 "fluid.mass_fraction",
-                "The glycol mass fraction must be at most 0.6 "
-                "(60 %), the range of the property fits.",
+                f"The glycol mass fraction must be at most {glycol.MAX_FRACTION:g} "
+                f"({glycol.MAX_FRACTION * 100:g} %), the range of the property fits.",
             )
             fraction = None
-        if temperature and not GLYCOL_T_MIN <= temperature.value <= GLYCOL_T_MAX:
+        if temperature and not _within(temperature.value, glycol.T_RANGE):
             r.problem(
                 "fluid.temperature",
-                "Glycol solutions are computed from -20 degC to "
-                f"100 degC; got {as_written(data['temperature'])}.",
+                f"Glycol solutions are computed from {range_text(*glycol.T_RANGE)}; got "
+                f"{as_written(data['temperature'])}.",
             )
     elif "mass_fraction" in data:
         r.problem(
@@ -135,7 +139,7 @@ def _fluid(r: _Reader, data: dict[str, Any] | None) -> Fluid | None:
 
 def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]) -> None:
     """Checks that need the barometric pressure and the liquid's vapour pressure."""
-    from calcreport.physics import atmosphere, water
+    from calcreport.physics import atmosphere
 
     if site.station_pressure:
         p_baro = site.station_pressure.value
@@ -149,8 +153,6 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
     if fluid.kind == "water":
         p_v = water.saturation_pressure(fluid.temperature.value)
     elif fluid.kind in GLYCOLS:
-        from calcreport.physics import glycol
-
         assert fluid.mass_fraction is not None
         low, high = glycol.valid_range(glycol.CODE[fluid.kind], fluid.mass_fraction.value)
         T = fluid.temperature
@@ -170,9 +172,7 @@ def _physical_checks(r: _Reader, fluid: Fluid, site: Site, vessels: list[Vessel]
         )
     elif fluid.kind == "seawater":
         p_v = water.saturation_pressure(fluid.temperature.value)
-    elif fluid.kind in LIQUID_RANGES:
-        from calcreport.physics import liquids
-
+    elif fluid.kind in liquids.T_RANGE:
         p_v = liquids.property_function(fluid.kind, "vapor_pressure")(fluid.temperature.value)
     else:
         assert fluid.vapor_pressure is not None

@@ -15,7 +15,7 @@ from calcreport.model.schema import (
     Operation,
     Surge,
 )
-from calcreport.model.sections.fluid import LIQUID_RANGES, WATER_T_MAX, WATER_T_MIN
+from calcreport.model.sections.fluid import computed_range, range_text
 from calcreport.model.sections.reader import _quantity_list, _Reader
 
 _ENVELOPE_KEYS = {"temperature", "flow_required", "roughness", "strainer_dirty_dp"}
@@ -55,21 +55,14 @@ def _envelope(r: _Reader, data: dict[str, Any], fluid: Fluid | None) -> Envelope
             "whose properties are computed (water, a glycol or a catalog liquid).",
         )
         temperatures = ()
-    if temperatures and fluid is not None and fluid.kind in LIQUID_RANGES:
-        low, high = LIQUID_RANGES[fluid.kind]
-        for t in temperatures:
-            if not low <= t.value <= high:
-                r.problem(
-                    t.key,
-                    f"This liquid is computed from {low - 273.15:.4g} degC to "
-                    f"{high - 273.15:.4g} degC.",
-                )
-                temperatures = ()
-    if temperatures and fluid is not None and fluid.kind == "water":
-        for t in temperatures:
-            if not WATER_T_MIN <= t.value <= WATER_T_MAX:
-                r.problem(t.key, "Liquid water is computed from 0.01 degC to 350 degC.")
-                temperatures = ()
+    bounds = computed_range(fluid.kind) if temperatures and fluid is not None else None
+    if bounds is not None:
+        what = "Liquid water" if fluid.kind == "water" else "This liquid"
+        outside = [t for t in temperatures if not bounds[0] <= t.value <= bounds[1]]
+        for t in outside:
+            r.problem(t.key, f"{what} is computed from {range_text(*bounds)}.")
+        if outside:
+            temperatures = ()
     flows = _quantity_list(r, data, "flow_required", "envelope", "flow") or ()
     if any(q.value <= 0.0 for q in flows):
         r.problem("envelope.flow_required", "Every required flow must be greater than zero.")

@@ -87,10 +87,10 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
     ax.grid(True, which="major", color="#dedede", lw=0.5)
     ax.grid(True, which="minor", color="#efefef", lw=0.4)
 
-    lam_limit = float(getattr(friction, "LAMINAR_LIMIT", 2000.0))
-    ax.axvspan(lam_limit, 4000.0, color="#f0f0f0", lw=0, zorder=0)
+    lam_limit, turb_limit = friction.LAMINAR_LIMIT, friction.TURBULENT_LIMIT
+    ax.axvspan(lam_limit, turb_limit, color="#f0f0f0", lw=0, zorder=0)
     ax.text(
-        math.sqrt(lam_limit * 4000.0),
+        math.sqrt(lam_limit * turb_limit),
         f_lo * 1.18,
         "transition",
         rotation=90,
@@ -203,7 +203,8 @@ def _draw_friction_factor(trace: dict[str, Any]) -> tuple[Any, str]:
         )
 
     title = (
-        "Darcy friction factor against Reynolds number: laminar line (Re < 2000), "
-        "Colebrook lines of constant relative roughness ε/D, and this system's pipes"
+        "Darcy friction factor against Reynolds number: laminar line "
+        f"(Re < {friction.LAMINAR_LIMIT:g}), Colebrook lines of constant relative roughness "
+        "ε/D, and this system's pipes"
     )
     return fig, title

@@ -10,6 +10,7 @@ from typing import Any
 from reportlab.lib.units import mm
 from reportlab.platypus import Flowable, Spacer
 
+from calcreport.physics.motor import RATING_SERIES
 from calcreport.report.sections.common import text
 from calcreport.units import display_unit, fmt, pretty_unit
 
@@ -216,7 +217,7 @@ class SummarySection:
             loads = ", ".join(
                 f"{text(c)} {fmt(v['value'] * 100, 3)} %" for c, v in motor["loading"].items()
             )
-            series = "IEC 60072-1" if motor["series"] == "IEC" else "NEMA MG 1"
+            series = RATING_SERIES[motor["series"]]
             text_motor = (
                 f" <b>Motor:</b> {self.q(motor['rated_power'], 'power')} ({series} "
                 f"series), covering the peak shaft power "
