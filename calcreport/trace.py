@@ -243,6 +243,8 @@ def _compact(value: Any) -> str:
 class TraceBuilder:
     """Collects steps as the solver evaluates them; every step id is unique."""
 
+    records = True  # an evaluator of the solver (calcreport.solver.states.Evaluator)
+
     def __init__(self) -> None:
         self.steps: list[Step] = []
         self._ids: set[str] = set()

@@ -19,14 +19,16 @@ from pathlib import Path
 
 import pytest
 
-from calcreport.catalog import pipes
-from calcreport.catalog.pipes import CatalogLookupError, resolve, roughness
+from calcreport.catalog import materials, pipes
+from calcreport.catalog.lookup import CatalogLookupError
+from calcreport.catalog.materials import roughness
+from calcreport.catalog.pipes import resolve
 
 CATALOG = Path(pipes.__file__).parent
 IN = 25.4  # mm per inch, exact
 
 PIPE_TABLES = {fam: spec.table for fam, spec in pipes._FAMILIES.items()}
-ALL_TABLES = (*PIPE_TABLES.values(), pipes.ROUGHNESS_TABLE)
+ALL_TABLES = (*PIPE_TABLES.values(), materials.ROUGHNESS_TABLE)
 
 
 def mm(metres: float) -> float:
@@ -623,7 +625,7 @@ def test_listing_helpers():
     assert pipes.schedules("copper", "1/4") == ("L", "K")
     assert pipes.sizes("steel")[0] == "1/8" and pipes.sizes("steel")[-1] == "36"
     assert pipes.sizes("pe")[0] == "20" and pipes.sizes("pe")[-1] == "1000"
-    assert "hdpe" in pipes.materials()
+    assert "hdpe" in materials.materials()
 
 
 def test_pipe_size_is_frozen_and_consistent():
@@ -690,14 +692,14 @@ def test_cement_lined_ductile_iron_roughness():
 
 
 def test_every_roughness_row_is_well_formed():
-    for material in pipes.materials():
+    for material in materials.materials():
         result = roughness(material)
-        assert result.value > 0 and result.source and result.table == pipes.ROUGHNESS_TABLE
+        assert result.value > 0 and result.source and result.table == materials.ROUGHNESS_TABLE
         if result.range is not None:
             assert result.range[0] <= result.value <= result.range[1]
     assert {"commercial_steel", "galvanized_steel", "stainless_steel", "cast_iron",
             "ductile_iron_cement_lined", "copper", "pvc", "hdpe", "concrete"} <= set(
-        pipes.materials()
+        materials.materials()
     )  # fmt: skip
 
 

@@ -146,7 +146,7 @@ def test_an_earlier_entrance_name_reads_as_its_new_one():
 
 
 def test_concrete_roughness_is_a_typical_value_with_its_range():
-    from calcreport.catalog.pipes import roughness
+    from calcreport.catalog.materials import roughness
 
     # Moody (1944): concrete 0.3 to 3 mm; the typical value returned is the range's
     # geometric middle (common practice, no published source), not its low end.
@@ -171,7 +171,8 @@ def test_the_conclusion_names_the_state_the_duty_is_decided_in(tmp_path):
 
 
 def test_a_pe_size_in_inches_is_answered_with_the_nearest_sizes_by_diameter():
-    from calcreport.catalog.pipes import CatalogLookupError, resolve
+    from calcreport.catalog.lookup import CatalogLookupError
+    from calcreport.catalog.pipes import resolve
 
     # ISO 4427-2 sizes are outside diameters in mm: "6" (inches, 152.4 mm) lies between
     # dn 140 and dn 160, not near dn 20.
@@ -289,10 +290,10 @@ def _reproduction_keys():
 
 
 def test_printed_catalog_provenance_names_primary_sources_only():
-    from calcreport.catalog import pipes
+    from calcreport.catalog import materials, pipes
 
     keys = _reproduction_keys()
-    printed = [pipes.roughness(m).published for m in pipes.materials()]
+    printed = [materials.roughness(m).published for m in materials.materials()]
     for family in pipes.families():
         for size in pipes.sizes(family):
             schedules = pipes.schedules(family, size)

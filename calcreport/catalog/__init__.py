@@ -33,6 +33,7 @@ __all__ = [
     "motor_efficiency",
     "motor_ratings",
     "references",
+    "rows",
 ]
 
 _HERE = Path(__file__).parent
@@ -81,9 +82,12 @@ def fingerprint() -> str:
     return digest.hexdigest()
 
 
-def _rows(name: str) -> list[dict[str, str]]:
-    with (_HERE / name).open(encoding="utf-8") as handle:
-        return list(csv.DictReader(line for line in handle if not line.startswith("#")))
+@cache
+def rows(name: str) -> tuple[dict[str, str], ...]:
+    """The rows of the CSV table ``name`` of this folder, skipping ``#`` comment lines."""
+    with (_HERE / name).open(encoding="utf-8", newline="") as handle:
+        reader = csv.DictReader(line for line in handle if not line.startswith("#"))
+        return tuple(dict(row) for row in reader)
 
 
 # Fitting kinds renamed in plain trade words; the earlier names are read as these.
@@ -98,7 +102,7 @@ FITTING_ALIASES = {
 def fittings() -> dict[str, dict[str, Any]]:
     """Named fittings: ``{"kind": {"method", "K" or "K1"/"K_inf", "description", "source"}}``."""
     table: dict[str, dict[str, Any]] = {}
-    for row in _rows("fittings_hooper_2k.csv"):
+    for row in rows("fittings_hooper_2k.csv"):
         table[row["kind"]] = {
             "method": "hooper_2k",
             "K1": float(row["K1"]),
@@ -107,7 +111,7 @@ def fittings() -> dict[str, dict[str, Any]]:
             "source": row["source"],
             "reference": "hooper_1981",
         }
-    for row in _rows("fittings_crane_ft.csv"):
+    for row in rows("fittings_crane_ft.csv"):
         table[row["kind"]] = {
             "method": "crane",
             "n": float(row["n"]),
@@ -115,7 +119,7 @@ def fittings() -> dict[str, dict[str, Any]]:
             "source": row["source"],
             "reference": "crane_tp410",
         }
-    for row in _rows("fittings_entrance_exit.csv"):
+    for row in rows("fittings_entrance_exit.csv"):
         table[row["kind"]] = {
             "method": "constant",
             "K": float(row["K"]),
@@ -130,7 +134,7 @@ def fittings() -> dict[str, dict[str, Any]]:
 def hazen_williams_c() -> dict[str, tuple[float, str]]:
     """Hazen-Williams C of new pipe by material name, with its source."""
     return {
-        row["material"]: (float(row["C"]), row["source"]) for row in _rows("hazen_williams_c.csv")
+        row["material"]: (float(row["C"]), row["source"]) for row in rows("hazen_williams_c.csv")
     }
 
 
@@ -144,7 +148,7 @@ def elastic_moduli() -> dict[str, dict[str, Any]]:
             "description": row["description"],
             "source": row["source"],
         }
-        for row in _rows("pipe_elastic_modulus.csv")
+        for row in rows("pipe_elastic_modulus.csv")
     }
 
 
@@ -161,7 +165,7 @@ def fittings_three_k() -> dict[str, dict[str, Any]]:
             "source": row["source"],
             "reference": "darby_1999",
         }
-        for row in _rows("fittings_darby_3k.csv")
+        for row in rows("fittings_darby_3k.csv")
     }
 
 
@@ -169,7 +173,7 @@ def fittings_three_k() -> dict[str, dict[str, Any]]:
 def check_valve_lift() -> dict[str, tuple[float, str]]:
     """Check valve kinds: the constant of their full-lift velocity, with its source."""
     return {
-        row["kind"]: (float(row["c"]), row["source"]) for row in _rows("check_valve_full_lift.csv")
+        row["kind"]: (float(row["c"]), row["source"]) for row in rows("check_valve_full_lift.csv")
     }
 
 
@@ -181,6 +185,6 @@ def motor_efficiency(efficiency_class: str) -> dict[float, tuple[float, str]]:
             round(float(row["efficiency_percent"]) / 100.0, 6),
             row["source"],
         )
-        for row in _rows("motor_efficiency_iec.csv")
+        for row in rows("motor_efficiency_iec.csv")
         if row["class"] == efficiency_class
     }

@@ -1,4 +1,4 @@
-"""Pipe dimensions and new-pipe roughness by name, each value with its source.
+"""Pipe dimensions by family, nominal size and schedule, each value with its source.
 
 Families (data files in this folder, described in ``sources.toml``):
 
@@ -13,8 +13,6 @@ Families (data files in this folder, described in ``sources.toml``):
 (154.05, 'asme_b36_10m_steel.csv')
 >>> resolve("DN 50", "10S").family
 'stainless'
->>> round(roughness("commercial steel").value * 1000, 3)
-0.045
 
 Lengths are returned in metres. Inner diameter is outside diameter minus twice the wall, computed
 here from the table's millimetre columns (the standard's own SI values for B36.10M/B36.19M, exact
@@ -29,54 +27,28 @@ value, the close matches and the valid choices.
 
 from __future__ import annotations
 
-import csv
-import difflib
 import math
 import re
 from dataclasses import dataclass
 from fractions import Fraction
 from functools import cache
-from pathlib import Path
 
-from calcreport.catalog import _table
+from calcreport.catalog import _table, rows
+from calcreport.catalog.lookup import (
+    CatalogLookupError,
+    close_matches,
+    metres,
+    sentence,
+)
 
 __all__ = [
     "CatalogLookupError",
     "PipeSize",
-    "Roughness",
     "families",
-    "materials",
     "resolve",
-    "roughness",
     "schedules",
     "sizes",
 ]
-
-_HERE = Path(__file__).parent
-ROUGHNESS_TABLE = "roughness_new_pipe.csv"
-
-
-class CatalogLookupError(LookupError):
-    """A family, nominal size, schedule or material the catalogs do not hold.
-
-    ``kind`` is ``"family"``, ``"nominal_size"``, ``"schedule"`` or ``"material"``; ``value``
-    is the text given; ``suggestions`` the close matches; ``choices`` the valid names.
-    """
-
-    def __init__(
-        self,
-        message: str,
-        *,
-        kind: str,
-        value: str,
-        suggestions: tuple[str, ...] = (),
-        choices: tuple[str, ...] = (),
-    ) -> None:
-        super().__init__(message)
-        self.kind = kind
-        self.value = value
-        self.suggestions = suggestions
-        self.choices = choices
 
 
 @dataclass(frozen=True)
@@ -96,19 +68,6 @@ class PipeSize:
     bore_basis: str = "outside diameter and wall as tabulated"
     # The primary published source as the report prints it (``source`` also names the
     # reproductions a value was read in, for the catalog's maintainers).
-    published: str = ""
-
-
-@dataclass(frozen=True)
-class Roughness:
-    """New-pipe absolute roughness in metres; ``range`` (low, high) where the source gives one."""
-
-    material: str
-    value: float
-    range: tuple[float, float] | None
-    description: str
-    source: str
-    table: str
     published: str = ""
 
 
@@ -224,27 +183,6 @@ _SCHEDULE_ALIASES = {
     "DOUBLEEXTRASTRONG": "XXS",
 }
 
-_MATERIAL_ALIASES = {
-    "steel": "commercial_steel",
-    "carbon_steel": "commercial_steel",
-    "commercial_steel_new": "commercial_steel",
-    "galvanized": "galvanized_steel",
-    "galvanised": "galvanized_steel",
-    "galvanised_steel": "galvanized_steel",
-    "galvanized_iron": "galvanized_steel",
-    "galvanised_iron": "galvanized_steel",
-    "stainless": "stainless_steel",
-    "ss": "stainless_steel",
-    "ductile_iron_cement_mortar_lined": "ductile_iron_cement_lined",
-    "cement_lined_ductile_iron": "ductile_iron_cement_lined",
-    "asphalted_iron": "asphalted_cast_iron",
-    "pe": "hdpe",
-    "polyethylene": "hdpe",
-    "pe100": "hdpe",
-    "pe80": "hdpe",
-    "upvc": "pvc",
-}
-
 _UNICODE_FRACTIONS = {"½": "1/2", "¼": "1/4", "¾": "3/4", "⅛": "1/8", "⅜": "3/8", "⅝": "5/8"}
 _SIZE_PREFIX = re.compile(r"^(nps|dn|od)(?=[\s\d.])\s*", re.IGNORECASE)
 _SIZE_UNIT = re.compile(r"\s*(\"|''|in\.?|inch|inches|mm)$", re.IGNORECASE)
@@ -253,13 +191,6 @@ _SDR = re.compile(r"^S?DR\s*(\d+(?:\.\d+)?)$")
 
 
 # --- tables ---------------------------------------------------------------------------------
-
-
-@cache
-def _rows(table: str) -> tuple[dict[str, str], ...]:
-    with (_HERE / table).open(encoding="utf-8", newline="") as handle:
-        reader = csv.DictReader(line for line in handle if not line.startswith("#"))
-        return tuple(dict(row) for row in reader)
 
 
 @dataclass(frozen=True)
@@ -274,12 +205,12 @@ class _Index:
 @cache
 def _index(family: str) -> _Index:
     fam = _FAMILIES[family]
-    rows: dict[tuple[str, str], dict[str, str]] = {}
+    by_key: dict[tuple[str, str], dict[str, str]] = {}
     sizes: list[str] = []
     by_value: dict[Fraction, str] = {}
     by_dn: dict[int, str] = {}
     schedules: dict[str, list[str]] = {}
-    for row in _rows(fam.table):
+    for row in rows(fam.table):
         size = row[fam.size_column]
         schedule = fam.schedule_prefix + row[fam.schedule_column]
         if size not in schedules:
@@ -289,8 +220,10 @@ def _index(family: str) -> _Index:
             if fam.dn_column:
                 by_dn[int(row[fam.dn_column])] = size
         schedules[size].append(schedule)
-        rows[(size, schedule)] = row
-    return _Index(rows, tuple(sizes), by_value, by_dn, {k: tuple(v) for k, v in schedules.items()})
+        by_key[(size, schedule)] = row
+    return _Index(
+        by_key, tuple(sizes), by_value, by_dn, {k: tuple(v) for k, v in schedules.items()}
+    )
 
 
 # --- parsing --------------------------------------------------------------------------------
@@ -355,13 +288,6 @@ def _normalize_family(text: str) -> str:
 # --- messages -------------------------------------------------------------------------------
 
 
-def _quote_list(items: tuple[str, ...] | list[str]) -> str:
-    quoted = [f"'{item}'" for item in items]
-    if len(quoted) <= 1:
-        return "".join(quoted)
-    return ", ".join(quoted[:-1]) + " or " + quoted[-1]
-
-
 def _as_number(text: str, prefix: str = "") -> float | None:
     text = text.strip()
     if prefix and text.upper().startswith(prefix):
@@ -385,18 +311,7 @@ def _bracket(target: float | None, choices: tuple[str, ...], prefix: str = "") -
 def _suggest(
     value: str, choices: tuple[str, ...], target: float | None = None, prefix: str = ""
 ) -> tuple[str, ...]:
-    found = _bracket(target, choices, prefix)
-    if not found:
-        for match in difflib.get_close_matches(value, choices, n=3, cutoff=0.5):
-            if match not in found:
-                found.append(match)
-    return tuple(found[:3])
-
-
-def _sentence(head: str, suggestions: tuple[str, ...], defined: str) -> str:
-    if suggestions:
-        return f"{head}; did you mean {_quote_list(suggestions)}? {defined}."
-    return f"{head}; {defined[0].lower()}{defined[1:]}."
+    return tuple(_bracket(target, choices, prefix)[:3]) or close_matches(value, choices)
 
 
 def _size_phrase(family: _Family, size: str) -> str:
@@ -405,11 +320,6 @@ def _size_phrase(family: _Family, size: str) -> str:
     if family.name == "copper":
         return f"{size} in nominal"
     return f"NPS {size}"
-
-
-def _metres(millimetres: Fraction) -> float:
-    """Millimetres (exact decimal from the table) to the nearest float in metres."""
-    return float(millimetres / 1000)
 
 
 # --- pipes ----------------------------------------------------------------------------------
@@ -434,7 +344,7 @@ def _family(name: str | None, schedule: str) -> _Family:
         choices = families()
         suggestions = _suggest(_normalize_family(name), tuple(_FAMILY_ALIASES))
         suggestions = tuple(dict.fromkeys(_FAMILY_ALIASES[s] for s in suggestions))
-        message = _sentence(
+        message = sentence(
             f"'{name}' is not a pipe family", suggestions, f"Defined: {', '.join(choices)}"
         )
         raise CatalogLookupError(
@@ -465,7 +375,7 @@ def _size(fam: _Family, nominal_size: str) -> str:
             if fam.dn_column:
                 dns = tuple(f"DN {dn}" for dn in index.by_dn)
                 suggestions = _suggest(text, dns, float(value), prefix="DN")
-                message = _sentence(
+                message = sentence(
                     f"'{text}' is not a DN of {fam.noun}",
                     suggestions,
                     f"Defined: {', '.join(dns)}",
@@ -502,7 +412,7 @@ def _size(fam: _Family, nominal_size: str) -> str:
             defined += f", or DN {next(iter(index.by_dn))} to DN {list(index.by_dn)[-1]}"
         head = f"'{text}' is not a nominal size of {fam.noun}"
     raise CatalogLookupError(
-        _sentence(head, suggestions, defined),
+        sentence(head, suggestions, defined),
         kind="nominal_size",
         value=text,
         suggestions=suggestions,
@@ -552,12 +462,12 @@ def _lookup(family: str, size: str, schedule: str, given: str) -> PipeSize:
         family=family,
         nominal_size=size,
         schedule=schedule,
-        outside_diameter=_metres(od_mm),
-        wall_thickness=_metres(wall_mm),
-        inner_diameter=_metres(od_mm - 2 * wall_mm),
+        outside_diameter=metres(od_mm),
+        wall_thickness=metres(wall_mm),
+        inner_diameter=metres(od_mm - 2 * wall_mm),
         source=row["source"],
         table=fam.table,
-        min_wall_thickness=None if mean is None else _metres(tabulated_mm),
+        min_wall_thickness=None if mean is None else metres(tabulated_mm),
         bore_basis="outside diameter and wall as tabulated" if mean is None else mean[1],
         published=_printed(fam.table)
         + (
@@ -628,7 +538,7 @@ def _schedule_error(fam: _Family, size: str, schedule: str, given: str) -> Catal
             head += f" ({schedule} is a designation of {' and '.join(others)})"
     defined = f"Defined for {_size_phrase(fam, size)}: {', '.join(choices)}"
     return CatalogLookupError(
-        _sentence(head, suggestions, defined),
+        sentence(head, suggestions, defined),
         kind="schedule",
         value=given,
         suggestions=suggestions,
@@ -637,44 +547,3 @@ def _schedule_error(fam: _Family, size: str, schedule: str, given: str) -> Catal
 
 
 # --- roughness ------------------------------------------------------------------------------
-
-
-@cache
-def _roughness_rows() -> dict[str, dict[str, str]]:
-    return {row["material"]: row for row in _rows(ROUGHNESS_TABLE)}
-
-
-def materials() -> tuple[str, ...]:
-    """Materials with a tabulated new-pipe roughness."""
-    return tuple(_roughness_rows())
-
-
-@cache
-def roughness(material: str) -> Roughness:
-    """Absolute roughness of new pipe of ``material`` (``"commercial_steel"``, ``"pvc"``, ...)."""
-    rows = _roughness_rows()
-    key = re.sub(r"[\s-]+", "_", str(material).strip().lower())
-    key = _MATERIAL_ALIASES.get(key, key)
-    row = rows.get(key)
-    if row is None:
-        choices = materials()
-        suggestions = _suggest(key, choices + tuple(_MATERIAL_ALIASES))
-        suggestions = tuple(dict.fromkeys(_MATERIAL_ALIASES.get(s, s) for s in suggestions))
-        message = _sentence(
-            f"'{material}' is not a pipe material with a tabulated roughness",
-            suggestions,
-            f"Defined: {', '.join(choices)}",
-        )
-        raise CatalogLookupError(
-            message, kind="material", value=str(material), suggestions=suggestions, choices=choices
-        )
-    low, high = row["range_low_mm"], row["range_high_mm"]
-    return Roughness(
-        material=key,
-        value=_metres(Fraction(row["roughness_mm"])),
-        range=(_metres(Fraction(low)), _metres(Fraction(high))) if low and high else None,
-        description=row["description"],
-        source=row["source"],
-        table=ROUGHNESS_TABLE,
-        published=row["published"],
-    )

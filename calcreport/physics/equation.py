@@ -119,8 +119,11 @@ def equation(
     """Register a physics function as a printable, recomputable equation."""
 
     def register(func: Callable[..., Any]) -> Callable[..., Any]:
-        module = func.__module__.rsplit(".", 1)[-1]
-        name = f"{module}.{func.__name__}"
+        # Named by topic: the module under physics, or the package for a topic in several
+        # modules (physics.pump.curve.head_at is "pump.head_at").
+        parts = func.__module__.split(".")
+        topic = parts[parts.index("physics") + 1] if "physics" in parts[:-1] else parts[-1]
+        name = f"{topic}.{func.__name__}"
         params, unit = _docstring_units(func)
         _REGISTRY[name] = Equation(
             name=name,

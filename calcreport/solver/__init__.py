@@ -40,7 +40,7 @@ from calcreport.solver.operating import _lift_speed, _solve_case, _thermal_min_f
 from calcreport.solver.profile import _crest_title, _profile_state, _profile_states
 from calcreport.solver.pumpcurve import _pump_curve, _viscous
 from calcreport.solver.results import _status
-from calcreport.solver.states import Case, CurvePoints, Liquid
+from calcreport.solver.states import Case, CurvePoints, Liquid, Notes, Surfaces
 from calcreport.trace import Check, Trace, TraceBuilder, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
@@ -50,7 +50,7 @@ __all__ = ["solve"]
 def solve(model: Model) -> Trace:
     """Solve the pump system of ``model`` and return its trace."""
     b = TraceBuilder()
-    notes: list[str] = []
+    notes = Notes()
     _record_inputs(b, model)
     b.assume("Velocity at the source and destination liquid surfaces is zero (large vessels).")
     b.assume("Flow is steady, incompressible and isothermal; pipes run full.")
@@ -89,7 +89,7 @@ def solve(model: Model) -> Trace:
         else b.assume("No variable-speed drive: drive efficiency 1.", 1.0, "")
     )
     curve = _pump_curve(b, model)
-    surfaces = (p_baro, p_source, p_dest, exit_head)
+    surfaces = Surfaces(p_baro, p_source, p_dest, exit_head)
     cases = _cases(b, model)
     by_case: dict[str, dict[str, Any]] = {}
     found: list[Check] = []
@@ -125,7 +125,7 @@ def solve(model: Model) -> Trace:
     states: dict[str, route_pressure.State] = {}
     design_curve = curve
 
-    def run(case: Case, case_liquid: Liquid, case_surfaces: Any) -> dict[str, Any]:
+    def run(case: Case, case_liquid: Liquid, case_surfaces: Surfaces) -> dict[str, Any]:
         """One case solved, routed and checked (its state kept in ``states``)."""
         case_model = replace(model, pipes=case.pipes) if case.pipes else model
         case_curve, correction = _viscous(
@@ -147,7 +147,7 @@ def solve(model: Model) -> Trace:
         if case.temperature is not None:
             prefix = f"{case.id}."
             case_liquid = _liquid(b, model, p_baro, case.temperature, prefix)
-            case_surfaces = (
+            case_surfaces = Surfaces(
                 p_baro,
                 _surface_pressure(b, model.source, case_liquid, p_baro, prefix),
                 _surface_pressure(b, model.destination, case_liquid, p_baro, prefix),
@@ -253,7 +253,7 @@ def solve(model: Model) -> Trace:
         checks=found,
         references=dict(sorted(references.items())),
         assumptions=b.assumptions,
-        notes=list(dict.fromkeys(notes)),
+        notes=list(notes),
         given=b.given,
         solutions=b.solutions,
         cases=[{"id": c.id, "title": c.title} for c in cases],

@@ -8,7 +8,7 @@ from typing import Any
 
 from calcreport.model.schema import Given, Model
 from calcreport.physics import power
-from calcreport.solver.states import Case, Liquid
+from calcreport.solver.states import Case, Liquid, Notes
 from calcreport.trace import TraceBuilder, quantity, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
@@ -95,7 +95,7 @@ def _energy(
     case: Case,
     P_e: Given,
     profile: dict[str, dict[str, Any]],
-    notes: list[str],
+    notes: Notes,
 ) -> dict[str, Any] | None:
     """Annual energy and cost on the basis of the duty: continuous, fill, or a profile
     (``profile``: the solved states of its points, for throttled or variable-speed control)."""
@@ -200,7 +200,7 @@ def _duty_profile(
     case: Case,
     P_e: Given,
     profile: dict[str, dict[str, Any]],
-    notes: list[str],
+    notes: Notes,
 ) -> tuple[Given, Given, Given, Given, Given | None, dict[str, Any]] | None:
     """Energy over operation.profile: annual energy, time, specific energy, demand, the
     energy burnt throttling (None for other controls) and the rows.

@@ -17,12 +17,21 @@ from calcreport import catalog
 from calcreport.model.schema import Fitting, Given, Model, Pipe
 from calcreport.physics import fittings, friction, head, losses, pump
 from calcreport.solver import route_pressure
-from calcreport.solver.states import Case, Liquid
-from calcreport.trace import TraceBuilder
+from calcreport.solver.states import (
+    Case,
+    CaseHydraulics,
+    Evaluator,
+    FittingLoss,
+    Liquid,
+    PipeHydraulics,
+    Surfaces,
+)
 
 
 class _Sweep:
     """Evaluates the equations on arrays without recording steps."""
+
+    records = False
 
     def step(self, step_id: str, title: str, func: Any, case: str = "", **args: Any) -> Given:
         values = {
@@ -51,7 +60,7 @@ def _friction_factor_array(Re: Any, eD: Any) -> Any:
     return f
 
 
-def _diameter_change_k(ev: Any, case: Case, pipe: Pipe, ft: Fitting, index: int) -> Given:
+def _diameter_change_k(ev: Evaluator, case: Case, pipe: Pipe, ft: Fitting, index: int) -> Given:
     """K of an expander or reducer (Crane TP-410), referred to this pipe's velocity."""
     assert ft.other_diameter is not None
     here, other = pipe.inner_diameter, ft.other_diameter
@@ -84,7 +93,7 @@ def _diameter_change_k(ev: Any, case: Case, pipe: Pipe, ft: Fitting, index: int)
 
 
 def _catalog_k(
-    ev: Any,
+    ev: Evaluator,
     case: Case,
     pipe: Pipe,
     kind: str,
@@ -135,7 +144,7 @@ def _catalog_k(
 
 
 def _pipe(
-    ev: Any,
+    ev: Evaluator,
     case: Case,
     pipe: Pipe,
     flow: Given,
@@ -143,7 +152,7 @@ def _pipe(
     method: str = "darcy_weisbach",
     water_liquid: bool = True,
     fittings_method: str = "two_k",
-) -> tuple[dict[str, Given], list[route_pressure.FittingLoss]]:
+) -> tuple[PipeHydraulics, list[FittingLoss]]:
     """Velocity, Reynolds number, friction factor, friction and minor losses of one pipe,
     with the loss of each fitting item (where along the pipe it is taken is the route's)."""
     sid = case.sid
@@ -175,14 +184,14 @@ def _pipe(
         roughness=pipe.roughness,
         D=D,
     )
-    out = {"velocity": v, "reynolds": Re, "relative_roughness": eD}
+    out = PipeHydraulics(velocity=v, reynolds=Re, relative_roughness=eD)
     title = f"Darcy friction factor in {pipe.id}"
-    if isinstance(ev, TraceBuilder) and Re.value < friction.LAMINAR_LIMIT:
+    if ev.records and Re.value < friction.LAMINAR_LIMIT:
         f = ev.step(
             sid(f"{name}.friction_factor"), title + " (laminar)", friction.laminar, case.id, Re=Re
         )
     else:
-        if isinstance(ev, TraceBuilder):
+        if ev.records:
             out["friction_factor_explicit"] = ev.step(
                 sid(f"{name}.friction_factor_explicit"),
                 f"Explicit friction factor in {pipe.id} (cross-check)",
@@ -242,7 +251,7 @@ def _pipe(
         counts.append(ft.count)
     lift = catalog.check_valve_lift()
     for i, ft in enumerate(pipe.fittings, start=1):
-        if isinstance(ev, TraceBuilder) and ft.kind in lift and ft.K is None:
+        if ev.records and ft.kind in lift and ft.K is None:
             out["check_valve_min_velocity"] = ev.step(
                 sid(f"{name}.fitting[{i}].full_lift_velocity"),
                 f"Velocity for full disc lift of the {ft.label} in {pipe.id}",
@@ -285,7 +294,7 @@ def _pipe(
     }
     rated = list(heads.values())
     items = [
-        route_pressure.FittingLoss(ft, by_fitting.get(i), heads.get(i))
+        FittingLoss(ft, by_fitting.get(i), heads.get(i))
         for i, ft in enumerate(pipe.fittings, start=1)
     ]
     if rated:
@@ -309,13 +318,13 @@ def _pipe(
 
 
 def _hydraulics(
-    ev: Any,
+    ev: Evaluator,
     model: Model,
     case: Case,
     liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
+    surfaces: Surfaces,
     flow: Given | None = None,
-) -> dict[str, Any]:
+) -> CaseHydraulics:
     """Pipes, heads, TDH and NPSHa of one case at ``flow`` (default: the case's).
 
     ``surfaces`` holds the barometric pressure, the gauge pressures on the
@@ -351,11 +360,11 @@ def _hydraulics(
         for p in model.pipes
     }
     pipes = {ident: values for ident, (values, _) in solved.items()}
-    out: dict[str, Any] = {
-        "pipes": pipes,
-        "fittings": {ident: items for ident, (_, items) in solved.items()},
-        "branch_flow": q_branch,
-    }
+    out = CaseHydraulics(
+        pipes=pipes,
+        fittings={ident: items for ident, (_, items) in solved.items()},
+        branch_flow=q_branch,
+    )
     if case.crest is not None:
         out.update(_crest_heads(ev, model, case, liquid, p_source, out))
     else:
@@ -387,18 +396,18 @@ def _hydraulics(
 
 
 def _system_heads(
-    ev: Any,
+    ev: Evaluator,
     model: Model,
     case: Case,
     liquid: Liquid,
     p_dest: Given,
     p_source: Given,
     exit_head: Given | None,
-    pipes: dict[str, dict[str, Given]],
-) -> dict[str, Given]:
+    pipes: dict[str, PipeHydraulics],
+) -> CaseHydraulics:
     """Static and pressure heads, the losses and the TDH from surface to surface."""
     sid = case.sid
-    out: dict[str, Given] = {}
+    out = CaseHydraulics()
     out["static_head"] = ev.step(
         sid("system.static_head"),
         "Static head",
@@ -455,8 +464,8 @@ def _system_heads(
 
 
 def _crest_heads(
-    ev: Any, model: Model, case: Case, liquid: Liquid, p_source: Given, h: dict[str, Any]
-) -> dict[str, Given]:
+    ev: Evaluator, model: Model, case: Case, liquid: Liquid, p_source: Given, h: CaseHydraulics
+) -> CaseHydraulics:
     """The heads of a state whose crest controls the flow: the pump lifts to the crest,
     held at atmospheric pressure; the line beyond it runs part-full."""
     assert case.crest is not None

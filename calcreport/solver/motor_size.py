@@ -10,7 +10,7 @@ from typing import Any
 from calcreport import catalog
 from calcreport.model.schema import Model
 from calcreport.physics import motor, power
-from calcreport.solver.states import CurvePoints, Liquid
+from calcreport.solver.states import CurvePoints, Liquid, Notes
 from calcreport.trace import TraceBuilder, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
@@ -79,7 +79,7 @@ def _motor_loading(
 
 
 def _class_efficiency(
-    b: TraceBuilder, model: Model, motor_rating: dict[str, Any], notes: list[str]
+    b: TraceBuilder, model: Model, motor_rating: dict[str, Any], notes: Notes
 ) -> Model:
     """The model with the motor efficiency of its class at the selected rating."""
     table = catalog.motor_efficiency(model.motor_class)

@@ -18,7 +18,16 @@ from calcreport.solver import route_pressure
 from calcreport.solver.energy import _per_pump_power, _power
 from calcreport.solver.hydraulics import _hydraulics, _Sweep
 from calcreport.solver.results import _results
-from calcreport.solver.states import CURVE_POINTS, Case, CurvePoints, Liquid, _flow_span
+from calcreport.solver.states import (
+    CURVE_POINTS,
+    Case,
+    CaseHydraulics,
+    CurvePoints,
+    Liquid,
+    Notes,
+    Surfaces,
+    _flow_span,
+)
 from calcreport.trace import TraceBuilder, quantity, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
@@ -28,10 +37,10 @@ def _solve_case(
     model: Model,
     case: Case,
     liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
+    surfaces: Surfaces,
     curve: CurvePoints | None,
     eta_drive: Given,
-    notes: list[str],
+    notes: Notes,
     states: dict[str, route_pressure.State],
 ) -> dict[str, Any]:
     """Hydraulics, operating point, NPSH and power of one case (its state kept in ``states``)."""
@@ -42,11 +51,13 @@ def _solve_case(
         if operating is not None:
             case = replace(case, flow=operating)
     h = _hydraulics(b, model, case, liquid, surfaces)
-    results = _results(h, liquid, surfaces[0], model, case.flow)
+    results = _results(h, liquid, surfaces.barometric, model, case.flow)
     submergence = _intake(b, model, case, h)
     if submergence:
         results["intake"] = submergence
-    results["profile"] = route_pressure.profile(model, case, liquid, h, surfaces[1], surfaces[2])
+    results["profile"] = route_pressure.profile(
+        model, case, liquid, h, surfaces.source, surfaces.destination
+    )
     states[case.id] = route_pressure.State(case, liquid, surfaces, h, results["profile"])
     eta_pump = model.pump.efficiency
     if operating is not None and curve is not None:
@@ -88,7 +99,7 @@ def _npsh_curves(model: Model, curve: CurvePoints) -> dict[str, Any]:
     }
 
 
-def _intake(b: TraceBuilder, model: Model, case: Case, h: dict[str, Any]) -> dict[str, Any] | None:
+def _intake(b: TraceBuilder, model: Model, case: Case, h: CaseHydraulics) -> dict[str, Any] | None:
     """Submergence of the suction inlet at the lowest level against ANSI/HI 9.8's minimum."""
     first = model.pipes[0]
     if first.line != "suction" or first.elevation_start is None:
@@ -128,7 +139,7 @@ def _system_curve(
     model: Model,
     case: Case,
     liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
+    surfaces: Surfaces,
     curve: CurvePoints | None,
 ) -> tuple[dict[str, Any], dict[str, Any]]:
     """The system curve over the flow range, and the system at the required flow.
@@ -164,8 +175,8 @@ def _commissioning(
     model: Model,
     case: Case,
     liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
-    h: dict[str, Any],
+    surfaces: Surfaces,
+    h: CaseHydraulics,
     curve: CurvePoints | None,
     H: Given | None = None,
 ) -> dict[str, Any]:
@@ -187,7 +198,7 @@ def _commissioning(
         b,
         case,
         liquid,
-        surfaces[1],
+        surfaces.source,
         z_p,
         "",
         "at the operating point",
@@ -213,7 +224,7 @@ def _commissioning(
             b,
             case,
             liquid,
-            surfaces[1],
+            surfaces.source,
             z_p,
             "shutoff_",
             "at shutoff",
@@ -273,9 +284,9 @@ def _operating_flow(
     model: Model,
     case: Case,
     liquid: Liquid,
-    surfaces: tuple[Given, Given, Given, Given | None],
+    surfaces: Surfaces,
     curve: CurvePoints,
-    notes: list[str],
+    notes: Notes,
 ) -> Given | None:
     flows, heads = curve.values("flow"), curve.values("head")
     n = case.running.value
@@ -317,7 +328,7 @@ def _operating_flow(
 
 
 def _operating_point(
-    b: TraceBuilder, model: Model, case: Case, curve: CurvePoints, h: dict[str, Any]
+    b: TraceBuilder, model: Model, case: Case, curve: CurvePoints, h: CaseHydraulics
 ) -> tuple[dict[str, Any], Given | None]:
     sid = case.sid
     several = case.running.value > 1
@@ -493,7 +504,7 @@ def _regions(b: TraceBuilder, model: Model, Q_bep: Given) -> dict[str, Any]:
 
 
 def _thermal_min_flow(
-    b: TraceBuilder, model: Model, liquid: Liquid, curve: CurvePoints | None, notes: list[str]
+    b: TraceBuilder, model: Model, liquid: Liquid, curve: CurvePoints | None, notes: Notes
 ) -> dict[str, Any] | None:
     """The least flow at which the pump's losses warm the liquid by no more than the limit.
 

@@ -12,7 +12,7 @@ from typing import TYPE_CHECKING, Any
 
 from calcreport.model.schema import Given, Model, Pipe
 from calcreport.physics import head, losses, pump, route, surge
-from calcreport.solver.states import DISCHARGE_FLANGE, SUCTION_FLANGE, CurvePoints
+from calcreport.solver.states import DISCHARGE_FLANGE, SUCTION_FLANGE, CurvePoints, Notes
 from calcreport.solver.surge_screen import line_nodes
 from calcreport.trace import TraceBuilder, quantity
 from calcreport.trace import bound as _q  # a result naming its source
@@ -35,7 +35,7 @@ class PressureEnvelope:
         self,
         states: dict[str, State],
         curve: CurvePoints | None,
-        notes: list[str],
+        notes: Notes,
     ) -> dict[str, Any]:
         """Highest and lowest pressures over every state, ratings, high points and crest."""
         model = self.model
@@ -87,7 +87,7 @@ class PressureEnvelope:
         densest = max(states.values(), key=lambda st: st.liquid.density.value)
         H_max, basis = self._max_head(curve, notes)
         z_s = model.source.level_high or model.source.level
-        p_s = design.surfaces[1]
+        p_s = design.surfaces.source
         rho = densest.liquid.density
 
         def static(z: float, side: str) -> float:
@@ -258,7 +258,7 @@ class PressureEnvelope:
             entry["rating_grade"] = quantity(z + rating / (rho * losses.G), "m")
         return entry
 
-    def _max_head(self, curve: CurvePoints | None, notes: list[str]) -> tuple[Given | None, str]:
+    def _max_head(self, curve: CurvePoints | None, notes: Notes) -> tuple[Given | None, str]:
         """Highest head of the pump(s) on the fastest curve: the shutoff head of a rising curve."""
         if curve is None:
             return None, "no pump curve"

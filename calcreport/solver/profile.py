@@ -70,7 +70,7 @@ def _profile_state(
     sid, pid = point.sid, point.id
     liquid, surfaces = design.liquid, design.surfaces
     h = _hydraulics(b, model, point, liquid, surfaces)
-    result = _results(h, liquid, surfaces[0], model, point.flow)
+    result = _results(h, liquid, surfaces.barometric, model, point.flow)
     submergence = _intake(b, model, point, h)
     if submergence:
         result["intake"] = submergence
@@ -142,7 +142,13 @@ def _profile_state(
     # Throttled, the valve is taken just past the pump: its flange sees the pump's own head.
     throttled = H_pump is not H_sys
     result["profile"] = route_pressure.profile(
-        model, point, liquid, h, surfaces[1], surfaces[2], H_pump if throttled else None
+        model,
+        point,
+        liquid,
+        h,
+        surfaces.source,
+        surfaces.destination,
+        H_pump if throttled else None,
     )
     states[pid] = route_pressure.State(
         point, liquid, surfaces, h, result["profile"], H_pump if throttled else None

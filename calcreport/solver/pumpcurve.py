@@ -8,7 +8,7 @@ from typing import Any
 
 from calcreport.model.schema import Given, Model
 from calcreport.physics import pump, viscous
-from calcreport.solver.states import Case, CurvePoints, Liquid
+from calcreport.solver.states import Case, CurvePoints, Liquid, Notes
 from calcreport.trace import TraceBuilder
 from calcreport.trace import bound as _q  # a result naming its source
 
@@ -62,7 +62,7 @@ def _viscous(
     case: Case,
     liquid: Liquid,
     done: dict[tuple[str, float], tuple[CurvePoints, dict[str, Any]]],
-    notes: list[str],
+    notes: Notes,
 ) -> tuple[CurvePoints | None, dict[str, Any] | None]:
     """The water curve corrected for the liquid's viscosity (ANSI/HI 9.6.7) where B > 1.
 

@@ -6,7 +6,7 @@ from typing import Any
 
 from calcreport.model.schema import Given, Model
 from calcreport.physics import friction
-from calcreport.solver.states import Liquid
+from calcreport.solver.states import CaseHydraulics, Liquid
 from calcreport.trace import Check
 from calcreport.trace import bound as _q  # a result naming its source
 
@@ -38,7 +38,7 @@ def _status(model: Model, results: dict[str, Any], found: list[Check]) -> dict[s
 
 
 def _results(
-    h: dict[str, Any], liquid: Liquid, p_baro: Given, model: Model, flow: Given
+    h: CaseHydraulics, liquid: Liquid, p_baro: Given, model: Model, flow: Given
 ) -> dict[str, Any]:
     pipes = {}
     for pipe in model.pipes:

@@ -31,7 +31,14 @@ from calcreport.solver.pressure_envelope import (
     PressureEnvelope,
     _head_at,
 )
-from calcreport.solver.states import DISCHARGE_FLANGE, SUCTION_FLANGE
+from calcreport.solver.states import (
+    DISCHARGE_FLANGE,
+    SUCTION_FLANGE,
+    CaseHydraulics,
+    Evaluator,
+    FittingLoss,
+    Surfaces,
+)
 from calcreport.solver.surge_screen import SurgeScreening, line_nodes
 from calcreport.trace import TraceBuilder
 from calcreport.trace import bound as _q  # a result naming its source
@@ -61,22 +68,6 @@ def placement(ft: Fitting) -> str:
     if ft.kind == "exit" or (not ft.kind and EXIT_NOTE.search(ft.note)):
         return "exit"
     return "start"
-
-
-@dataclass(frozen=True)
-class FittingLoss:
-    """One fitting item of a pipe in one state: its coefficient, or its rated head loss."""
-
-    fitting: Fitting
-    K: Given | None  # resistance coefficient of one item (None for a rated loss)
-    head: Given | None  # head loss of a rated item (None for a coefficient)
-
-    def value(self, hv: float) -> float:
-        """Its head loss at velocity head ``hv`` [m]."""
-        if self.head is not None:
-            return float(self.head.value)
-        assert self.K is not None
-        return float(self.K.value) * float(self.fitting.count.value) * hv
 
 
 @dataclass(frozen=True)
@@ -130,8 +121,8 @@ class State:
 
     case: Case
     liquid: Liquid
-    surfaces: tuple[Given, Given, Given, Given | None]
-    h: dict[str, Any]
+    surfaces: Surfaces
+    h: CaseHydraulics
     profile: dict[str, Any]
     pump_head: Given | None = None  # the pump's own head where a valve burns part of it
 
@@ -157,7 +148,7 @@ def profile(
     model: Model,
     case: Case,
     liquid: Liquid,
-    h: dict[str, Any],
+    h: CaseHydraulics,
     p_source: Given,
     p_dest: Given,
     pump_head: Given | None = None,
@@ -287,10 +278,10 @@ def _elevation_value(pipe: Pipe, x: float) -> float | None:
 
 
 def head_loss_to(
-    ev: Any,
+    ev: Evaluator,
     model: Model,
     case: Case,
-    h: dict[str, Any],
+    h: CaseHydraulics,
     index: int,
     node: dict[str, Any],
     where: str,
@@ -443,7 +434,7 @@ class Route(PressureEnvelope, SurgeScreening):
             route.node_pressure_head,
             case.id,
             z_s=case.source_level,
-            p_s=st.surfaces[1],
+            p_s=st.surfaces.source,
             rho=st.liquid.density,
             H=lift,
             h_L=h_L,
@@ -462,7 +453,7 @@ class Route(PressureEnvelope, SurgeScreening):
                 route.vapour_limit_head,
                 st.case.id,
                 p_v=st.liquid.vapor_pressure,
-                p_baro=st.surfaces[0],
+                p_baro=st.surfaces.barometric,
                 rho=st.liquid.density,
             )
         return self._vapour[st.case.id]

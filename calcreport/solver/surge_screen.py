@@ -12,6 +12,7 @@ from typing import TYPE_CHECKING, Any
 
 from calcreport.model.schema import Given, Model, Pipe, Surge
 from calcreport.physics import head, surge, water
+from calcreport.solver.states import Notes
 from calcreport.trace import TraceBuilder
 from calcreport.trace import bound as _q  # a result naming its source
 
@@ -44,7 +45,7 @@ class SurgeScreening:
     downsurge: str
     _restraint: dict[tuple[str, str], Given]
 
-    def surge_screening(self, states: dict[str, State], notes: list[str]) -> dict[str, Any] | None:
+    def surge_screening(self, states: dict[str, State], notes: Notes) -> dict[str, Any] | None:
         """Every credible event screened over every state: a pump trip always (power can
         fail on any pumped line), and the event that [surge] names.
 
@@ -291,8 +292,8 @@ class SurgeScreening:
             "Absolute pressure of the liquid for its bulk modulus (source surface)",
             head.absolute_pressure,
             case.id,
-            p_baro=st.surfaces[0],
-            p_g=st.surfaces[1],
+            p_baro=st.surfaces.barometric,
+            p_g=st.surfaces.source,
         )
         return b.step(
             case.sid("surge.bulk_modulus"),

@@ -11,6 +11,8 @@ import re
 from typing import Any
 
 from calcreport import catalog
+from calcreport.catalog import materials
+from calcreport.catalog.lookup import CatalogLookupError
 from calcreport.model.schema import (
     Component,
     Fitting,
@@ -224,13 +226,10 @@ def _components(r: _Reader, raw: Any, pipes: tuple[Pipe, ...]) -> tuple[Componen
 def _material_name(data: dict[str, Any]) -> str:
     """The catalog's name of the pipe's material ("" when none is given or it is unknown:
     the roughness lookup reports that)."""
-    from calcreport.catalog.pipes import CatalogLookupError
-    from calcreport.catalog.pipes import roughness as _rough
-
     if not isinstance(data.get("material"), str):
         return ""
     try:
-        return _rough(data["material"]).material
+        return materials.roughness(data["material"]).material
     except CatalogLookupError:
         return ""
 
@@ -335,8 +334,6 @@ def _catalog_diameter(
 def _catalog_roughness(
     r: _Reader, data: dict[str, Any], path: str, sources: dict[str, str]
 ) -> Given | None:
-    from calcreport.catalog import pipes
-
     if "material" not in data:
         return None
     if "roughness" in data:
@@ -347,7 +344,7 @@ def _catalog_roughness(
         r.problem(f"{path}.material", f"Expected a material name; got {as_written(material)}.")
         return None
     try:
-        found = pipes.roughness(material)
+        found = materials.roughness(material)
     except LookupError as exc:
         r.problem(f"{path}.material", str(exc))
         return None
