@@ -244,7 +244,7 @@ def test_a_drooping_curve_is_judged_at_the_highest_static_head_of_any_case():
     """The drooping curve of tests/test_route.py (42 m at shutoff, 42.5 m at its peak) against
     23 m of static head in the design case passes; a destination range reaching 43 m of static
     head in another case exceeds the shutoff head there: a review naming that case."""
-    from test_route import CURVE, QUIET, ROUTE
+    from tests.solver.test_route import CURVE, QUIET, ROUTE
 
     base = ROUTE.replace("CREST", "26.0")
     design_only = solve(loads((base + CURVE + QUIET).encode()))

@@ -1,12 +1,12 @@
 """Viscosity correction of a pump's water curve (ANSI/HI 9.6.7)."""
 
 import pytest
-from test_calc import CASE, _analytic_curve
 
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
 from calcreport.physics import viscous
 from calcreport.solver import solve
+from tests.solver.test_calc import CASE, _analytic_curve
 
 GPM = 6.30901964e-5  # m^3/s per US gallon per minute (NIST SP 811)
 FT = 0.3048  # m per foot (NIST SP 811)

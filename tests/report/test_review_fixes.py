@@ -15,7 +15,7 @@ from calcreport.model.loader import load
 from calcreport.solver import solve
 
 pypdf = pytest.importorskip("pypdf")
-EXAMPLES = Path(__file__).parent.parent / "input_examples"
+EXAMPLES = Path(__file__).parents[2] / "input_examples"
 
 
 @pytest.fixture(scope="module")
@@ -50,9 +50,8 @@ def test_a_case_names_only_the_level_ranges_given():
 
 
 def _route(extra_pump: str = "", extra: str = ""):
-    from test_route import QUIET, ROUTE
-
     from calcreport.model.loader import loads
+    from tests.solver.test_route import QUIET, ROUTE
 
     text = ROUTE.replace("CREST", "26.0").replace('[pump]\nelevation = "0 m"', extra_pump)
     return solve(loads((text + QUIET + extra).encode()))
@@ -126,7 +125,7 @@ def test_every_iec_rating_has_its_class_efficiency():
 
 
 def test_catalog_provenance_cites_no_notes_outside_the_project():
-    root = Path(__file__).parent.parent / "calcreport" / "catalog"
+    root = Path(__file__).parents[2] / "calcreport" / "catalog"
     for path in root.iterdir():
         if path.suffix in (".csv", ".toml"):
             text = path.read_text(encoding="utf-8")
@@ -156,7 +155,7 @@ def test_concrete_roughness_is_a_typical_value_with_its_range():
 
 
 def test_the_conclusion_names_the_state_the_duty_is_decided_in(tmp_path):
-    from test_calc import CASE, _analytic_curve
+    from tests.solver.test_calc import CASE, _analytic_curve
 
     text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
     text += '[surge]\npump_stop_time = "600 s"\n'  # a slow trip: a pass, so a conclusion of it
@@ -266,9 +265,8 @@ def test_default_limits_of_a_us_report_are_customary_values_and_say_so():
 )
 def test_working_lines_name_the_liquid_in_words_not_library_codes(kind, words):
     pytest.importorskip("CoolProp")
-    from test_integrity import BASE
-
     from calcreport.model.loader import loads
+    from tests.tools.test_integrity import BASE
 
     assert 'kind = "water"' in BASE
     trace = solve(loads(BASE.replace('kind = "water"', kind).encode())).to_json()
@@ -284,7 +282,7 @@ def test_working_lines_name_the_liquid_in_words_not_library_codes(kind, words):
 def _reproduction_keys():
     import tomllib
 
-    root = Path(__file__).parent.parent / "calcreport" / "catalog"
+    root = Path(__file__).parents[2] / "calcreport" / "catalog"
     with (root / "sources.toml").open("rb") as handle:
         return set(tomllib.load(handle)["reproductions"])
 
@@ -304,7 +302,7 @@ def test_printed_catalog_provenance_names_primary_sources_only():
 
 
 def test_a_pe_pipe_report_states_the_bore_basis_and_no_reproduction(tmp_path):
-    from test_integrity import BASE
+    from tests.tools.test_integrity import BASE
 
     old = 'length = "150 m"\ninner_diameter = "102.26 mm"\nroughness = "0.045 mm"'
     assert old in BASE

@@ -10,11 +10,11 @@ H = 42 + 0.2q - 0.02q^2, eta = 0.78[1 - ((q - 22)/22)^2]) and the affinity laws
 import math
 
 import pytest
-from test_calc import CASE, _analytic_curve
 
 from calcreport.model.loader import loads
 from calcreport.physics import power
 from calcreport.solver import solve
+from tests.solver.test_calc import CASE, _analytic_curve
 
 G = 9.80665
 SYSTEM = {10.0: 25.5289, 15.0: 28.4685, 20.0: 32.4977}  # L/s -> m (section 11)

@@ -11,7 +11,7 @@ import pytest
 
 import calcreport
 
-ROOT = Path(__file__).parent.parent
+ROOT = Path(__file__).parents[2]
 PACKAGE = Path(calcreport.__file__).parent
 
 

@@ -1,13 +1,13 @@
 """Darby's three-K method: the catalog against fluids' transcription, and its use."""
 
 import pytest
-from test_calc import CASE
 
 from calcreport import catalog
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
 from calcreport.physics import fittings
 from calcreport.solver import solve
+from tests.solver.test_calc import CASE
 
 fluids = pytest.importorskip("fluids")
 

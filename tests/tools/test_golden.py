@@ -8,7 +8,7 @@ so and skips rather than failing on them.
 
 Refresh after a change that is meant to change an output, and say why in the commit::
 
-    python tests/test_golden.py --refresh
+    python -m tests.tools.test_golden --refresh
 """
 
 from __future__ import annotations
@@ -21,7 +21,7 @@ from pathlib import Path
 
 import pytest
 
-GOLDEN = Path(__file__).parent / "golden" / "examples.json"
+GOLDEN = Path(__file__).parents[1] / "golden" / "examples.json"
 DEPENDENCIES = ("numpy", "scipy", "matplotlib", "reportlab", "pint", "jinja2", "CoolProp")
 OUTPUTS = (".trace.json", ".pdf", ".pages.json")
 
@@ -54,9 +54,8 @@ def test_every_example_output_is_byte_for_byte_the_golden_one(built_examples):
 def _refresh() -> None:
     import tempfile
 
-    from conftest import example_inputs
-
     from calcreport.cli import main
+    from tests.conftest import example_inputs
 
     with tempfile.TemporaryDirectory() as out:
         folders = {}
@@ -71,6 +70,5 @@ def _refresh() -> None:
 
 if __name__ == "__main__":
     if sys.argv[1:] != ["--refresh"]:
-        raise SystemExit("usage: python tests/test_golden.py --refresh")
-    sys.path.insert(0, str(Path(__file__).parent))
+        raise SystemExit("usage: python -m tests.tools.test_golden --refresh")
     _refresh()

@@ -24,7 +24,7 @@ from calcreport.recheck import SCOPE, recheck, recheck_file, render_text
 from calcreport.solver import solve
 from calcreport.tracefile import read_trace
 
-ROOT = Path(__file__).parent.parent
+ROOT = Path(__file__).parents[2]
 EXAMPLES = sorted((ROOT / "input_examples").glob("*.toml"))
 PUMP = ROOT / "input_examples" / "cooling_water_selected_pump.toml"
 

@@ -9,7 +9,7 @@ from calcreport.model.loader import loads
 from calcreport.physics.equation import lookup
 from calcreport.solver import solve
 
-EXAMPLES = Path(__file__).parent.parent / "input_examples"
+EXAMPLES = Path(__file__).parents[2] / "input_examples"
 
 # The project's own end-to-end check case, recomputed independently with fluids 1.3.1
 # (Colebrook) and IAPWS-95 water properties: water 20 degC, open tanks at sea level,

@@ -1,12 +1,12 @@
 """Other liquids (CoolProp) against handbook values, and their use in a solve."""
 
 import pytest
-from test_calc import CASE
 
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
 from calcreport.physics import liquids
 from calcreport.solver import solve
+from tests.solver.test_calc import CASE
 
 pytest.importorskip("CoolProp")
 

@@ -15,7 +15,7 @@ from calcreport.errors import TraceError
 from calcreport.model.loader import loads
 from calcreport.solver import solve
 
-ROOT = Path(__file__).parent.parent
+ROOT = Path(__file__).parents[2]
 EXAMPLE = ROOT / "input_examples" / "reservoir_fill_si.toml"
 PUMP = ROOT / "input_examples" / "cooling_water_selected_pump.toml"
 

@@ -20,8 +20,8 @@ import pytest
 from calcreport.errors import InputError
 from calcreport.model.loader import load, loads
 
-EXAMPLES = Path(__file__).parent.parent / "input_examples"
-STARTER = Path(__file__).parent.parent / "calcreport" / "templates" / "starter.toml"
+EXAMPLES = Path(__file__).parents[2] / "input_examples"
+STARTER = Path(__file__).parents[2] / "calcreport" / "templates" / "starter.toml"
 
 # Every quantity string below is unique in the text, so one replacement
 # changes exactly one key.

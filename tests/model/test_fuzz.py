@@ -18,7 +18,7 @@ from hypothesis import strategies as st
 
 from calcreport.cli import main
 
-EXAMPLES = sorted((Path(__file__).parent.parent / "input_examples").glob("*.toml"))
+EXAMPLES = sorted((Path(__file__).parents[2] / "input_examples").glob("*.toml"))
 SOURCES = [p.read_text(encoding="utf-8") for p in EXAMPLES]
 # Every optional block at once, so corruptions reach the interactions between them.
 SOURCES.append(

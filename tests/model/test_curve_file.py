@@ -10,7 +10,7 @@ from calcreport.errors import InputError
 from calcreport.model.loader import load
 from calcreport.solver import solve
 
-EXAMPLE = Path(__file__).parent.parent / "input_examples" / "cooling_water_selected_pump.toml"
+EXAMPLE = Path(__file__).parents[2] / "input_examples" / "cooling_water_selected_pump.toml"
 CSV = """# the example's own curve, as a vendor file
 flow [L/s],head [m],efficiency [-],npsh_required [m]
 0,36.0,0.0,1.6

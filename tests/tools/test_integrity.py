@@ -17,7 +17,7 @@ from calcreport.errors import InputError
 from calcreport.model.loader import load, loads
 from calcreport.units import MAX_QUANTITY_CHARS, UnitProblem, parse
 
-EXAMPLES = Path(__file__).parent.parent / "input_examples"
+EXAMPLES = Path(__file__).parents[2] / "input_examples"
 BASE = (EXAMPLES / "check_case.toml").read_text(encoding="utf-8")
 
 

@@ -13,7 +13,7 @@ from calcreport.cli import main
 
 pypdf = pytest.importorskip("pypdf")
 
-EXAMPLES = Path(__file__).parent.parent / "input_examples"
+EXAMPLES = Path(__file__).parents[2] / "input_examples"
 
 
 @pytest.fixture(scope="module")

@@ -23,7 +23,7 @@ from calcreport.model.loader import load, loads
 from calcreport.report import charts
 from calcreport.solver import solve
 
-ROOT = Path(__file__).parent.parent
+ROOT = Path(__file__).parents[2]
 EXAMPLES = {
     "si": ROOT / "input_examples" / "reservoir_fill_si.toml",
     "us": ROOT / "input_examples" / "process_transfer_us.toml",

@@ -1,11 +1,11 @@
 """Aged-pipe and dirty-strainer cases, on the end-to-end check case of test_calc."""
 
 import pytest
-from test_calc import CASE
 
 from calcreport.errors import InputError
 from calcreport.model.loader import loads
 from calcreport.solver import solve
+from tests.solver.test_calc import CASE
 
 fluids = pytest.importorskip("fluids")
 
@@ -156,7 +156,7 @@ def test_duty_margin_is_an_explicit_project_criterion():
 
 def test_motor_efficiency_from_its_class_at_the_selected_rating():
     # IEC 60034-30-1 IE3, 4-pole 50 Hz (from memory): 30 kW 93.6 %.
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     text = CASE.replace("efficiency = 0.78\n", "").replace(
         "[motor]\nefficiency = 0.92", '[motor]\nefficiency_class = "IE3"'
@@ -177,7 +177,7 @@ def test_motor_efficiency_from_its_class_at_the_selected_rating():
 def test_motor_derated_for_a_high_site():
     # IEC 60034-1: rated output up to 1000 m and 40 degC. At 1500 m without a derating the
     # check asks for one; with k = 0.8 the rating must cover P_peak / 0.8.
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     base = CASE.replace("efficiency = 0.78\n", "").replace(
         "[source]", '[site]\nelevation = "1500 m"\n[source]'
@@ -205,7 +205,7 @@ def test_thermal_minimum_flow_where_the_rise_reaches_the_limit():
     # dT = g H (1 - eta) / (c_p eta). On the section-11 curve, the flow where dT = 8 K
     # (default, common practice) and, with a 0.05 K project limit, a higher one that the
     # lowest operating flow must still clear.
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     text = CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()
     t = solve(loads(text.encode()))
@@ -227,7 +227,7 @@ def test_each_pumps_branch_carries_its_own_flow():
     # Two identical pumps in parallel, each with its own discharge branch (NPS 4, 5 m,
     # K 2.5) ahead of the common line: the branch carries Q/2 and adds its loss at that
     # flow to the head each pump must give (Darcy-Weisbach with fluids' Colebrook).
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     branch = (
         '[[pipe]]\nid = "B1"\nside = "discharge_branch"\nlength = "5 m"\n'
@@ -257,7 +257,7 @@ def test_each_pumps_branch_carries_its_own_flow():
 def test_each_pumps_own_intake_carries_its_own_flow():
     # Two pumps in parallel, each drawing from the sump through its own suction branch
     # with a 300 mm bell: each bell carries Q/2. ANSI/HI 9.8-1998 eq. 9.8-1 as above.
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     text = (
         CASE.replace("efficiency = 0.78\n", "count = 2\n")
@@ -295,7 +295,7 @@ def test_viscous_liquid_corrects_the_water_curve():
     # 0.1 Pa s and 880 kg/m^3 on the section-11 pump at 2900 rpm.
     import math
 
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     oil = CASE.replace(
         '[fluid]\ntemperature = "20 degC"',
@@ -343,7 +343,7 @@ def test_viscous_liquid_corrects_the_water_curve():
 
 
 def test_water_needs_no_viscosity_correction():
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     t = solve(loads((CASE.replace("efficiency = 0.78\n", "") + _analytic_curve()).encode()))
     assert "viscous_correction" not in t.results
@@ -362,7 +362,7 @@ def test_cold_glycol_below_freezing_water_solves():
 
 
 def test_motor_is_sized_on_the_viscous_curve():
-    from test_calc import _analytic_curve
+    from tests.solver.test_calc import _analytic_curve
 
     curve = _analytic_curve(speed='speed = "2900 rpm"\n')
     water = solve(loads((CASE.replace("efficiency = 0.78\n", "") + curve).encode()))

@@ -17,12 +17,12 @@ import sys
 from pathlib import Path
 
 import pytest
-from test_loader import BAD, BAD_IDS, BASE, Bad, line_of, variant
 
 from calcreport import __version__
 from calcreport.cli import main
+from tests.model.test_loader import BAD, BAD_IDS, BASE, Bad, line_of, variant
 
-ROOT = Path(__file__).parent.parent
+ROOT = Path(__file__).parents[2]
 EXAMPLE = ROOT / "input_examples" / "check_case.toml"
 STARTER = ROOT / "calcreport" / "templates" / "starter.toml"
 VALID = [EXAMPLE, STARTER]

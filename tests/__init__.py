@@ -1,0 +1,1 @@
+"""calcreport's tests, one folder a stage of the pipeline."""

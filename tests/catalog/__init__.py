@@ -1,0 +1,1 @@
+"""The catalog's tables against the published tables."""

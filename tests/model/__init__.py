@@ -1,0 +1,1 @@
+"""Reading the input: quantities, the loader's messages, curve files, corrupted inputs."""

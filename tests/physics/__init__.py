@@ -1,0 +1,1 @@
+"""Physics modules against published values and reference libraries."""

@@ -1,0 +1,1 @@
+"""The PDF report and its charts, read as a reviewer would."""

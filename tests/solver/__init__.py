@@ -1,0 +1,1 @@
+"""The solve stage end to end: cases, states, energy, route and surge."""
