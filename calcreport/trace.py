@@ -25,6 +25,7 @@ from calcreport.physics.equation import Equation, lookup, registered
 from calcreport.units import fmt, pretty_unit
 
 __all__ = [
+    "DESIGN_CASE",
     "FORMAT",
     "Argument",
     "Check",
@@ -36,6 +37,7 @@ __all__ = [
 ]
 
 FORMAT = "calcreport-trace/1"
+DESIGN_CASE = "C1"  # the design case's id: its steps have plain ids, other cases' "C2.…"
 STATUSES = ("fail", "review", "pass")
 
 

@@ -1,23 +1,29 @@
-"""Trace files: read one strictly and check its shape (used by recheck, diff and build).
+"""Trace files: read one strictly and check its shape (used by recheck, diff and build), and
+a view of a trace by what its readers ask (used by the report).
 
 A trace is JSON of format :data:`FORMAT`. :func:`read_trace` reads at most
 :data:`MAX_TRACE_BYTES`, refuses what is not UTF-8 JSON, any non-finite or oversized number
 and nesting too deep to be a trace, then :func:`validate` checks the top-level shape and
 that step ids are unique. A file that is not a trace raises :class:`TraceError` naming it.
+:class:`TraceView` answers the report's questions (the steps of a section, the states a
+check governs in, whether a pump is selected) so that no reader re-derives them from step
+ids.
 """
 
 from __future__ import annotations
 
 import json
 import math
+import re
+from collections.abc import Iterable
 from pathlib import Path
 from typing import Any
 
 from calcreport.errors import FileReadError, TraceError
 from calcreport.files import read_bounded
-from calcreport.trace import FORMAT
+from calcreport.trace import DESIGN_CASE, FORMAT
 
-__all__ = ["FORMAT", "MAX_TRACE_BYTES", "read_trace", "validate"]
+__all__ = ["DESIGN_CASE", "FORMAT", "MAX_TRACE_BYTES", "TraceView", "read_trace", "validate"]
 
 # A trace of thousands of pipes runs to tens of MB; anything far larger is not one.
 MAX_TRACE_BYTES = 256 * 1024 * 1024
@@ -119,3 +125,58 @@ def _kind(value: Any) -> str:
     if isinstance(value, bool):
         return "boolean"
     return "number"
+
+
+# The prefix of a step of a numbered case other than the design case ("C2.pipe.P1.velocity").
+_CASE_PREFIX = re.compile(r"^C\d+\.")
+
+
+class TraceView:
+    """A solved trace as its readers ask of it."""
+
+    def __init__(self, trace: dict[str, Any]) -> None:
+        self.trace = trace
+
+    @property
+    def design_case(self) -> str:
+        return DESIGN_CASE
+
+    @property
+    def other_cases(self) -> list[str]:
+        """The ids of the cases after the design case, in order."""
+        return [c["id"] for c in self.trace["cases"] if c["id"] != DESIGN_CASE]
+
+    @property
+    def pump_selected(self) -> bool:
+        """A pump curve is given, so the operating point is the curve's."""
+        return "pump.curve.flow[1]" in self.trace["given"]
+
+    @staticmethod
+    def case_of(item: dict[str, Any]) -> str:
+        """The case or state a step or check belongs to (the design case when unnamed)."""
+        return item.get("case") or DESIGN_CASE
+
+    def steps(self, prefixes: tuple[str, ...], cases: Iterable[str] | None = None) -> list[dict]:
+        """Steps whose id starts with one of ``prefixes``: the design case's, or with
+        ``cases`` those of each numbered case named (its step ids less the case prefix)."""
+        if cases is None:
+            return [st for st in self.trace["steps"] if st["id"].startswith(prefixes)]
+        wanted = set(cases)
+        return [
+            st
+            for st in self.trace["steps"]
+            if _CASE_PREFIX.sub("", st["id"]).startswith(prefixes) and self.case_of(st) in wanted
+        ]
+
+    def check(self, check_id: str) -> dict[str, Any] | None:
+        """The check ``check_id``, or None when the trace has none."""
+        return next((c for c in self.trace["checks"] if c["id"] == check_id), None)
+
+    def checks(self, *, status: str | None = None, family: str | None = None) -> list[dict]:
+        """The checks, those of one status or of one family (the id before its first dot)."""
+        return [
+            c
+            for c in self.trace["checks"]
+            if (status is None or c["status"] == status)
+            and (family is None or c["id"].split(".")[0] == family)
+        ]

@@ -36,7 +36,7 @@ from calcreport.checks.suction import (
     _suction_pressure,
 )
 from calcreport.model.schema import Model
-from calcreport.trace import Check
+from calcreport.trace import DESIGN_CASE, Check
 
 __all__ = ["criterion", "evaluate", "governing", "once", "preferred_range", "states"]
 
@@ -124,7 +124,7 @@ def evaluate(model: Model, results: dict[str, Any], case: str) -> list[Check]:
 def once(model: Model, results: dict[str, Any]) -> list[Check]:
     """Checks that concern the whole system rather than one case."""
     found = []
-    exit_check = _exit_item(model, "C1")
+    exit_check = _exit_item(model, DESIGN_CASE)
     if exit_check:
         found.append(exit_check)
     if "pump_curve" in results:

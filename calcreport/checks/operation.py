@@ -9,7 +9,7 @@ from typing import Any
 from calcreport.checks.criteria import _say, _status, criterion, states
 from calcreport.model.schema import Model
 from calcreport.physics import viscous
-from calcreport.trace import Check
+from calcreport.trace import DESIGN_CASE, Check
 
 
 def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
@@ -158,7 +158,7 @@ def _thermal(model: Model, results: dict[str, Any]) -> Check:
         if "operating_point" in r
     }
     if not flows:
-        flows = {"C1": results["flow"]["value"]}
+        flows = {DESIGN_CASE: results["flow"]["value"]}
     case = min(flows, key=lambda c: flows[c])
     q = flows[case]
     _, basis, ref, project = criterion(model, "temperature_rise_max")

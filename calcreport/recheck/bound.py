@@ -9,6 +9,7 @@ import re
 from typing import Any
 
 from calcreport.recheck.common import Finding, _close, _Context, _is_number
+from calcreport.trace import DESIGN_CASE
 
 # ---- results, checks and status bound to the steps ---------------------------------------
 
@@ -81,7 +82,7 @@ def _state_sources(node: dict[str, Any], path: str) -> list[Finding]:
     if path == "results":
         prefix = ""
     elif len(parts) == 3 and parts[1] in ("cases", "profile_states"):
-        prefix = "" if parts[2] == "C1" else f"{parts[2]}."
+        prefix = "" if parts[2] == DESIGN_CASE else f"{parts[2]}."
     else:
         return []
     out = []

@@ -46,6 +46,7 @@ from calcreport.report.sections.common import text
 from calcreport.report.sections.front import FrontMatter
 from calcreport.report.sections.route import RouteSections
 from calcreport.report.sections.summary import SummarySection
+from calcreport.tracefile import TraceView
 from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit, show
 
 __all__ = ["render_pdf"]
@@ -70,6 +71,7 @@ class _Report(
             self.marks.update({i: "<b>Δ new</b> " for i in changes.steps_added})
         self.t = trace
         self.r = trace["results"]
+        self.view = TraceView(trace)
         self.system = trace["project"]["units"]
         self.input_text = input_text
         self.figures = figures

@@ -41,7 +41,7 @@ from calcreport.solver.profile import _crest_title, _profile_state, _profile_sta
 from calcreport.solver.pumpcurve import _pump_curve, _viscous
 from calcreport.solver.results import _status
 from calcreport.solver.states import Case, CurvePoints, Liquid, Notes, Surfaces
-from calcreport.trace import Check, Trace, TraceBuilder, source_of
+from calcreport.trace import DESIGN_CASE, Check, Trace, TraceBuilder, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
 __all__ = ["solve"]
@@ -153,10 +153,10 @@ def solve(model: Model) -> Trace:
                 _surface_pressure(b, model.destination, case_liquid, p_baro, prefix),
                 exit_head,
             )
-        if case.id == "C1":
+        if case.id == DESIGN_CASE:
             design_curve, _ = _viscous(b, model, curve, case, case_liquid, corrected, notes)
         by_case[case.id] = run(case, case_liquid, case_surfaces)
-    profile = _profile_states(b, model, states["C1"], design_curve, eta_drive, states)
+    profile = _profile_states(b, model, states[DESIGN_CASE], design_curve, eta_drive, states)
     for pid, result in profile.items():
         state_route = route.case_route(states[pid])
         if state_route:
@@ -164,7 +164,7 @@ def solve(model: Model) -> Trace:
         found += checks.evaluate(model, result, pid)
     # A crest the full line would cross below atmospheric controls that state's flow: the
     # state is solved again with the pump lifting to the crest.
-    design = states["C1"]
+    design = states[DESIGN_CASE]
     for case in list(cases):
         crest = route_pressure.controlling_crest(model, design, states[case.id])
         if crest is not None:
@@ -187,12 +187,12 @@ def solve(model: Model) -> Trace:
                 lifted_point["route"] = state_route
             found += checks.evaluate(model, lifted_point, point.id)
             profile[point.id] = lifted_point
-    if "electrical_power" in by_case["C1"]:
-        P_e = source_of(by_case["C1"]["electrical_power"])
-        energy = _energy(b, model, states["C1"].case, P_e, profile, notes)
+    if "electrical_power" in by_case[DESIGN_CASE]:
+        P_e = source_of(by_case[DESIGN_CASE]["electrical_power"])
+        energy = _energy(b, model, states[DESIGN_CASE].case, P_e, profile, notes)
         if energy:
-            by_case["C1"]["energy"] = energy
-    results = dict(by_case["C1"])
+            by_case[DESIGN_CASE]["energy"] = energy
+    results = dict(by_case[DESIGN_CASE])
     # The highest pressures: the pump's highest head on its fastest curve.
     surge = route.surge_screening(states, notes)
     if surge:

@@ -11,7 +11,7 @@ from calcreport import catalog
 from calcreport.model.schema import Model
 from calcreport.physics import motor, power
 from calcreport.solver.states import CurvePoints, Liquid, Notes
-from calcreport.trace import TraceBuilder, source_of
+from calcreport.trace import DESIGN_CASE, TraceBuilder, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
 
@@ -71,7 +71,7 @@ def _motor_loading(
     for cid, r in by_state.items():
         if "shaft_power" not in r:
             continue
-        prefix = "" if cid == "C1" else f"{cid}."
+        prefix = "" if cid == DESIGN_CASE else f"{cid}."
         P = source_of(r.get("shaft_power_per_pump", r["shaft_power"]))
         loading[cid] = _q(b.step(f"{prefix}motor.loading", "Motor loading", motor.loading,
                                  cid, P=P, P_rated=rated))  # fmt: skip

@@ -28,7 +28,7 @@ from calcreport.solver.states import (
     Surfaces,
     _flow_span,
 )
-from calcreport.trace import TraceBuilder, quantity, source_of
+from calcreport.trace import DESIGN_CASE, TraceBuilder, quantity, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
 
@@ -64,7 +64,7 @@ def _solve_case(
         point, eta_curve = _operating_point(b, model, case, curve, h)
         results["operating_point"] = point
         eta_pump = eta_curve or eta_pump
-        if "bep_flow" in point and case.id == "C1":  # the design chart's regions
+        if "bep_flow" in point and case.id == DESIGN_CASE:  # the design chart's regions
             results["operating_region"] = _regions(b, model, source_of(point["bep_flow"]))
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive))
     results["required_flow"] = _q(required)
@@ -73,7 +73,7 @@ def _solve_case(
     if "shaft_power" in results:
         _per_pump_power(b, case, source_of(results["shaft_power"]), results)
     results["system_curve"], duty = _system_curve(model, case, liquid, surfaces, curve)
-    if case.id == "C1":  # the required duty on the design system curve, for its chart
+    if case.id == DESIGN_CASE:  # the required duty on the design system curve, for its chart
         results["duty_point"] = duty
     results["commissioning"] = _commissioning(b, model, case, liquid, surfaces, h, curve)
     if curve is not None:

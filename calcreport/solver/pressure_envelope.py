@@ -14,7 +14,7 @@ from calcreport.model.schema import Given, Model, Pipe
 from calcreport.physics import head, losses, pump, route, surge
 from calcreport.solver.states import DISCHARGE_FLANGE, SUCTION_FLANGE, CurvePoints, Notes
 from calcreport.solver.surge_screen import line_nodes
-from calcreport.trace import TraceBuilder, quantity
+from calcreport.trace import DESIGN_CASE, TraceBuilder, quantity
 from calcreport.trace import bound as _q  # a result naming its source
 
 if TYPE_CHECKING:
@@ -39,7 +39,7 @@ class PressureEnvelope:
     ) -> dict[str, Any]:
         """Highest and lowest pressures over every state, ratings, high points and crest."""
         model = self.model
-        design = states["C1"]
+        design = states[DESIGN_CASE]
         nodes = [n for n in design.profile["nodes"] if "pressure_head" in n]
         out: dict[str, Any] = {"high_points": _high_points(design.profile["nodes"])}
         line = line_nodes(model, design.profile["nodes"])
@@ -227,7 +227,7 @@ class PressureEnvelope:
         """One point of the route for the trace: pressures, and as grade-line elevations
         (elevation plus pressure head at the densest liquid) for the profile chart."""
         z = p["elevation"]
-        design = states["C1"]
+        design = states[DESIGN_CASE]
         node = _node(design, p["node"])
         assert node is not None
         entry: dict[str, Any] = {
@@ -242,7 +242,7 @@ class PressureEnvelope:
         low = _min_head(states, p["node"])
         entry["min_pressure_head"] = quantity(low, "m")
         entry["min_grade"] = quantity(z + low, "m")
-        vapour = self._vapour.get("C1")
+        vapour = self._vapour.get(DESIGN_CASE)
         if vapour is not None:
             entry["vapour_grade"] = quantity(z + vapour.value, "m")
         if self.downsurge and node["side"] == "discharge":
@@ -322,7 +322,7 @@ class PressureEnvelope:
     ) -> Given:
         """The step of the highest pressure at one point, on the basis that governs it."""
         b, name = self.b, point["node"]
-        node = _node(states["C1"], name)
+        node = _node(states[DESIGN_CASE], name)
         assert node is not None
         where = self._where(node)
         if point["basis"] == "static":

@@ -10,9 +10,9 @@ from dataclasses import dataclass
 from typing import Any, NamedTuple, Protocol, TypedDict
 
 from calcreport.model.schema import Fitting, Given, Model, Pipe
+from calcreport.trace import DESIGN_CASE
 
 CURVE_POINTS = 61
-DESIGN_CASE = "C1"  # the design case's id: its steps have plain ids
 # The profile nodes at the pump's flanges, where the route reads the pump's own pressures.
 SUCTION_FLANGE = "pump suction flange"
 DISCHARGE_FLANGE = "pump discharge flange"

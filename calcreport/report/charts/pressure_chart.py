@@ -19,6 +19,7 @@ from calcreport.report.charts.base import (
     _results,
     _style_axes,
 )
+from calcreport.trace import DESIGN_CASE
 
 # --------------------------------------------------------------------------
 # 7. Pressure along the route
@@ -43,19 +44,23 @@ def _draw_route_pressure(trace: dict[str, Any]) -> tuple[Any, str]:
     (pipe,) = ax.plot(x, centre, color="#555555", lw=2.4, zorder=2, label="pipe centreline")
     handles.append(pipe)
     shown = [centre, series("max_grade")]
-    grade_cases = ["C1"]
+    grade_cases = [DESIGN_CASE]
     low_case = route.get("min_pressure_case")
-    if low_case and low_case != "C1":
+    if low_case and low_case != DESIGN_CASE:
         grade_cases.append(low_case)
     styles = {0: (BLUE, "-", 1.3), 1: (BLUE, (0, (5, 2)), 1.0)}
     for i, cid in enumerate(grade_cases):
         states = {**r.get("cases", {}), **r.get("profile_states", {})}
-        profile = r["profile"] if cid == "C1" else states[cid]["profile"]
+        profile = r["profile"] if cid == DESIGN_CASE else states[cid]["profile"]
         pts = [n for n in profile["nodes"] if "pressure_head" in n]
         xs = np.array([d.raw(n["distance"], "m", "length") for n in pts])
         hs = np.array([d.raw(n["hgl"], "m", "length") for n in pts])
         color, ls, lw = styles[i]
-        label = "HGL, design case C1" if cid == "C1" else f"HGL, state {cid} (lowest pressure)"
+        label = (
+            f"HGL, design case {cid}"
+            if cid == DESIGN_CASE
+            else f"HGL, state {cid} (lowest pressure)"
+        )
         (line,) = ax.plot(xs, hs, color=color, ls=ls, lw=lw, label=label, zorder=4)
         handles.append(line)
         shown.append(hs)

@@ -23,6 +23,7 @@ from calcreport.report.charts.base import (
 )
 from calcreport.report.charts.npsh_chart import _operating_marker
 from calcreport.report.charts.placement import _Placer
+from calcreport.trace import DESIGN_CASE
 
 # --------------------------------------------------------------------------
 # 1. System curve
@@ -123,7 +124,7 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
         others = [
             (d(c["operating_point"]["flow"], "flow"), d(c["operating_point"]["head"], "length"))
             for cid, c in (r.get("cases") or {}).items()
-            if cid != "C1" and isinstance(c, dict) and "operating_point" in c
+            if cid != DESIGN_CASE and isinstance(c, dict) and "operating_point" in c
         ]
         if others:
             (om,) = ax.plot(

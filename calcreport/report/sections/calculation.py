@@ -11,7 +11,6 @@ from reportlab.platypus import Flowable, KeepTogether
 from calcreport.report.mathtext import Equation
 from calcreport.report.sections.common import (
     _ANY_CASE,
-    _CASE_PREFIX,
     _MONEY,
     _ROUTE_CHECKS,
     SECTIONS,
@@ -70,7 +69,7 @@ class CalculationSection:
 
     def calculation(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Calculation")]
-        others = [c["id"] for c in self.t["cases"] if c["id"] != "C1"]
+        others = self.view.other_cases
         intro = (
             "Each step gives the quantity computed, its step id, the equation, the equation "
             "with the values and units substituted, the result and the reference in "
@@ -84,15 +83,9 @@ class CalculationSection:
         out.append(self.p(intro + "."))
         for key, title, prefixes in SECTIONS:
             if key in _ANY_CASE:
-                cases = self.governing_cases()
-                steps = [
-                    st
-                    for st in self.t["steps"]
-                    if _CASE_PREFIX.sub("", st["id"]).startswith(prefixes)
-                    and (st.get("case") or "C1") in cases
-                ]
+                steps = self.view.steps(prefixes, self.governing_cases())
             else:
-                steps = [st for st in self.t["steps"] if st["id"].startswith(prefixes)]
+                steps = self.view.steps(prefixes)
             if not steps and not (key == "route" and "route" in self.r):
                 continue
             out.append(self.heading(title, 2))
@@ -114,10 +107,12 @@ class CalculationSection:
         return out
 
     def governing_cases(self) -> set[str]:
-        """C1 and the cases named by the route and surge checks and results."""
-        cases = {"C1", self.r.get("surge", {}).get("case", "C1")}
-        cases.add(self.r.get("route", {}).get("min_pressure_case", "C1"))
-        cases |= {c["case"] for c in self.t["checks"] if c["id"].split(".")[0] in _ROUTE_CHECKS}
+        """The design case and the cases named by the route and surge checks and results."""
+        design = self.view.design_case
+        cases = {design, self.r.get("surge", {}).get("case", design)}
+        cases.add(self.r.get("route", {}).get("min_pressure_case", design))
+        for family in _ROUTE_CHECKS:
+            cases |= {c["case"] for c in self.view.checks(family=family)}
         return cases
 
     def num(self, quantity: dict[str, Any], kind: str) -> str:

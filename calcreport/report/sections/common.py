@@ -36,9 +36,6 @@ SECTIONS = (
 _ANY_CASE = ("route", "surge")
 
 
-_CASE_PREFIX = re.compile(r"^C\d+\.")
-
-
 _PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
 
 

@@ -119,8 +119,9 @@ class RouteSections:
         out += self.figure("route_pressure")
         # One worked step of each equation, those of the case that governs the lowest
         # pressure first; every step is listed in Appendix A.
-        low = next((c["case"] for c in self.t["checks"] if c["id"] == "min_pressure"), "C1")
-        steps = sorted(steps, key=lambda st: (st.get("case") or "C1") != low)
+        lowest = self.view.check("min_pressure")
+        low = lowest["case"] if lowest else self.view.design_case
+        steps = sorted(steps, key=lambda st: self.view.case_of(st) != low)
         return out + self.examples(steps)
 
     def profile_section(self, shown: set[str]) -> list[Flowable]:

@@ -107,7 +107,7 @@ class SummarySection:
             if self.t["status"]["value"] == "preliminary"
             else []
         )
-        if "pump.curve.flow[1]" not in self.t["given"] and not items:
+        if not self.view.pump_selected and not items:
             items.append(
                 "Pump not selected: no pump curve is given, so the operating point, NPSH "
                 "required, shutoff pressures and motor rating are not determined."
@@ -194,7 +194,7 @@ class SummarySection:
     def equipment_phrase(self) -> str:
         given = self.t["given"]
         motor = self.r.get("motor", {})
-        curve = "pump.curve.flow[1]" in given
+        curve = self.view.pump_selected
         pump_data = self.entered.get("pump", {})
         names = ", ".join(
             text(pump_data[k])
@@ -248,7 +248,7 @@ class SummarySection:
         return pump + text_motor + gauges
 
     def conclusion(self) -> str:
-        fails = [c for c in self.t["checks"] if c["status"] == "fail"]
+        fails = self.view.checks(status="fail")
         tdh = self.q(self.r["total_dynamic_head"], "length")
         flow = self.q(self.r["flow"], "flow")
         if fails:
@@ -270,7 +270,7 @@ class SummarySection:
                 f"{self.worst_case('npsh_available', min)}; select the pump on its certified "
                 "curve for every case and recheck this calculation against it."
             )
-        reviews = [c for c in self.t["checks"] if c["status"] == "review"]
+        reviews = self.view.checks(status="review")
         sized = self.sizing_state()
         if reviews:
             return (
@@ -283,7 +283,7 @@ class SummarySection:
     def sizing_state(self) -> str:
         """``" (the required flow governs in C2, title)"``: the state the duty check of the
         selected pump is decided in, where the trace has that check."""
-        duty = next((c for c in self.t["checks"] if c["id"] == "duty_flow"), None)
+        duty = self.view.check("duty_flow")
         if duty is None:
             return ""
         titles = {c["id"]: c.get("title", "") for c in self.t.get("cases", [])}
