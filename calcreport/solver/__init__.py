@@ -36,8 +36,9 @@ from calcreport.solver.liquid import (
     _surface_pressure,
 )
 from calcreport.solver.motor_size import _class_efficiency, _motor, _motor_loading
-from calcreport.solver.operating import _lift_speed, _solve_case, _thermal_min_flow
+from calcreport.solver.operating import _solve_case
 from calcreport.solver.profile import _crest_title, _profile_state, _profile_states
+from calcreport.solver.pump_limits import _lift_speed, _thermal_min_flow
 from calcreport.solver.pumpcurve import _pump_curve, _viscous
 from calcreport.solver.results import _status
 from calcreport.solver.states import Case, CurvePoints, Liquid, Notes, Surfaces
