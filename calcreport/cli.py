@@ -87,6 +87,13 @@ def _parser() -> argparse.ArgumentParser:
         help="the previous revision's trace: adds a page of changes and marks every step "
         "whose value moved",
     )
+    build.add_argument(
+        "--listing",
+        choices=("attached", "full"),
+        default="attached",
+        help="the full step listing of every state: attached to the PDF as a text file "
+        "(default), or also printed as Appendix C",
+    )
     from calcreport.recheck import SCOPE as RECHECK_SCOPE
 
     recheck = commands.add_parser(
@@ -228,7 +235,9 @@ def _build(args: argparse.Namespace) -> int:
     # The imported stack and the trace live to the end of the run: frozen, they are not
     # rescanned by every collection the rendering triggers (about a tenth of a build).
     gc.freeze()
-    rendered = render(data, model.text, previous)
+    rendered = render(
+        data, model.text, previous, _attachments(model, trace_file.name, text), args.listing
+    )
     pages = {
         "format": "calcreport-pages/1",
         "trace_sha256": _sha256(text),
@@ -245,6 +254,36 @@ def _build(args: argparse.Namespace) -> int:
     )
     print(f"wrote {pdf}, {trace_file} and {pages_file}")
     return EXIT_OK
+
+
+def _attachments(model: Any, trace_name: str, trace_text: str) -> tuple[Any, ...]:
+    """The files the report carries: the input and the curve files as read (the bytes
+    whose SHA-256 the trace records) and the trace itself."""
+    from calcreport.report.archive import Attachment
+
+    name = Path(model.path).name or "input.toml"
+    items = [Attachment(name, model.raw, "text/plain", "Source", "The input (TOML) as read")]
+    taken = {name, trace_name}
+    for record, data in zip(model.files, model.file_bytes, strict=True):
+        base = Path(record["path"]).name
+        attached_as, n = base, 1
+        while attached_as in taken:  # two curve files of one name from different folders
+            n += 1
+            attached_as = f"{Path(base).stem}-{n}{Path(base).suffix}"
+        taken.add(attached_as)
+        items.append(
+            Attachment(attached_as, data, "text/csv", "Source", f"The {record['role']} as read")
+        )
+    items.append(
+        Attachment(
+            trace_name,
+            trace_text.encode("utf-8"),
+            "application/json",
+            "Data",
+            "The trace: every step's equation, arguments and result",
+        )
+    )
+    return tuple(items)
 
 
 def _sha256(text: str) -> str:

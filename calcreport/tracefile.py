@@ -23,19 +23,69 @@ from calcreport.errors import FileReadError, TraceError
 from calcreport.files import read_bounded
 from calcreport.trace import DESIGN_CASE, FORMAT
 
-__all__ = ["DESIGN_CASE", "FORMAT", "MAX_TRACE_BYTES", "TraceView", "read_trace", "validate"]
+__all__ = [
+    "DESIGN_CASE",
+    "FORMAT",
+    "MAX_TRACE_BYTES",
+    "TraceView",
+    "parse_trace",
+    "read_trace",
+    "validate",
+]
 
 # A trace of thousands of pipes runs to tens of MB; anything far larger is not one.
 MAX_TRACE_BYTES = 256 * 1024 * 1024
 
 
 def read_trace(path: str | Path) -> dict[str, Any]:
-    """Read a trace JSON file; raise :class:`TraceError` when it is not one."""
+    """Read a trace JSON file, or the trace attached to a calcreport PDF report (checked
+    against the SHA-256 the report records for it); raise :class:`TraceError` when the file
+    is neither."""
     name = str(path)
     try:
         data = read_bounded(path, MAX_TRACE_BYTES)
     except FileReadError as exc:
         raise TraceError(name, exc.reason) from None
+    if data.startswith(b"%PDF-"):
+        return parse_trace(_attached_trace(data, name), f"{name} (attached trace)")
+    return parse_trace(data, name)
+
+
+def _attached_trace(pdf: bytes, name: str) -> bytes:
+    """The bytes of the trace attached to a report, after checking them against the
+    SHA-256 the report states for them."""
+    import hashlib
+
+    from calcreport.report.archive import attached, description_sha256
+
+    try:
+        files = attached(pdf)
+    except Exception as exc:  # pikepdf raises its own errors for a damaged file
+        raise TraceError(name, f"it is a PDF that cannot be read ({type(exc).__name__}).") from None
+    traces = [(n, d, desc) for n, (d, desc) in files.items() if n.endswith(".trace.json")]
+    if len(traces) != 1:
+        raise TraceError(
+            name,
+            "it is a PDF without a trace attached (a calcreport report carries one, "
+            "NAME.trace.json)."
+            if not traces
+            else "it is a PDF with more than one trace attached.",
+        )
+    trace_name, data, description = traces[0]
+    stated = description_sha256(description)
+    actual = hashlib.sha256(data).hexdigest()
+    if stated != actual:
+        raise TraceError(
+            name,
+            f"the attached {trace_name} has SHA-256 {actual}, not the {stated or 'none'} the "
+            "report records for it: it was altered after the report was made.",
+        )
+    return data
+
+
+def parse_trace(data: bytes, name: str = "trace") -> dict[str, Any]:
+    """Parse and check the bytes of a trace; raise :class:`TraceError` when they are not
+    one (``name`` names them in the message)."""
     try:
         text = data.decode("utf-8")
     except UnicodeDecodeError as exc:
@@ -167,6 +217,20 @@ class TraceView:
             for st in self.trace["steps"]
             if _CASE_PREFIX.sub("", st["id"]).startswith(prefixes) and self.case_of(st) in wanted
         ]
+
+    def steps_by_case(
+        self, prefixes: tuple[str, ...], cases: Iterable[str]
+    ) -> dict[str, dict[str, dict]]:
+        """The steps of ``cases`` whose id less its case prefix starts with one of
+        ``prefixes``, as that id -> {case: step}, in the order first computed (the design
+        case's step is the one without a prefix)."""
+        wanted = set(cases)
+        out: dict[str, dict[str, dict]] = {}
+        for st in self.trace["steps"]:
+            key = _CASE_PREFIX.sub("", st["id"])
+            if key.startswith(prefixes) and self.case_of(st) in wanted:
+                out.setdefault(key, {})[self.case_of(st)] = st
+        return out
 
     def check(self, check_id: str) -> dict[str, Any] | None:
         """The check ``check_id``, or None when the trace has none."""

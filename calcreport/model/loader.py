@@ -137,7 +137,7 @@ def loads(raw: bytes, path: str = "<input>", files_anywhere: bool = False) -> Mo
         )
     folder = Path(path).parent if path and not path.startswith("<") else None
     reader = _Reader(_Lines(text), folder, files_anywhere)
-    model = _build(reader, data, text, hashlib.sha256(raw).hexdigest(), path)
+    model = _build(reader, data, text, raw, path)
     if reader.problems:
         raise InputError(reader.problems, path)
     assert model is not None
@@ -159,7 +159,7 @@ def _depth(data: Any) -> int:
     return deepest
 
 
-def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> Model | None:
+def _build(r: _Reader, data: dict[str, Any], text: str, raw: bytes, path: str) -> Model | None:
     r.known_keys(data, "", _TOP_KEYS)
     fmt = data.get("format", FORMAT)
     if fmt != FORMAT or isinstance(fmt, bool):
@@ -304,9 +304,11 @@ def _build(r: _Reader, data: dict[str, Any], text: str, sha: str, path: str) -> 
         return None
     return Model(
         path=path,
-        sha256=sha,
+        sha256=hashlib.sha256(raw).hexdigest(),
         text=text,
+        raw=raw,
         files=tuple(r.files),
+        file_bytes=tuple(r.file_bytes),
         project=project,
         envelope=envelope,
         friction_method=friction_method,

@@ -251,6 +251,9 @@ class Model:
     friction_method: str = "darcy_weisbach"
     fittings_method: str = "two_k"  # two_k (Hooper) | three_k (Darby), for named fittings
     files: tuple[dict[str, str], ...] = ()  # other files read (curve CSV): path, SHA-256
+    # The bytes read, for the report to carry: the input's and each of ``files``' in order.
+    raw: bytes = field(default=b"", repr=False, compare=False)
+    file_bytes: tuple[bytes, ...] = field(default=(), repr=False, compare=False)
     motor_class: str = ""  # IE2 | IE3: motor efficiency from the class table at its rating
     motor_derating: Given | None = None  # site derating factor of the motor's output
     motor_ambient: Given | None = None  # ambient (coolant) temperature at the motor

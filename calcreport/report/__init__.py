@@ -3,13 +3,19 @@
 ``render(trace, input_text)`` returns the PDF bytes and the pages on which
 each step is printed; it reads only the trace (JSON form), the input text it
 echoes and, for a revision, the previous trace, and computes no engineering
-number. Heavy libraries load on first use, so solving never imports them.
+number. The PDF is archival (PDF/A-3b) and carries the files it is given
+(the input, curve files, the trace) as attachments, listed in Appendix B.
+Heavy libraries load on first use, so solving never imports them.
 """
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from calcreport.report.archive import Attachment
 
 __all__ = ["Rendered", "render"]
 
@@ -23,14 +29,22 @@ class Rendered:
 
 
 def render(
-    trace: dict[str, Any], input_text: str, previous: dict[str, Any] | None = None
+    trace: dict[str, Any],
+    input_text: str,
+    previous: dict[str, Any] | None = None,
+    attachments: Sequence[Attachment] = (),
+    listing: str = "attached",
 ) -> Rendered:
-    """The PDF calculation report of ``trace`` (deterministic bytes).
+    """The PDF calculation report of ``trace`` (deterministic bytes, PDF/A-3b).
 
     With ``previous`` (the trace of the last revision) the report gains a page of
-    changes and a change mark beside every step whose value moved.
+    changes and a change mark beside every step whose value moved. ``attachments``
+    are embedded as the PDF's associated files, with the full step listing
+    (:mod:`calcreport.report.listing`) after them; ``listing="full"`` also prints it.
     """
-    from calcreport.report.document import render_pdf
+    from calcreport.report.archive import Attachment, archival
+    from calcreport.report.document import document_info, render_pdf
+    from calcreport.report.listing import listing_name, step_listing
     from calcreport.report.mathtext import save_layouts
 
     changes = None
@@ -38,9 +52,20 @@ def render(
         from calcreport.diff import diff
 
         changes = diff(previous, trace, "previous", "this revision")
-    pdf, pages = render_pdf(trace, input_text, _figures(trace), changes)
+    steps = Attachment(
+        listing_name(trace),
+        step_listing(trace).encode("utf-8"),
+        "text/plain",
+        "Supplement",
+        "Every step of every state, as the trace records it",
+    )
+    files = (*attachments, steps)
+    pdf, pages = render_pdf(trace, input_text, _figures(trace), changes, files, listing)
     save_layouts()
-    return Rendered(pdf, pages)
+    info = document_info(trace["project"])
+    return Rendered(
+        archival(pdf, **info, project_date=trace["project"]["date"], attachments=files), pages
+    )
 
 
 def _figures(trace: dict[str, Any]) -> dict[str, Any]:

@@ -34,7 +34,6 @@ from reportlab.platypus import (
     PageBreak,
     PageTemplate,
     Paragraph,
-    Table,
     TableStyle,
 )
 
@@ -46,10 +45,11 @@ from calcreport.report.sections.common import text
 from calcreport.report.sections.front import FrontMatter
 from calcreport.report.sections.route import RouteSections
 from calcreport.report.sections.summary import SummarySection
+from calcreport.report.style import Table
 from calcreport.tracefile import TraceView
 from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit, show
 
-__all__ = ["render_pdf"]
+__all__ = ["document_info", "render_pdf"]
 
 
 class _Report(
@@ -63,8 +63,12 @@ class _Report(
         input_text: str,
         figures: dict[str, Any],
         changes: Any = None,
+        attached: tuple[Any, ...] = (),
+        listing: str = "attached",
     ) -> None:
         self.changes = changes
+        self.attached = attached
+        self.listing = listing  # "attached" (the listing only as a file) or "full" (printed)
         self.marks: dict[str, str] = {}
         if changes is not None:
             self.marks = {i: "<b>Δ changed</b> " for i in changes.steps_changed}
@@ -231,6 +235,9 @@ def _canvas_maker(
     class TitleBlockCanvas(rl_canvas.Canvas):
         def __init__(self, *args: Any, **kwargs: Any) -> None:
             kwargs["invariant"] = 1
+            # The embedded face from the first mark on: an archival PDF references no font
+            # it does not carry (the canvas would otherwise start in base-14 Helvetica).
+            kwargs["initialFontName"] = "DejaVu"
             super().__init__(*args, **kwargs)
             self._pages: list[dict[str, Any]] = []
 
@@ -315,18 +322,35 @@ def _canvas_maker(
                 left,
                 9 * mm,
                 "Calculation prepared with calcreport from the input "
-                "and trace named in Appendix C. Verify before use.",
+                "and trace named in Appendix B. Verify before use.",
             )
             self.restoreState()
 
     return TitleBlockCanvas
 
 
+def document_info(project: dict[str, Any]) -> dict[str, str]:
+    """The PDF's document information (title, author, subject) from the trace's project."""
+    return {
+        "title": f"{project['calc_id']} {project['title']}".strip(),
+        "author": project["prepared_by"] or "calcreport",
+        "subject": f"Pump-system calculation, revision {project['revision']}".strip(),
+    }
+
+
 def render_pdf(
-    trace: dict[str, Any], input_text: str, figures: dict[str, Any], changes: Any = None
+    trace: dict[str, Any],
+    input_text: str,
+    figures: dict[str, Any],
+    changes: Any = None,
+    attached: tuple[Any, ...] = (),
+    listing: str = "attached",
 ) -> tuple[bytes, dict[str, list[int]]]:
-    """The PDF report of ``trace`` (deterministic bytes) and the pages of every step."""
-    report = _Report(trace, input_text, figures, changes)
+    """The PDF report of ``trace`` (deterministic bytes) and the pages of every printed
+    step; ``attached`` (:class:`~calcreport.report.archive.Attachment`) are listed in
+    Appendix B as the files the PDF carries; ``listing="full"`` prints every step of
+    every state as Appendix C."""
+    report = _Report(trace, input_text, figures, changes, attached, listing)
     project = trace["project"]
     size = style.page_size(report.system)
     buffer = io.BytesIO()
@@ -337,9 +361,7 @@ def render_pdf(
         rightMargin=style.PAGE["margin_right"],
         topMargin=style.PAGE["margin_top"],
         bottomMargin=style.PAGE["margin_bottom"],
-        title=f"{project['calc_id']} {project['title']}".strip(),
-        author=project["prepared_by"] or "calcreport",
-        subject=f"Pump-system calculation, revision {project['revision']}".strip(),
+        **document_info(project),
         creator="calcreport",
         invariant=1,
     )

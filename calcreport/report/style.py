@@ -10,7 +10,9 @@ from __future__ import annotations
 import importlib.util
 from functools import cache
 from pathlib import Path
+from typing import Any
 
+from reportlab import platypus
 from reportlab.lib import colors
 from reportlab.lib.enums import TA_CENTER, TA_LEFT
 from reportlab.lib.pagesizes import A4, LETTER
@@ -171,3 +173,13 @@ class Styles:
 def styles() -> Styles:
     """The one set of styles (fonts registered on first use)."""
     return Styles()
+
+
+class Table(platypus.Table):
+    """A platypus table whose cells start in the embedded face: platypus sets each cell's
+    font before drawing it, by default base-14 Helvetica, which an archival PDF may not
+    reference (every font must be embedded)."""
+
+    def __init__(self, *args: Any, **kwargs: Any) -> None:
+        super().__init__(*args, **kwargs)
+        self.setStyle(platypus.TableStyle([("FONTNAME", (0, 0), (-1, -1), "DejaVu")]))

@@ -41,11 +41,57 @@ def test_title_block_on_every_page(built):
                 assert f"Rev. {trace['project']['revision']}" in page
 
 
-def test_every_step_id_is_printed(built):
+@pytest.fixture(scope="module")
+def built_full(tmp_path_factory):
+    """One example built with the listing printed: (pdf path, trace dict, page texts)."""
+    out = tmp_path_factory.mktemp("full")
+    path = EXAMPLES / "reservoir_fill_si.toml"
+    assert main(["build", str(path), "-o", str(out), "--listing", "full"]) == 0
+    pdf = out / "reservoir_fill_si.pdf"
+    trace = json.loads((out / "reservoir_fill_si.trace.json").read_text(encoding="utf-8"))
+    return pdf, trace, [page.extract_text() for page in pypdf.PdfReader(pdf).pages]
+
+
+def test_every_equation_is_worked_in_print(built):
+    # The printed report works each equation at least once; every step of every state
+    # is in the attached listing (tests/report/test_archive.py).
     for pdf, trace, pages in built.values():
         text = "\n".join(pages).replace("\n", "")
-        for step in trace["steps"]:
-            assert f"[{step['id']}]" in text, (pdf.name, step["id"])
+        printed = {st["function"] for st in trace["steps"] if f"[{st['id']}]" in text}
+        missing = {st["function"] for st in trace["steps"]} - printed
+        assert not missing, (pdf.name, sorted(missing))
+
+
+def test_every_design_case_step_is_printed_or_tabulated(built):
+    # A design-case step not worked in print still shows in a table of results: the
+    # per-pipe tables (hydraulics, surge) name the pipe, the route's table of points the point.
+    for pdf, trace, pages in built.values():
+        text = "\n".join(pages).replace("\n", "")
+        for st in trace["steps"]:
+            if st.get("case", "C1") != "C1" or st["id"].startswith("P"):
+                continue
+            pipe = re.match(r"^(?:pipe|route|surge)\.([^.]+)\.", st["id"])
+            assert f"[{st['id']}]" in text or (pipe and pipe.group(1).replace("_", " ") in text), (
+                pdf.name,
+                st["id"],
+            )
+
+
+def test_the_full_listing_prints_every_step_id(built_full):
+    pdf, trace, pages = built_full
+    text = "\n".join(pages).replace("\n", "")
+    assert "Appendix C — Full step listing" in text
+    for step in trace["steps"]:
+        assert f"[{step['id']}]" in text, (pdf.name, step["id"])
+    sidecar = json.loads((pdf.parent / "reservoir_fill_si.pages.json").read_text("utf-8"))
+    assert set(sidecar["steps"]) == {s["id"] for s in trace["steps"]}
+
+
+def test_the_listing_is_not_printed_by_default(built):
+    for pdf, _, pages in built.values():
+        text = "\n".join(pages)
+        assert "Appendix C" not in text, pdf.name
+        assert "attached" in text and "listing" in text
 
 
 def test_tdh_printed_as_in_trace(built):
@@ -96,7 +142,6 @@ def test_sections_in_reviewers_order(built):
         "References",
         "Appendix A",
         "Appendix B",
-        "Appendix C",
     ]
     for _, _, pages in built.values():
         contents = next(i for i, page in enumerate(pages) if "Contents" in page)
@@ -234,7 +279,11 @@ def test_step_page_map_points_at_pages_printing_each_step(built):
         sidecar = json.loads((pdf.parent / f"{stem}.pages.json").read_text(encoding="utf-8"))
         assert sidecar["format"] == "calcreport-pages/1"
         assert sidecar["pdf_sha256"] == hashlib.sha256(pdf.read_bytes()).hexdigest()
-        assert set(sidecar["steps"]) == {s["id"] for s in trace["steps"]}
+        ids = {s["id"] for s in trace["steps"]}
+        assert set(sidecar["steps"]) <= ids
+        # Every equation's worked step has its page.
+        functions = {s["function"] for s in trace["steps"] if s["id"] in sidecar["steps"]}
+        assert functions == {s["function"] for s in trace["steps"]}
         for step_id, numbers in sidecar["steps"].items():
             for n in numbers:
                 assert f"[{step_id}]" in pages[n - 1].replace("\n", ""), (stem, step_id, n)

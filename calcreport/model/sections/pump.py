@@ -223,6 +223,7 @@ def _curve_file(r: _Reader, name: Any) -> dict[str, list[str]] | None:
     r.files.append(
         {"path": str(name), "sha256": hashlib.sha256(raw).hexdigest(), "role": "pump curve"}
     )
+    r.file_bytes.append(raw)
     return columns
 
 

@@ -94,6 +94,7 @@ class _Reader:
         self.folder = folder or Path.cwd()
         self.outside = outside  # files the input names may lie outside its folder
         self.files: list[dict[str, str]] = []  # other files read: path and SHA-256
+        self.file_bytes: list[bytes] = []  # their bytes, in the same order
 
     def problem(self, key: str, message: str) -> None:
         self.problems.append(Problem(key, message, self.lines.line(key)))

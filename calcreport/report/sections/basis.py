@@ -6,10 +6,11 @@ from __future__ import annotations
 
 from typing import Any
 
-from reportlab.platypus import Flowable, Paragraph, Table, TableStyle
+from reportlab.platypus import Flowable, Paragraph, TableStyle
 
 from calcreport.report import style
 from calcreport.report.sections.common import MAX_FITTINGS_LISTED, _ContentsMark, _lines, text
+from calcreport.report.style import Table
 from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit
 
 

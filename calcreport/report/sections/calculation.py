@@ -1,5 +1,6 @@
-"""The calculation chapter: one numbered section a stage, each step worked once per equation
-(the rest in Appendix A), the per-pipe table.
+"""The calculation chapter: one numbered section a stage, each equation worked once (in
+the design state), the results of the other states as tables, the per-pipe table. Every
+step of every state is in the attached listing (and Appendix C when it is printed).
 """
 
 from __future__ import annotations
@@ -10,14 +11,12 @@ from reportlab.platypus import Flowable, KeepTogether
 
 from calcreport.report.mathtext import Equation
 from calcreport.report.sections.common import (
-    _ANY_CASE,
     _MONEY,
-    _ROUTE_CHECKS,
     SECTIONS,
     _key_runs,
     text,
 )
-from calcreport.units import display_unit, fmt, pretty_unit, to_display
+from calcreport.units import KIND_OF_SI_UNIT, display_unit, fmt, pretty_unit, to_display
 
 
 class CalculationSection:
@@ -77,22 +76,25 @@ class CalculationSection:
         )
         if others:
             intro += (
-                f"; cases {', '.join(others)} repeat them at their own levels and flows "
-                "and are listed in full in Appendix A"
+                f"; cases {', '.join(others)} repeat them at their own levels and flows, "
+                "and each section ends with a table of their results beside the design "
+                "case's"
             )
+        where = (
+            "Appendix C and the step listing attached to this PDF"
+            if self.listing == "full"
+            else "the step listing attached to this PDF (see Appendix B)"
+        )
+        intro += f". Every step of every case, with its full substitution, is in {where}"
         out.append(self.p(intro + "."))
         for key, title, prefixes in SECTIONS:
-            if key in _ANY_CASE:
-                steps = self.view.steps(prefixes, self.governing_cases())
-            else:
-                steps = self.view.steps(prefixes)
+            # The design state is worked in full; every other state is a table of results.
+            steps = self.worked_steps(key, prefixes)
             if not steps and not (key == "route" and "route" in self.r):
                 continue
             out.append(self.heading(title, 2))
             if key == "pipes":
                 out += self.pipe_section(steps)
-            elif key == "pump":
-                out += self.examples(steps)
             elif key == "route":
                 out += self.route_section(steps)
             elif key == "surge":
@@ -104,16 +106,91 @@ class CalculationSection:
             else:
                 for st in steps:
                     out += self.step_block(st)
+            out += self.other_states(prefixes, {self.view.design_case})
         return out
 
-    def governing_cases(self) -> set[str]:
-        """The design case and the cases named by the route and surge checks and results."""
+    def worked_steps(self, key: str, prefixes: tuple[str, ...]) -> list[dict[str, Any]]:
+        """The steps a section works in full: the design case's, and for an equation the
+        design case does not reach (a surge event screened in the state that governs it)
+        that equation's steps in the first state that does, the governing one first."""
+        steps = self.view.steps(prefixes)
+        done = {st["function"] for st in steps}
+        governing = self.r.get(key, {}).get("case") if isinstance(self.r.get(key), dict) else None
+        order = sorted(self.view.other_cases, key=lambda c: c != governing)
+        rest = self.view.steps(prefixes, order)
+        for case in order:
+            found = [
+                st for st in rest if self.view.case_of(st) == case and st["function"] not in done
+            ]
+            steps += found
+            done |= {st["function"] for st in found}
+        position = {st["id"]: n for n, st in enumerate(self.t["steps"])}
+        return sorted(steps, key=lambda st: position[st["id"]])
+
+    def other_states(self, prefixes: tuple[str, ...], shown: set[str]) -> list[Flowable]:
+        """The results of the cases not worked in full above, as a table: one row a step,
+        one column a case, the design case's value first for comparison."""
+        cases = [c for c in self.view.other_cases if c not in shown]
+        rows_by_step = self.view.steps_by_case(prefixes, [self.view.design_case, *cases])
+        rows_by_step = {k: v for k, v in rows_by_step.items() if set(v) & set(cases)}
+        # A step whose result is the design case's in every case (a pipe's friction at one
+        # flow under other levels) adds nothing to the table; it is counted, not repeated.
         design = self.view.design_case
-        cases = {design, self.r.get("surge", {}).get("case", design)}
-        cases.add(self.r.get("route", {}).get("min_pressure_case", design))
-        for family in _ROUTE_CHECKS:
-            cases |= {c["case"] for c in self.view.checks(family=family)}
-        return cases
+        same = [
+            k
+            for k, v in rows_by_step.items()
+            if design in v and len({st["value"] for st in v.values()}) == 1
+        ]
+        for key in same:
+            del rows_by_step[key]
+        if not rows_by_step and not same:
+            return []
+        out: list[Flowable] = []
+        if same:
+            out.append(
+                self.p(
+                    f"In cases {', '.join(cases)}, {len(same)} step{'s' if len(same) > 1 else ''}"
+                    f" of this section give the design case's result exactly and "
+                    f"{'are' if len(same) > 1 else 'is'} not repeated.",
+                    self.s.small,
+                )
+            )
+        per_table = 5  # case columns a table holds on a portrait page
+        for first in range(0, len(cases), per_table):
+            group = cases[first : first + per_table]
+            columns = [self.view.design_case, *group]
+            rows: list[list[Any]] = [["Step", "Unit", *columns]]
+            for key, by_case in rows_by_step.items():
+                sample = next(iter(by_case.values()))
+                kind = KIND_OF_SI_UNIT.get(sample["unit"])
+                unit = display_unit(kind, self.system) if kind else sample["unit"]
+                cells = [
+                    self.num(by_case[c], kind)
+                    if kind and c in by_case
+                    else fmt(by_case[c]["value"], 4)
+                    if c in by_case
+                    else "—"
+                    for c in columns
+                ]
+                label = (
+                    f"{text(sample['title'])} <font name='DejaVuMono' size='6.5'>"
+                    f"[{text(key)}]</font>"
+                )
+                rows.append([label, pretty_unit(unit) or "–", *cells])
+            w = self.width
+            share = w * 0.52 / len(columns)
+            table = self.table(rows, [w * 0.38, w * 0.1, *([share] * len(columns))])
+            names = ", ".join(group)
+            caption = self.p(
+                f"Results of case{'s' if len(group) > 1 else ''} {names} beside the design "
+                f"case {self.view.design_case} (each step worked as above; in full in the "
+                "attached listing).",
+                self.s.small,
+            )
+            out.append(KeepTogether([caption, table]) if len(rows) < 25 else caption)
+            if len(rows) >= 25:
+                out.append(table)
+        return out
 
     def num(self, quantity: dict[str, Any], kind: str) -> str:
         """A value in the report's display unit, without the unit (table cells)."""
@@ -121,7 +198,7 @@ class CalculationSection:
         return fmt(to_display(quantity["value"], quantity["unit"], unit), 4)
 
     def examples(self, steps: list[dict[str, Any]]) -> list[Flowable]:
-        """One worked step of each equation; the rest are in Appendix A."""
+        """One worked step of each equation; the rest are in the attached listing."""
         out: list[Flowable] = []
         shown: set[str] = set()
         for st in steps:
@@ -172,7 +249,7 @@ class CalculationSection:
         out.append(
             self.p(
                 "One worked example of each equation type follows; every step of "
-                "every pipe is listed in Appendix A.",
+                "every pipe is in the attached step listing.",
                 self.s.small,
             )
         )

@@ -6,10 +6,11 @@ from __future__ import annotations
 
 from typing import Any
 
-from reportlab.platypus import Flowable, PageBreak, Paragraph, Table, TableStyle
+from reportlab.platypus import Flowable, PageBreak, Paragraph, TableStyle
 
 from calcreport.report import style
 from calcreport.report.sections.common import _lines, text
+from calcreport.report.style import Table
 from calcreport.units import KIND_OF_SI_UNIT, pretty_unit
 
 
@@ -133,7 +134,19 @@ class ClosingSections:
         return out
 
     def appendix(self) -> list[Flowable]:
-        out: list[Flowable] = [self.heading("Appendix A — Full step listing", numbered=False)]
+        """Appendix A (the friction chart), B (files and the input) and, when the listing is
+        printed, C (every step of every state)."""
+        out: list[Flowable] = [
+            self.heading("Appendix A — Darcy friction factor chart", numbered=False)
+        ]
+        out += self.figure("friction_factor")
+        out += [PageBreak()] + self.files_appendix()
+        if self.listing == "full":
+            out += [PageBreak()] + self.listing_appendix()
+        return out
+
+    def listing_appendix(self) -> list[Flowable]:
+        out: list[Flowable] = [self.heading("Appendix C — Full step listing", numbered=False)]
         out.append(
             self.p(
                 "Every step of every case, in the order computed: its substituted equation, "
@@ -143,14 +156,11 @@ class ClosingSections:
         )
         for st in self.t["steps"]:
             out += self.step_block(st, typeset=st["function"] not in self.typeset)
-        out += [
-            PageBreak(),
-            self.heading("Appendix B — Darcy friction factor chart", numbered=False),
-        ]
-        out += self.figure("friction_factor")
-        out += [
-            PageBreak(),
-            self.heading("Appendix C — Files read and the input as entered", numbered=False),
+        return out
+
+    def files_appendix(self) -> list[Flowable]:
+        out: list[Flowable] = [
+            self.heading("Appendix B — Files read and the input as entered", numbered=False)
         ]
         inp = self.t["input"]
         sw = self.t.get("software", {})
@@ -175,10 +185,37 @@ class ClosingSections:
         )
         from calcreport.recheck import SCOPE
 
+        mono = "<font name='DejaVuMono'>"
+        if self.attached:
+            out.append(
+                self.p(
+                    "<b>Files attached to this PDF.</b> The report carries the files it was "
+                    "made from (PDF/A-3 associated files; a PDF reader lists them under "
+                    "attachments), each with its SHA-256, also stated in its description:",
+                    self.s.small,
+                )
+            )
+            rows = [["Attached file", "Content", "SHA-256"]] + [
+                [
+                    self.p(text(a.name), self.s.small),
+                    self.p(text(a.description), self.s.small),
+                    self.p(text(a.sha256), self.s.mono),
+                ]
+                for a in self.attached
+            ]
+            out.append(self.table(rows, [self.width * 0.26, self.width * 0.26, self.width * 0.48]))
+            where = (
+                f"The attached trace can be rechecked from this PDF alone with "
+                f"{mono}calcreport recheck REPORT.pdf</font>, which first confirms its SHA-256."
+            )
+        else:
+            where = (
+                f"The trace file written beside this report can be rechecked with "
+                f"{mono}calcreport recheck</font>."
+            )
         out.append(
             self.p(
-                f"<b>Checking this calculation by machine.</b> The trace file written beside this "
-                f"report can be rechecked with <font name='DejaVuMono'>calcreport recheck</font>. "
+                f"<b>Checking this calculation by machine.</b> {where} "
                 f"{text(SCOPE)} Catalog data version (SHA-256) "
                 f"{text(sw.get('catalog_sha256', '—'))}.",
                 self.s.small,

@@ -24,22 +24,16 @@ SECTIONS = (
     ("pipes", "Pipe hydraulics", ("pipe.",)),
     ("system", "System head and total dynamic head", ("system.",)),
     ("pump", "Operating point on the pump curve", ("pump.",)),
-    ("npsh", "NPSH available and margin", ("npsh.",)),
+    ("npsh", "NPSH available, margin and submergence", ("npsh.", "intake.")),
     ("power", "Power and energy", ("power.", "energy.")),
     ("motor", "Motor rating", ("motor.",)),
+    ("commissioning", "Gauge pressures for commissioning", ("commissioning.",)),
     ("route", "Pressure along the route", ("route.",)),
     ("surge", "Surge screening", ("surge.",)),
 )
 
 
-# Sections whose steps come from the cases that govern their checks, not only C1.
-_ANY_CASE = ("route", "surge")
-
-
 _PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
-
-
-_ROUTE_CHECKS = ("min_pressure", "pressure_rating", "surge")
 
 
 # Equations whose result is a sum of money, printed in the input's currency.

@@ -8,10 +8,11 @@ from typing import Any
 from xml.sax.saxutils import escape
 
 from reportlab.lib.units import mm
-from reportlab.platypus import Flowable, Paragraph, Spacer, Table, TableStyle
+from reportlab.platypus import Flowable, Paragraph, Spacer, TableStyle
 
 from calcreport.report import style
 from calcreport.report.sections.common import COVER_REVISIONS, _short, _template, text
+from calcreport.report.style import Table
 
 
 class FrontMatter:
@@ -133,7 +134,7 @@ class FrontMatter:
         if earlier > 0:
             revisions.insert(
                 1, ["…", "", f"{earlier} earlier revision{'s' if earlier > 1 else ''}: see the "
-                    "input as entered (Appendix C)", "", ""]
+                    "input as entered (Appendix B)", "", ""]
             )  # fmt: skip
         stamp = Table(
             [[Paragraph("Engineer's seal / stamp", s.small)]],
@@ -184,7 +185,8 @@ class FrontMatter:
             self.p(
                 f"Compared with the trace of revision {text(old.get('revision') or '—')} "
                 f"(input SHA-256 {text(digest)}…). "
-                f"Steps whose value moved are marked Δ in the calculation and in Appendix A: "
+                f"Steps whose value moved are marked Δ in the calculation"
+                f"{' and in Appendix C' if self.listing == 'full' else ''}: "
                 f"{len(c.steps_changed)} changed, {len(c.steps_added)} new, "
                 f"{len(c.steps_removed)} removed."
             )

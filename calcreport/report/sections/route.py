@@ -117,11 +117,8 @@ class RouteSections:
             )
         out += [self.p(line) for line in lines]
         out += self.figure("route_pressure")
-        # One worked step of each equation, those of the case that governs the lowest
-        # pressure first; every step is listed in Appendix A.
-        lowest = self.view.check("min_pressure")
-        low = lowest["case"] if lowest else self.view.design_case
-        steps = sorted(steps, key=lambda st: self.view.case_of(st) != low)
+        # One worked step of each equation (the table of points holds every point's
+        # result); every step of every state is in the attached listing.
         return out + self.examples(steps)
 
     def profile_section(self, shown: set[str]) -> list[Flowable]:
@@ -244,4 +241,21 @@ class RouteSections:
                 self.s.small,
             )
         )
-        return out + self.examples(steps)
+        # One worked step of each per-pipe equation (the table above holds every pipe's
+        # result); every line-level step (line and suction periods and head changes) in full.
+        pipes = set(result.get("pipes", {}))
+        worked: set[tuple[str, str]] = set()
+        for st in steps:
+            if _pipe_of(st) in pipes:
+                kind = (self.view.case_of(st), st["function"])
+                if kind in worked:
+                    continue
+                worked.add(kind)
+            out += self.step_block(st)
+        return out
+
+
+def _pipe_of(step: dict[str, Any]) -> str:
+    """The pipe a surge step belongs to (``surge.D1.period`` -> ``D1``), or ""."""
+    parts = step["id"].split(".")
+    return parts[-2] if len(parts) >= 3 else ""
