@@ -22,7 +22,17 @@ from pathlib import Path
 import pytest
 
 GOLDEN = Path(__file__).parents[1] / "golden" / "examples.json"
-DEPENDENCIES = ("numpy", "scipy", "matplotlib", "reportlab", "pint", "jinja2", "CoolProp")
+DEPENDENCIES = (
+    "numpy",
+    "scipy",
+    "matplotlib",
+    "reportlab",
+    "pint",
+    "jinja2",
+    "CoolProp",
+    "pikepdf",
+    "fonttools",
+)
 OUTPUTS = (".trace.json", ".pdf", ".pages.json")
 
 
