@@ -32,14 +32,17 @@ def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
         why.append("pumps run in parallel")
     if static > shutoff:
         why.append("the static head exceeds the shutoff head")
+    # A drooping curve is acceptable for a single pump whose static head stays below the
+    # shutoff head: the check then states that comparison, the one it passes on.
+    accepted = drooping and not risky
     return Check(
         id="curve_stability",
         title="Head curve rises steadily to shutoff",
         status="review" if risky else "pass",
-        value=peak - shutoff,
+        value=static if accepted else peak - shutoff,
         unit="m",
-        limit=0.0,
-        comparison="<=",
+        limit=shutoff if accepted else 0.0,
+        comparison="<" if accepted else "<=",
         basis="A drooping curve (head at shutoff below the curve's peak) "
         "can operate at two flows for one head: unstable in parallel operation and against a "
         "high static head",
@@ -52,7 +55,7 @@ def _curve_stability(model: Model, results: dict[str, Any]) -> Check:
             if drooping
             else ""
         ),
-        margin=shutoff - peak,
+        margin=shutoff - static if accepted else shutoff - peak,
     )
 
 

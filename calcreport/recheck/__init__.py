@@ -36,7 +36,12 @@ from pathlib import Path
 from typing import Any
 
 from calcreport import __version__
-from calcreport.recheck.bound import _bound_checks, _bound_results, _bound_status
+from calcreport.recheck.bound import (
+    _bound_checks,
+    _bound_governing,
+    _bound_results,
+    _bound_status,
+)
 from calcreport.recheck.common import (
     ABSOLUTE_FLOOR,
     Finding,
@@ -260,6 +265,7 @@ def recheck(
         bound=tuple(
             _bound_results(trace.get("results", {}), "results", context)
             + _bound_checks(trace.get("checks", []))
+            + _bound_governing(trace)
             + _bound_status(trace)
         ),
     )

@@ -147,6 +147,27 @@ def _bound_checks(checks: Any) -> list[Finding]:
     return out
 
 
+def _bound_governing(trace: dict[str, Any]) -> list[Finding]:
+    """The rated duty's governing state of each limit is the state its check names."""
+    results = trace.get("results") if isinstance(trace.get("results"), dict) else {}
+    rated = results.get("rated_duty") if isinstance(results, dict) else None
+    governing = rated.get("governing") if isinstance(rated, dict) else None
+    if not isinstance(governing, dict):
+        return []
+    checks = trace["checks"] if isinstance(trace.get("checks"), list) else []
+    cases = {c.get("id"): c.get("case") for c in checks if isinstance(c, dict)}
+    return [
+        Finding(
+            f"results.rated_duty.governing.{cid}",
+            state,
+            cases.get(cid),
+            f"The check {cid} names state {cases.get(cid)!r}.",
+        )
+        for cid, state in governing.items()
+        if cases.get(cid) != state
+    ]
+
+
 def _bound_status(trace: dict[str, Any]) -> list[Finding]:
     """The status the checks give: preliminary without a pump curve, does not comply with a
     failing check, not feasible without the design operating point, else for checking."""

@@ -1,6 +1,6 @@
 """The PDF calculation report, laid out from a trace (JSON form) alone.
 
-Sections in a reviewer's order: cover, summary, contents, the system at a
+Sections in a reviewer's order: cover, rated duty, summary, contents, the system at a
 glance, conventions / assumptions / criteria / inputs, the calculation,
 design checks, charts, cautions, references, appendices (full step listing,
 friction-factor chart, files read and the input echoed verbatim). Every
@@ -24,6 +24,7 @@ from xml.sax.saxutils import escape
 
 from reportlab.lib.units import mm
 from reportlab.pdfgen import canvas as rl_canvas
+from reportlab.platypus.flowables import _listWrapOn
 from reportlab.platypus import (
     BaseDocTemplate,
     CondPageBreak,
@@ -43,6 +44,7 @@ from calcreport.report.sections.calculation import CalculationSection
 from calcreport.report.sections.closing import ClosingSections
 from calcreport.report.sections.common import text
 from calcreport.report.sections.front import FrontMatter
+from calcreport.report.sections.rated import RatedDutySheet
 from calcreport.report.sections.route import RouteSections
 from calcreport.report.sections.summary import SummarySection
 from calcreport.report.style import Table
@@ -53,7 +55,13 @@ __all__ = ["document_info", "render_pdf"]
 
 
 class _Report(
-    FrontMatter, SummarySection, BasisSection, CalculationSection, RouteSections, ClosingSections
+    FrontMatter,
+    RatedDutySheet,
+    SummarySection,
+    BasisSection,
+    CalculationSection,
+    RouteSections,
+    ClosingSections,
 ):
     """Builds the story of one report from a trace."""
 
@@ -159,7 +167,15 @@ class _Report(
 
         self.figure_count += 1
         caption = f"Figure {self.figure_count} — {text(fig.title)}"
-        return [KeepTogether([ChartFlowable(fig.figure), self.p(caption, self.s.caption)])]
+        return self.kept([ChartFlowable(fig.figure), self.p(caption, self.s.caption)])
+
+    @staticmethod
+    def kept(flowables: list[Flowable]) -> list[Flowable]:
+        """``flowables`` kept on one page, and with a heading or lead paragraph before them
+        (a KeepTogether would let the heading stay behind at the foot of a page)."""
+        for f in flowables[:-1]:
+            f.keepWithNext = 1  # type: ignore[attr-defined]
+        return flowables
 
     def ref(self, key: str) -> str:
         return f"[{self.refs[key]}]" if key in self.refs else f"[{text(key)}]"
@@ -188,6 +204,9 @@ class _Report(
         story: list[Flowable] = []
         story += self.cover()
         story += [NextPageTemplate("body"), PageBreak()]
+        rated = self.rated_duty_sheet()
+        if rated:
+            story += rated + [PageBreak()]
         story += self.summary()
         if self.changes is not None:
             story += [PageBreak()] + self.changes_page()
@@ -203,11 +222,32 @@ class _Report(
         return story
 
 
+class _KeepWithStart(KeepTogether):
+    """A heading or lead paragraph kept with what follows it: the group moves to the next
+    page only when it and the start of a table or paragraph after it (``START``) do not fit
+    where it stands, not whenever the whole table does not (which would leave most of a
+    page empty before every long table)."""
+
+    START = 48.0  # pt: at least three lines of text, or a table's header and first rows
+    LONG = 250.0  # pt: what follows is kept whole up to this height (a short table)
+
+    def wrap(self, aW: float, aH: float) -> tuple[float, float]:
+        size = super().wrap(aW, aH)
+        *lead, last = self._content
+        if lead and isinstance(last, Table | Paragraph):  # these split across pages
+            _, h_lead = _listWrapOn(lead, aW, self.canv)
+            if self._H - h_lead > self.LONG:
+                rows = getattr(last, "_rowHeights", None)  # a table: its header and 2 rows
+                start = sum(rows[:3]) if rows else self.START
+                self._H = h_lead + max(start, self.START) + 6.0
+        return size
+
+
 class _Doc(BaseDocTemplate):
     """Collects every heading with its page, for the outline and the contents page."""
 
     def __init__(self, *args: Any, **kwargs: Any) -> None:
-        super().__init__(*args, **kwargs)
+        super().__init__(*args, keepTogetherClass=_KeepWithStart, **kwargs)
         self.headings: list[tuple[int, str, int, str]] = []
         self.step_pages: dict[str, list[int]] = {}
 

@@ -105,6 +105,8 @@ class Styles:
         self.substituted = ParagraphStyle(
             "substituted", parent=body, fontSize=8.4, leading=11, leftIndent=18, spaceAfter=1
         )
+        # A paragraph that introduces the table or list after it: kept on its page.
+        self.lead = ParagraphStyle("lead", parent=body, keepWithNext=1)
         self.h1 = ParagraphStyle(
             "h1",
             parent=body,

@@ -40,6 +40,7 @@ from calcreport.solver.operating import _solve_case
 from calcreport.solver.profile import _crest_title, _profile_state, _profile_states
 from calcreport.solver.pump_limits import _lift_speed, _thermal_min_flow
 from calcreport.solver.pumpcurve import _pump_curve, _viscous
+from calcreport.solver.rated_duty import rated_duty, rated_state
 from calcreport.solver.results import _status
 from calcreport.solver.states import Case, CurvePoints, Liquid, Notes, Surfaces
 from calcreport.trace import DESIGN_CASE, Check, Trace, TraceBuilder, source_of
@@ -188,6 +189,13 @@ def solve(model: Model) -> Trace:
                 lifted_point["route"] = state_route
             found += checks.evaluate(model, lifted_point, point.id)
             profile[point.id] = lifted_point
+    rated_id, rated = rated_state(b, model, design, design_curve, eta_drive, profile, states)
+    if rated is not None and rated_id in states:  # a running state of its own: checked
+        state_route = route.case_route(states[rated_id])
+        if state_route:
+            rated["route"] = state_route
+        found += checks.evaluate(model, rated, rated_id)
+        profile[rated_id] = rated
     if "electrical_power" in by_case[DESIGN_CASE]:
         P_e = source_of(by_case[DESIGN_CASE]["electrical_power"])
         energy = _energy(b, model, states[DESIGN_CASE].case, P_e, profile, notes)
@@ -214,6 +222,9 @@ def solve(model: Model) -> Trace:
     if profile:
         results["profile_states"] = profile
     found = checks.governing(found) + checks.once(model, results)
+    results["rated_duty"] = rated_duty(
+        b, model, results, rated_id, (rated or {**by_case, **profile}[rated_id]), found
+    )
     status = _status(model, results, found)
     if "shaft_power" not in results:
         notes.append(

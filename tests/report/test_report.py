@@ -130,8 +130,10 @@ def _contents_entries(page: str) -> list[tuple[str, str]]:
 
 
 def test_sections_in_reviewers_order(built):
-    # The order a plan checker reads: cover, summary, contents, then the body (DEVELOPERS.md).
+    # The order a plan checker reads: cover, rated duty, summary, contents, then the body
+    # (DEVELOPERS.md).
     order = [
+        "Rated duty",
         "Summary",
         "The system at a glance",
         "Basis of the calculation",
@@ -145,9 +147,11 @@ def test_sections_in_reviewers_order(built):
     ]
     for _, _, pages in built.values():
         contents = next(i for i, page in enumerate(pages) if "Contents" in page)
-        # The summary opens page 2; a design with many open checks may take a second page.
-        assert "1 Summary" in pages[1] and "1.3 Conclusion" in "".join(pages[1:contents])
-        assert contents <= 3
+        # The rated duty is page 2 and the summary opens page 3; a design with many open
+        # checks may take a second page.
+        assert pages[1].startswith("Rated duty")
+        assert "1 Summary" in pages[2] and "1.3 Conclusion" in "".join(pages[2:contents])
+        assert contents <= 4
         entries = _contents_entries(pages[contents])
         titles = [t for t, _ in entries]
         found = [next(i for i, t in enumerate(titles) if t.startswith(name)) for name in order]
@@ -254,7 +258,7 @@ def test_revision_history_and_project_texts_from_the_input(built):
 
 def test_selected_pump_report_shows_operating_point_and_motor(built):
     _, trace, pages = built["cooling_water_selected_pump"]
-    summary = " ".join(pages[1].split())
+    summary = " ".join(pages[2].split())
     motor = trace["results"]["motor"]["rated_power"]["value"] / 1e3
     assert f"{motor:.2f} kW" in summary
     assert "NPSHr" in summary
@@ -424,9 +428,34 @@ def test_preliminary_conclusion_names_the_case_of_highest_head(built):
     cases = trace["results"]["cases"]
     assert cases["C2"]["total_dynamic_head"]["value"] > cases["C1"]["total_dynamic_head"]["value"]
     feet = cases["C2"]["total_dynamic_head"]["value"] / 0.3048  # NIST SP 811
-    text = " ".join(pages[1].split())
+    text = " ".join(pages[2].split())
     conclusion = text[text.index("1.3 Conclusion") :]
     assert f"in the design case and {feet:.1f} ft in C2 (Highest static head" in conclusion
     # One case only: the sentence names no other.
     _, _, single = built["check_case"]
     assert "in the design case and" not in " ".join(single[1].split())
+
+
+def test_rated_duty_sheet_prints_the_data_sheet_point_with_its_steps(built):
+    from calcreport.units import show
+
+    for stem, (_, trace, pages) in built.items():
+        rated = trace["results"]["rated_duty"]
+        sheet = pages[1].replace("\n", " ")
+        units = trace["project"]["units"]
+        for column in [rated["duty"], *([rated["top"]] if "top" in rated else [])]:
+            assert f"state {column['state']}" in sheet, stem
+            for key, kind in (("flow", "flow"), ("total_dynamic_head", "length"),
+                              ("npsh_available", "length")):  # fmt: skip
+                printed = show(column[key], kind, units)
+                assert f"{printed} {column[key]['from']}" in sheet, (stem, key, printed)
+        if rated["control"] == "variable_speed":
+            # Both speeds: the duty's (reduced) and the top speed the motor is sized at.
+            assert "Rated duty (reduced speed)" in sheet and "Top speed (run-out)" in sheet
+            assert show(rated["duty"]["speed"], "speed", units) in sheet
+            assert show(rated["top"]["speed"], "speed", units) in sheet
+        if "motor_rated_power" in rated:
+            assert show(rated["motor_rated_power"], "power", units) in sheet
+        for check_id, state in rated["governing"].items():
+            title = next(c["title"] for c in trace["checks"] if c["id"] == check_id)
+            assert title.split(" (")[0][:30] in sheet, (stem, check_id)

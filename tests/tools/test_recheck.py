@@ -575,3 +575,13 @@ def test_a_forged_trace_exits_1_from_the_command_line(pump, tmp_path, capsys):
     assert main(["recheck", str(path)]) == 1
     out = capsys.readouterr().out
     assert "do not hold" in out
+
+
+def test_a_rated_duty_naming_a_state_other_than_its_checks_is_caught(pump):
+    governing = pump["results"]["rated_duty"]["governing"]
+    assert governing  # the selected pump's limits each name their governing state
+    limit = next(iter(governing))
+    governing[limit] = "C9"
+    report = recheck(pump)
+    assert not report.ok
+    assert any(f.what == f"results.rated_duty.governing.{limit}" for f in report.bound)

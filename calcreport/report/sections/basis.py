@@ -9,9 +9,15 @@ from typing import Any
 from reportlab.platypus import Flowable, Paragraph, TableStyle
 
 from calcreport.report import style
-from calcreport.report.sections.common import MAX_FITTINGS_LISTED, _ContentsMark, _lines, text
+from calcreport.report.sections.common import (
+    MAX_FITTINGS_LISTED,
+    _ContentsMark,
+    _key_runs,
+    _lines,
+    text,
+)
 from calcreport.report.style import Table
-from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit
+from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit, show
 
 
 class BasisSection:
@@ -142,11 +148,51 @@ class BasisSection:
         out.append(self.table(rows, [w * 0.2, w * 0.14, w * 0.46, w * 0.2]))
         out.append(self.heading("Inputs as entered and as used (SI)", 2))
         rows = [["Input key", "As entered", "As used (SI)"]]
-        for key, q in self.t["given"].items():
+        given = self.t["given"]
+        for key, q in given.items():
+            if key.startswith("catalog."):
+                continue
             entered = self.entered_value(key)
             si = f"{fmt(q['value'], 6)} {pretty_unit(q['unit'])}".strip()
             if "pressure" in key and q["unit"] == "Pa":
                 si += " (abs)" if key == "site.station_pressure" else " (gauge)"
             rows.append([self.p(text(key), self.s.mono), text(entered), si])
         out.append(self.table(rows, [w * 0.42, w * 0.3, w * 0.28]))
+        out += self.catalog_data_used()
         return out
+
+    def catalog_data_used(self) -> list[Flowable]:
+        """The catalog's values the steps used (not inputs): a run of a table's rows, such as
+        a rating series, as one line."""
+        given = {k: q for k, q in self.t["given"].items() if k.startswith("catalog.")}
+        if not given:
+            return []
+        rows = [["Catalog datum", "Value used"]]
+        for run in _key_runs(list(given)):
+            if "–" in run:
+                name, span = run[:-1].rsplit("[", 1)
+                first, last = (int(i) for i in span.split("–"))
+                low, high = given[f"{name}[{first}]"], given[f"{name}[{last}]"]
+                value = f"{last - first + 1} values, {self._datum(low)} to {self._datum(high)}"
+            else:
+                value = self._datum(given[run])
+            rows.append([self.p(text(run), self.s.mono), value])
+        w = self.width
+        return [
+            self.heading("Catalog data used", 2),
+            self.p(
+                "Values the steps take from the tool's catalog (each table names its source; "
+                "see References), in the report's units.",
+                self.s.lead,
+            ),
+            self.table(rows, [w * 0.5, w * 0.5]),
+        ]
+
+    def _datum(self, quantity: dict[str, Any]) -> str:
+        """A catalog value in the report's units, with the SI value beside it in a US report."""
+        kind = KIND_OF_SI_UNIT.get(quantity["unit"])
+        if kind is None:
+            return f"{fmt(quantity['value'], 6)} {pretty_unit(quantity['unit'])}".strip()
+        shown = self.q(quantity, kind)
+        si = show(quantity, kind, "SI")
+        return shown if shown == si else f"{shown} ({si} in SI)"

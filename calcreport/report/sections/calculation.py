@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from reportlab.platypus import Flowable, KeepTogether
+from reportlab.platypus import Flowable
 
 from calcreport.report.mathtext import Equation
 from calcreport.report.sections.common import (
@@ -64,7 +64,7 @@ class CalculationSection:
                 s.substituted,
             )
         )
-        return [KeepTogether(parts)]
+        return self.kept(parts)
 
     def calculation(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Calculation")]
@@ -156,7 +156,7 @@ class CalculationSection:
                 )
             )
         per_table = 5  # case columns a table holds on a portrait page
-        for first in range(0, len(cases), per_table):
+        for first in range(0, len(cases) if rows_by_step else 0, per_table):
             group = cases[first : first + per_table]
             columns = [self.view.design_case, *group]
             rows: list[list[Any]] = [["Step", "Unit", *columns]]
@@ -187,9 +187,7 @@ class CalculationSection:
                 "attached listing).",
                 self.s.small,
             )
-            out.append(KeepTogether([caption, table]) if len(rows) < 25 else caption)
-            if len(rows) >= 25:
-                out.append(table)
+            out += self.kept([caption, table])
         return out
 
     def num(self, quantity: dict[str, Any], kind: str) -> str:
