@@ -24,7 +24,6 @@ from xml.sax.saxutils import escape
 
 from reportlab.lib.units import mm
 from reportlab.pdfgen import canvas as rl_canvas
-from reportlab.platypus.flowables import _listWrapOn
 from reportlab.platypus import (
     BaseDocTemplate,
     CondPageBreak,
@@ -37,6 +36,7 @@ from reportlab.platypus import (
     Paragraph,
     TableStyle,
 )
+from reportlab.platypus.flowables import _listWrapOn
 
 from calcreport.report import style
 from calcreport.report.sections.basis import BasisSection
@@ -210,7 +210,7 @@ class _Report(
         story += self.summary()
         if self.changes is not None:
             story += [PageBreak()] + self.changes_page()
-        story += [PageBreak()] + self.contents()
+        contents_at = len(story)
         story += [PageBreak()] + self.at_a_glance()
         story += [PageBreak()] + self.basis()
         story += [PageBreak()] + self.calculation()
@@ -219,6 +219,10 @@ class _Report(
         story += [CondPageBreak(90 * mm)] + self.cautions()
         story += [CondPageBreak(60 * mm)] + self.references()
         story += [PageBreak()] + self.appendix()
+        # The contents list follows the summary on its page when it fits there: the canvas
+        # writes one line a heading (about 13 pt, chapters 15 pt) below its mark.
+        lines = sum(1 for f in story if getattr(f, "_toc", None) is not None)
+        story[contents_at:contents_at] = [CondPageBreak(lines * 13.5 + 60)] + self.contents()
         return story
 
 
@@ -248,7 +252,8 @@ class _Doc(BaseDocTemplate):
 
     def __init__(self, *args: Any, **kwargs: Any) -> None:
         super().__init__(*args, keepTogetherClass=_KeepWithStart, **kwargs)
-        self.headings: list[tuple[int, str, int, str]] = []
+        # (level, label, page, bookmark key, top of the heading on its page)
+        self.headings: list[tuple[int, str, int, str, float]] = []
         self.step_pages: dict[str, list[int]] = {}
 
     def afterFlowable(self, flowable: Flowable) -> None:
@@ -260,14 +265,14 @@ class _Doc(BaseDocTemplate):
         toc = getattr(flowable, "_toc", None)
         if toc is not None:
             level, label = toc
-            key = f"h{len(self.headings)}"
-            self.canv.bookmarkPage(key)
-            self.canv.addOutlineEntry(label, key, level=level, closed=level > 0)
-            self.headings.append((level, label, self.page, key))
+            # The canvas holds every page until the last is laid out (for 'Page N of M'):
+            # it sets the bookmark when it writes this page, where the heading stands.
+            top = self.frame._y + flowable.height
+            self.headings.append((level, label, self.page, f"h{len(self.headings)}", top))
 
 
 def _canvas_maker(
-    project: dict[str, Any], status: str, headings: list[tuple[int, str, int, str]]
+    project: dict[str, Any], status: str, headings: list[tuple[int, str, int, str, float]]
 ) -> Callable[..., rl_canvas.Canvas]:
     """A canvas that draws, once every page is laid out, the title block with 'Page N of
     M' on each page and the contents list with page numbers: one build pass suffices."""
@@ -293,13 +298,17 @@ def _canvas_maker(
                 self._title_block(total)
                 if contents and contents[0] == self._pageNumber:
                     self._contents(contents[1], contents[2])
+                for level, label, page, key, top in headings:
+                    if page == self._pageNumber:
+                        self.bookmarkHorizontal(key, 0, top)
+                        self.addOutlineEntry(label, key, level=level, closed=level > 0)
                 super().showPage()
             super().save()
 
         def _contents(self, x: float, y: float) -> None:
             width, _ = self._pagesize
             right = width - style.PAGE["margin_right"]
-            for level, label, page, key in headings:
+            for level, label, page, key, _ in headings:
                 size = 9.5 if level == 0 else 8.6
                 indent = 0.0 if level == 0 else 14.0
                 y -= 15.0 if level == 0 else 12.5

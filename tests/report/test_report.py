@@ -150,7 +150,7 @@ def test_sections_in_reviewers_order(built):
         # The rated duty is page 2 and the summary opens page 3; a design with many open
         # checks may take a second page.
         assert pages[1].startswith("Rated duty")
-        assert "1 Summary" in pages[2] and "1.3 Conclusion" in "".join(pages[2:contents])
+        assert "1 Summary" in pages[2] and "1.3 Conclusion" in "".join(pages[2 : contents + 1])
         assert contents <= 4
         entries = _contents_entries(pages[contents])
         titles = [t for t, _ in entries]
@@ -456,6 +456,84 @@ def test_rated_duty_sheet_prints_the_data_sheet_point_with_its_steps(built):
             assert show(rated["top"]["speed"], "speed", units) in sheet
         if "motor_rated_power" in rated:
             assert show(rated["motor_rated_power"], "power", units) in sheet
-        for check_id, state in rated["governing"].items():
+        for check_id in rated["governing"]:
             title = next(c["title"] for c in trace["checks"] if c["id"] == check_id)
             assert title.split(" (")[0][:30] in sheet, (stem, check_id)
+
+
+def _outline(reader: pypdf.PdfReader) -> list[tuple[int, str, int]]:
+    """(level, title, page index) of every bookmark, in order."""
+    out: list[tuple[int, str, int]] = []
+
+    def walk(items: list, level: int) -> None:
+        for item in items:
+            if isinstance(item, list):
+                walk(item, level + 1)
+            else:
+                out.append((level, item.title, reader.get_destination_page_number(item)))
+
+    walk(reader.outline, 0)
+    return out
+
+
+def test_bookmarks_and_contents_links_open_the_heading_s_page(built):
+    # The canvas holds the pages until the last is laid out; a bookmark set while laying
+    # out would point at the first page for every heading.
+    for stem, (pdf, _, pages) in built.items():
+        reader = pypdf.PdfReader(pdf)
+        outline = _outline(reader)
+        assert len(outline) >= 10
+        for _, title, index in outline:
+            assert title.split("  ")[-1] in pages[index].replace("\n", " "), (stem, title)
+        contents = next(i for i, page in enumerate(pages) if "Contents" in page)
+        pages_by_ref = {page.indirect_reference.idnum: i for i, page in enumerate(reader.pages)}
+        targets = [
+            pages_by_ref[a["/Dest"][0].idnum]
+            for a in (x.get_object() for x in reader.pages[contents].get("/Annots", []))
+            if "/Dest" in a
+        ]
+        assert targets == [index for _, _, index in outline], stem
+
+
+def _body_lines(page: pypdf.PageObject) -> list[tuple[float, str]]:
+    """(height on the page, text) of each line of the page's body (below the title block,
+    above the footer), lowest last."""
+    top = float(page.mediabox.height) - 80
+    found: list[tuple[float, str]] = []
+
+    def visit(text, cm, tm, font, size):
+        y = tm[5] * cm[3] + cm[5]
+        if text.strip() and 30 < y < top:
+            found.append((y, text.strip()))
+
+    page.extract_text(visitor_text=visit)
+    lines: dict[float, list[str]] = {}
+    for y, piece in found:
+        key = next((k for k in lines if abs(k - y) < 2), y)
+        lines.setdefault(key, []).append(piece)
+    return [(y, " ".join(parts)) for y, parts in sorted(lines.items(), reverse=True)]
+
+
+def test_no_heading_or_bare_table_header_at_the_foot_of_a_page(built):
+    for stem, (pdf, _, _) in built.items():
+        reader = pypdf.PdfReader(pdf)
+        headings = {(index, title.split("  ")[-1]) for _, title, index in _outline(reader)}
+        for index, page in enumerate(reader.pages):
+            lines = _body_lines(page)
+            if not lines:
+                continue
+            last = lines[-1][1]
+            assert not any(i == index and last.endswith(t) for i, t in headings), (stem, index + 1)
+            assert not last.startswith("Step Unit"), (stem, index + 1)  # a table's header alone
+
+
+def test_no_page_under_a_third_full_except_before_a_chapter(built):
+    for stem, (pdf, _, _) in built.items():
+        reader = pypdf.PdfReader(pdf)
+        chapters = {index for level, _, index in _outline(reader) if level == 0}
+        height = float(reader.pages[0].mediabox.height) - 110  # the body's height
+        for index, page in enumerate(reader.pages[:-1]):
+            lines = _body_lines(page)
+            used = (float(page.mediabox.height) - 80 - lines[-1][0]) / height if lines else 0
+            if index + 1 not in chapters:
+                assert used > 1 / 3, (stem, index + 1, round(used, 2))

@@ -226,11 +226,24 @@ class ClosingSections:
         # pieces of that count (each ending in ↩), so layout time stays linear in the input.
         from reportlab.pdfbase.pdfmetrics import stringWidth
 
+        # A long input is set in two balanced columns: half the pages, the same lines.
         mono = self.s.mono
-        per_line = max(20, int(self.width / stringWidth("M", mono.fontName, mono.fontSize)) - 1)
-        for line in self.input_text.splitlines() or [""]:
+        lines = self.input_text.splitlines() or [""]
+        columns = 2 if len(lines) > 60 else 1
+        gap = 12.0
+        column = (self.width - gap * (columns - 1)) / columns
+        # less the ↩ and the columns' own padding
+        per_line = max(
+            20, int((column - 2 * gap) / stringWidth("M", mono.fontName, mono.fontSize)) - 2
+        )
+        echo: list[Flowable] = []
+        for line in lines:
             pieces = [line[i : i + per_line] for i in range(0, len(line), per_line)] or [""]
             for n, piece in enumerate(pieces, start=1):
                 shown = text(piece).replace(" ", "&nbsp;") + ("↩" if n < len(pieces) else "")
-                out.append(Paragraph(shown or "&nbsp;", mono))
-        return out
+                echo.append(Paragraph(shown or "&nbsp;", mono))
+        if columns == 1:
+            return out + echo
+        from reportlab.platypus.flowables import BalancedColumns
+
+        return out + [BalancedColumns(echo, nCols=columns, spaceBefore=2, innerPadding=gap / 2)]
