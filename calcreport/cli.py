@@ -14,8 +14,9 @@ import json
 import os
 import re
 import sys
+import time
 import warnings
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import Any
 
@@ -210,13 +211,23 @@ def _solve(args: argparse.Namespace) -> int:
 
 
 def _build(args: argparse.Namespace) -> int:
+    tell = _progress(sys.stderr)
+    try:
+        return _build_with(args, tell)
+    finally:
+        tell("")  # the status line goes before any message that follows it
+
+
+def _build_with(args: argparse.Namespace, tell: Callable[[str], None]) -> int:
     from calcreport.model.loader import load
     from calcreport.output import write_all
     from calcreport.report import render
     from calcreport.solver import solve
 
     source = Path(args.input)
+    tell("reading the input")
     model = load(source, args.files_anywhere)
+    tell(f"solving {len(model.pipes)} pipe{'s' if len(model.pipes) != 1 else ''}")
     trace = solve(model)
     folder = Path(args.output) if args.output else source.parent
     if folder.exists() and not folder.is_dir():
@@ -236,7 +247,12 @@ def _build(args: argparse.Namespace) -> int:
     # rescanned by every collection the rendering triggers (about a tenth of a build).
     gc.freeze()
     rendered = render(
-        data, model.text, previous, _attachments(model, trace_file.name, text), args.listing
+        data,
+        model.text,
+        previous,
+        _attachments(model, trace_file.name, text),
+        args.listing,
+        tell,
     )
     pages = {
         "format": "calcreport-pages/1",
@@ -252,8 +268,25 @@ def _build(args: argparse.Namespace) -> int:
         },
         protect=source,
     )
+    tell("")
     print(f"wrote {pdf}, {trace_file} and {pages_file}")
     return EXIT_OK
+
+
+def _progress(stream: Any) -> Callable[[str], None]:
+    """A reporter of a build's stages: on an interactive terminal one status line, each
+    stage overwriting the last and the empty stage clearing it; elsewhere (a pipe, a file,
+    CI) nothing, so that scripted output stays clean."""
+    if not (hasattr(stream, "isatty") and stream.isatty()):
+        return lambda stage: None
+    started = time.monotonic()
+
+    def tell(stage: str) -> None:
+        line = f"calcreport: {stage}… ({time.monotonic() - started:.1f} s)" if stage else ""
+        stream.write("\r\x1b[K" + line)
+        stream.flush()
+
+    return tell
 
 
 def _attachments(model: Any, trace_name: str, trace_text: str) -> tuple[Any, ...]:

@@ -10,7 +10,7 @@ Heavy libraries load on first use, so solving never imports them.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
@@ -34,6 +34,7 @@ def render(
     previous: dict[str, Any] | None = None,
     attachments: Sequence[Attachment] = (),
     listing: str = "attached",
+    progress: Callable[[str], None] | None = None,
 ) -> Rendered:
     """The PDF calculation report of ``trace`` (deterministic bytes, PDF/A-3b).
 
@@ -41,7 +42,9 @@ def render(
     changes and a change mark beside every step whose value moved. ``attachments``
     are embedded as the PDF's associated files, with the full step listing
     (:mod:`calcreport.report.listing`) after them; ``listing="full"`` also prints it.
+    ``progress`` is told each stage as it starts (a long build shows it to its user).
     """
+    tell = progress or (lambda stage: None)
     from calcreport.report.archive import Attachment, archival
     from calcreport.report.document import document_info, render_pdf
     from calcreport.report.listing import listing_name, step_listing
@@ -60,8 +63,12 @@ def render(
         "Every step of every state, as the trace records it",
     )
     files = (*attachments, steps)
-    pdf, pages = render_pdf(trace, input_text, _figures(trace), changes, files, listing)
+    tell("drawing the charts")
+    figures = _figures(trace)
+    tell("laying out the pages")
+    pdf, pages = render_pdf(trace, input_text, figures, changes, files, listing)
     save_layouts()
+    tell("writing the archival PDF")
     info = document_info(trace["project"])
     return Rendered(
         archival(pdf, **info, project_date=trace["project"]["date"], attachments=files), pages

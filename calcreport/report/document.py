@@ -23,6 +23,7 @@ from typing import Any
 from xml.sax.saxutils import escape
 
 from reportlab.lib.units import mm
+from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen import canvas as rl_canvas
 from reportlab.platypus import (
     BaseDocTemplate,
@@ -137,9 +138,10 @@ class _Report(
         widths: list[float],
         header: bool = True,
         extra: list[tuple[Any, ...]] | None = None,
+        plain: bool = False,
     ) -> Table:
         cells = [
-            [c if isinstance(c, Flowable) else Paragraph(str(c), self.s.cell) for c in row]
+            [c if isinstance(c, Flowable) or plain else Paragraph(str(c), self.s.cell) for c in row]
             for row in rows
         ]
         table = Table(cells, colWidths=widths, repeatRows=1 if header else 0, hAlign="LEFT")
@@ -158,6 +160,30 @@ class _Report(
             ]
         table.setStyle(TableStyle(commands + (extra or [])))
         return table
+
+    def plain_table(
+        self, rows: list[list[str]], widths: list[float], mono: tuple[int, ...] = ()
+    ) -> Table:
+        """A table of plain text, as :meth:`table` draws it: a cell whose text fits its
+        column is set as a string (no paragraph layout: a long table of inputs costs a
+        fraction of the time), a longer one as a wrapped paragraph. The columns in
+        ``mono`` (after the header) are set in the monospaced face."""
+        cells: list[list[Any]] = [[Paragraph(text(c), self.s.cell) for c in rows[0]]]
+        for row in rows[1:]:
+            line: list[Any] = []
+            for n, value in enumerate(row):
+                st = self.s.mono if n in mono else self.s.cell
+                room = widths[n] - 6  # the cell's padding
+                fits = "\n" not in value and stringWidth(value, st.fontName, st.fontSize) <= room
+                line.append(value if fits else Paragraph(text(value), st))
+            cells.append(line)
+        extra: list[tuple[Any, ...]] = [
+            ("FONT", (0, 0), (-1, -1), self.s.cell.fontName, self.s.cell.fontSize,
+             self.s.cell.leading),
+            *[("FONT", (n, 1), (n, -1), self.s.mono.fontName, self.s.mono.fontSize,
+               self.s.cell.leading) for n in mono],
+        ]  # fmt: skip
+        return self.table(cells, widths, extra=extra, plain=True)
 
     def figure(self, key: str) -> list[Flowable]:
         fig = self.figures.get(key)

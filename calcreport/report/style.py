@@ -184,4 +184,5 @@ class Table(platypus.Table):
 
     def __init__(self, *args: Any, **kwargs: Any) -> None:
         super().__init__(*args, **kwargs)
-        self.setStyle(platypus.TableStyle([("FONTNAME", (0, 0), (-1, -1), "DejaVu")]))
+        if "cellStyles" not in kwargs:  # a split's pieces keep the cells' styles they had
+            self.setStyle(platypus.TableStyle([("FONTNAME", (0, 0), (-1, -1), "DejaVu")]))

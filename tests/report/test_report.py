@@ -537,3 +537,38 @@ def test_no_page_under_a_third_full_except_before_a_chapter(built):
             used = (float(page.mediabox.height) - 80 - lines[-1][0]) / height if lines else 0
             if index + 1 not in chapters:
                 assert used > 1 / 3, (stem, index + 1, round(used, 2))
+
+
+def test_long_route_groups_passing_pipe_checks_and_thins_chart_labels(tmp_path):
+    import sys
+
+    from calcreport.model.loader import loads
+    from calcreport.report.charts.base import MAX_PIPE_LABELS, _labelled
+    from calcreport.report.document import _Report
+    from calcreport.solver import solve
+
+    sys.path.insert(0, str(EXAMPLES.parent / "bench"))
+    from generate import system  # a rising main of many segments (the benchmark's)
+
+    route = list(range(500))
+    picked = _labelled(route)
+    assert len(picked) == MAX_PIPE_LABELS and picked[0] == 0 and picked[-1] == 499
+    assert _labelled(route[:5]) == route[:5]
+    trace = solve(loads(system(30).encode())).to_json()
+    report = _Report(trace, "", {})
+    rows, grouped = report.grouped_checks(trace["checks"])
+    assert grouped and len(rows) < len(trace["checks"])
+    for row in rows:
+        if "pipes pass" not in row["title"]:
+            continue
+        family = row["id"].rpartition(".")[0]
+        members = [c for c in trace["checks"] if c["id"].rpartition(".")[0] == family
+                   and c["status"] == "pass" and c["comparison"] == row["comparison"]]  # fmt: skip
+        same = [c for c in members if c["limit"] == row["limit"]]
+        margins = [c["margin"] for c in same if c["margin"] is not None]
+        assert row["margin"] == (min(margins) if margins else None)
+        assert f"{len(same)} pipes pass" in row["title"]
+    # A check that does not pass keeps its own row.
+    assert [c for c in trace["checks"] if c["status"] != "pass"] == [
+        c for c in rows if c["status"] != "pass"
+    ]

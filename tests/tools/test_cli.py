@@ -305,3 +305,28 @@ def test_solve_summary_shows_route_pressures_and_surge(capsys):
     out = capsys.readouterr().out
     assert "Lowest pressure head (gauge)" in out and "Highest pressure (gauge)" in out
     assert "Surge" in out and "transient analysis" in out
+
+
+def test_build_progress_shows_on_an_interactive_terminal_only(tmp_path, monkeypatch, capsys):
+    import io
+
+    from calcreport.cli import _progress
+
+    class Terminal(io.StringIO):
+        def isatty(self) -> bool:
+            return True
+
+    screen = Terminal()
+    tell = _progress(screen)
+    tell("solving 3 pipes")
+    tell("")
+    assert "solving 3 pipes" in screen.getvalue()
+    assert screen.getvalue().endswith("\r\x1b[K")  # the status line cleared at the end
+    piped = io.StringIO()
+    _progress(piped)("solving 3 pipes")
+    assert piped.getvalue() == ""
+    # A build to a pipe (as here, under pytest) writes nothing but its one line.
+    example = Path(__file__).parents[2] / "input_examples" / "check_case.toml"
+    assert main(["build", str(example), "-o", str(tmp_path)]) == 0
+    out, err = capsys.readouterr()
+    assert err == "" and out.startswith("wrote ")

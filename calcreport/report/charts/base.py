@@ -232,3 +232,17 @@ def _given(trace: dict[str, Any], key: str) -> dict[str, Any] | None:
 def _pipe_items(results: dict[str, Any]) -> list[tuple[str, dict[str, Any]]]:
     pipes = results.get("pipes", {})
     return [(str(k), v) for k, v in pipes.items() if isinstance(v, dict)]
+
+
+MAX_PIPE_LABELS = 16  # pipe labels a chart holds legibly
+
+
+def _labelled(items: Sequence[Any], limit: int = MAX_PIPE_LABELS) -> list[Any]:
+    """The items (pipes along a route) a chart labels: all of a short route; of a long
+    one, evenly spaced items with the first and the last, ``limit`` at most (every label
+    of a route of hundreds of pipes would be neither legible nor quick to place)."""
+    n = len(items)
+    if n <= limit:
+        return list(items)
+    picks = sorted({round(i * (n - 1) / (limit - 1)) for i in range(limit)})
+    return [items[i] for i in picks]

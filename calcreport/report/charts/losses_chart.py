@@ -8,6 +8,7 @@ from calcreport.report.charts.base import (
     BLUE,
     INK,
     LIGHT,
+    MAX_PIPE_LABELS,
     _Display,
     _freeze_layout,
     _legend_above,
@@ -36,7 +37,15 @@ def _draw_loss_breakdown(trace: dict[str, Any]) -> tuple[Any, str]:
     outlet = r.get("outlet_velocity_head")
     if outlet is not None and outlet["value"] != 0:
         rows.append(("outlet velocity head", [(d(outlet, "length"), "outlet")]))
-    for pid, p in _pipe_items(r):
+    pipes = _pipe_items(r)
+    whose = "each pipe's friction, fitting and equipment losses"
+    if len(pipes) > MAX_PIPE_LABELS:  # a bar a pipe would not be legible: the line's totals
+        whose = f"the friction and minor losses of the {len(pipes)} pipes together"
+        count = f"{len(pipes)} pipes"
+        rows.append((f"friction, {count}", [(d(r["friction_loss"], "length"), "friction")]))
+        rows.append((f"minor losses, {count}", [(d(r["minor_loss"], "length"), "minor")]))
+        pipes = []
+    for pid, p in pipes:
         parts: list[tuple[float, str]] = []
         if p.get("friction_loss") is not None:
             parts.append((d(p["friction_loss"], "length"), "friction"))
@@ -164,7 +173,7 @@ def _draw_loss_breakdown(trace: dict[str, Any]) -> tuple[Any, str]:
         ax.set_xlim(need_lo, need_hi)
 
     title = (
-        f"Head-loss breakdown at the design flow: static head, pressure head and each pipe's "
-        f"friction, fitting and equipment losses; total TDH = {_num(tdh)} {hu}"
+        f"Head-loss breakdown at the design flow: static head, pressure head and {whose}; "
+        f"total TDH = {_num(tdh)} {hu}"
     )
     return fig, title

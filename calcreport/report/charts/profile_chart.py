@@ -16,6 +16,7 @@ from calcreport.report.charts.base import (
     RUST,
     _Display,
     _given,
+    _labelled,
     _legend_above,
     _new_figure,
     _num,
@@ -155,7 +156,7 @@ def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
         text = "pump" + (f"\nTDH {_num(d(tdh, 'length'))} {hu}" if tdh else "")
         cands = [(8, 0), (-8, 0), (16, 10), (-16, 10)] + _ring((20, 32, 44))
         placer.place(text, (xj, yj), cands, leader_from=12)
-    for pid, i0, i1 in spans:
+    for pid, i0, i1 in _labelled(spans):
         xm = 0.5 * (x[i0] + x[i1])
         ym = 0.5 * (egl[i0] + egl[i1])
         placer.place(pid, (xm, ym), [(0, 5), (0, -8)] + _ring((12, 20, 30)), leader_from=10)

@@ -17,6 +17,7 @@ from calcreport.report.charts.base import (
     LIQUID,
     _Display,
     _given,
+    _labelled,
     _new_figure,
     _num,
     _pipe_items,
@@ -305,7 +306,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
                  (10, 10), (-10, 10)], leader_from=99)  # fmt: skip
 
     lu, du = d.label("length"), d.label("diameter")
-    for pid, p, pts in segments:
+    for pid, p, pts in _labelled(segments):
         size = []
         if p.get("length") is not None:
             size.append(f"L {_plain(d(p['length'], 'length'))} {lu}")

@@ -156,8 +156,8 @@ class BasisSection:
             si = f"{fmt(q['value'], 6)} {pretty_unit(q['unit'])}".strip()
             if "pressure" in key and q["unit"] == "Pa":
                 si += " (abs)" if key == "site.station_pressure" else " (gauge)"
-            rows.append([self.p(text(key), self.s.mono), text(entered), si])
-        out.append(self.table(rows, [w * 0.42, w * 0.3, w * 0.28]))
+            rows.append([key, entered, si])
+        out.append(self.plain_table(rows, [w * 0.42, w * 0.3, w * 0.28], mono=(0,)))
         out += self.catalog_data_used()
         return out
 

@@ -13,6 +13,10 @@ from calcreport.report.sections.common import _lines, text
 from calcreport.report.style import Table
 from calcreport.units import KIND_OF_SI_UNIT, pretty_unit
 
+# Passing checks of one kind in more pipes than this print as one row (the pipe nearest
+# its limit); a design check that does not pass always has its own row.
+GROUP_PIPE_CHECKS = 8
+
 
 class ClosingSections:
     """Design checks, charts, cautions, references and the appendices."""
@@ -86,8 +90,55 @@ class ClosingSections:
                 "its input fails when exceeded."
             )
         )
-        out.append(self.check_table(self.t["checks"]))
+        checks, grouped = self.grouped_checks(self.t["checks"])
+        if grouped:
+            out.append(
+                self.p(
+                    "Where more than "
+                    f"{GROUP_PIPE_CHECKS} pipes pass one check against one limit, the check "
+                    "is one row: the pipe nearest its limit, with the count of pipes; each "
+                    "pipe's check is in the trace and the attached listing.",
+                    self.s.small,
+                )
+            )
+        out.append(self.check_table(checks))
         return out
+
+    def grouped_checks(self, checks: list[dict[str, Any]]) -> tuple[list[dict[str, Any]], bool]:
+        """The checks with each family of passing per-pipe checks (one check id less its
+        pipe, one limit and comparison) of more than GROUP_PIPE_CHECKS pipes as one row:
+        the member with the least margin, titled with the count of pipes. Checks that do
+        not pass stay one row each."""
+        pipes = set(self.r.get("pipes", {}))
+        families: dict[tuple[Any, ...], list[dict[str, Any]]] = {}
+        for c in checks:
+            family, _, pipe = c["id"].rpartition(".")
+            if c["status"] == "pass" and pipe in pipes and family:
+                limit = c["limit"]["value"] if isinstance(c["limit"], dict) else c["limit"]
+                families.setdefault((family, limit, c["comparison"]), []).append(c)
+        big = {id(c): key for key, members in families.items()
+               if len(members) > GROUP_PIPE_CHECKS for c in members}  # fmt: skip
+        out: list[dict[str, Any]] = []
+        done: set[tuple[Any, ...]] = set()
+        for c in checks:
+            key = big.get(id(c))
+            if key is None:
+                out.append(c)
+                continue
+            if key in done:
+                continue
+            done.add(key)
+            members = families[key]
+            nearest = min(members, key=lambda m: (m["margin"] is None, m["margin"] or 0.0))
+            pipe = nearest["id"].rpartition(".")[2]
+            out.append(
+                {
+                    **nearest,
+                    "title": f"{nearest['title']}: {len(members)} pipes pass, {pipe} "
+                    "nearest its limit",
+                }
+            )
+        return out, bool(done)
 
     def charts(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("Charts")]

@@ -165,14 +165,16 @@ class FrontMatter:
             if kind == "water"
             else text(self.entered.get("fluid", {}).get("name", "the liquid"))
         )
-        pipes = self.r["pipes"]
+        pipes = list(self.r["pipes"])
+        # A long line's pipes by its first and last: the cover holds one page.
+        named = pipes if len(pipes) <= 8 else [*pipes[:3], "…", pipes[-1]]
         source = self.q(self.t["given"]["source.level"], "length")
         destination = self.q(self.t["given"]["destination.level"], "length")
         return (
             f"the transfer of {liquid} at {temperature} from the source surface at "
             f"{source} to the destination surface at {destination} through "
             f"{len(pipes)} pipe{'s' if len(pipes) != 1 else ''} "
-            f"({', '.join(text(p) for p in pipes)})"
+            f"({', '.join(text(p) for p in named)})"
         )
 
     def changes_page(self) -> list[Flowable]:
