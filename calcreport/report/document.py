@@ -43,7 +43,7 @@ from calcreport.report import style
 from calcreport.report.sections.basis import BasisSection
 from calcreport.report.sections.calculation import CalculationSection
 from calcreport.report.sections.closing import ClosingSections
-from calcreport.report.sections.common import text
+from calcreport.report.sections.common import plain, text
 from calcreport.report.sections.front import FrontMatter
 from calcreport.report.sections.rated import RatedDutySheet
 from calcreport.report.sections.route import RouteSections
@@ -174,8 +174,9 @@ class _Report(
             for n, value in enumerate(row):
                 st = self.s.mono if n in mono else self.s.cell
                 room = widths[n] - 6  # the cell's padding
-                fits = "\n" not in value and stringWidth(value, st.fontName, st.fontSize) <= room
-                line.append(value if fits else Paragraph(text(value), st))
+                shown = plain(value)
+                fits = stringWidth(shown, st.fontName, st.fontSize) <= room
+                line.append(shown if fits else Paragraph(text(value), st))
             cells.append(line)
         extra: list[tuple[Any, ...]] = [
             ("FONT", (0, 0), (-1, -1), self.s.cell.fontName, self.s.cell.fontSize,

@@ -112,32 +112,31 @@ def rated_duty(
 ) -> dict[str, Any]:
     """The rated-duty block of the results (values copied from the states that hold them,
     each naming its step): the liquid, the arrangement, the duty column (``state_id``'s
-    values) and, with a pump curve, the top-speed column (the design case at the top
-    speed, or at fixed speed the operating point), the NPSH margin asked, the motor and
+    values) and, with a pump curve, the design case's column (its run-out at its speed,
+    at fixed speed the operating point), the NPSH margin asked, the motor and
     the drive, and the governing state of each limit in :data:`PUMP_LIMITS`."""
-    design = results
     fluid = model.fluid
     out: dict[str, Any] = {
         "state": state_id,
         "control": model.operation.control,
         "liquid": "water" if fluid.kind == "water" else (fluid.name or fluid.kind),
         "temperature": _q(fluid.temperature),
-        "density": design["fluid"]["density"],
-        "viscosity": design["fluid"]["viscosity"],
-        "vapor_pressure": design["fluid"]["vapor_pressure"],
+        "density": results["fluid"]["density"],
+        "viscosity": results["fluid"]["viscosity"],
+        "vapor_pressure": results["fluid"]["vapor_pressure"],
         "arrangement": model.pump.arrangement if model.pump.count.value > 1 else "single",
-        "pumps_running": design["pumps_running"],
+        "pumps_running": results["pumps_running"],
         "pumps_standby": _q(model.pump.standby),
-        "required_flow": design["required_flow"],
+        "required_flow": results["required_flow"],
         "duty": _column(state, state_id),
     }
+    # The design case runs at the pump's operating speed (a speed range's top is a case
+    # of its own); the motor is sized on the fastest curve's peak power.
     speed = model.pump.speed or (model.pump.curve.speed if model.pump.curve else None)
-    if "operating_point" in design:
-        top = _column(design, DESIGN_CASE)
+    if "operating_point" in results:
+        top = _column(results, DESIGN_CASE)
         if speed is not None and "speed" not in top:
             top["speed"] = _q(speed)
-        if model.operation.control == "variable_speed" and model.pump.speed_range:
-            top["speed"] = _q(model.pump.speed_range[1])
         out["top"] = top
         duty = out["duty"]
         if state_id == RATED_STATE and "operating_point" not in state:

@@ -450,8 +450,8 @@ def test_rated_duty_sheet_prints_the_data_sheet_point_with_its_steps(built):
                 printed = show(column[key], kind, units)
                 assert f"{printed} {column[key]['from']}" in sheet, (stem, key, printed)
         if rated["control"] == "variable_speed":
-            # Both speeds: the duty's (reduced) and the top speed the motor is sized at.
-            assert "Rated duty (reduced speed)" in sheet and "Top speed (run-out)" in sheet
+            # Both speeds: the duty's (reduced) and the design case's (its run-out).
+            assert "Rated duty (reduced speed)" in sheet and "Design speed (run-out)" in sheet
             assert show(rated["duty"]["speed"], "speed", units) in sheet
             assert show(rated["top"]["speed"], "speed", units) in sheet
         if "motor_rated_power" in rated:

@@ -14,7 +14,7 @@ from calcreport.model.loader import loads
 from calcreport.recheck import recheck
 from calcreport.solver import solve
 from tests.solver.test_calc import CASE, _analytic_curve
-from tests.solver.test_energy import _solve
+from tests.solver.test_energy import PROFILE, _solve
 
 SYSTEM_AT_DUTY = 32.4977  # m at 20 L/s, fluids 1.3.1 + IAPWS-95 (test_calc)
 
@@ -97,3 +97,16 @@ def test_parallel_rated_duty_gives_each_pump_its_share():
     assert rated["arrangement"] == "parallel" and rated["pumps_running"]["value"] == 2
     top = rated["top"]
     assert top["flow_per_pump"]["value"] == pytest.approx(top["flow"]["value"] / 2, rel=1e-12)
+
+
+def test_design_speed_column_is_the_speed_the_design_case_runs_at():
+    # With a speed range the design case runs at the curve's 2900 rpm; the range's top,
+    # 3000 rpm, is a case of its own: the column must not name it for the design case.
+    points = ", ".join(f'{{ flow = "{q} L/s", hours = {h} }}' for q, h in PROFILE)
+    source = CASE.replace(
+        "efficiency = 0.78\n", 'speed_range = ["2000 rpm", "3000 rpm"]\n'
+    ).replace("hours_per_year = 6000\n", f'control = "variable_speed"\nprofile = [{points}]\n')
+    ranged = solve(loads((source + _analytic_curve(speed='speed = "2900 rpm"\n')).encode()))
+    top = ranged.results["rated_duty"]["top"]
+    assert top["speed"]["value"] * 60 == pytest.approx(2900)
+    assert top["flow"] == ranged.results["operating_point"]["flow"]

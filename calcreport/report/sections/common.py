@@ -85,10 +85,14 @@ def _short(value: Any, unit: str, key: str, system: str) -> str:
     return "—" if value is None else str(value)
 
 
+def plain(value: Any) -> str:
+    """Text from the input with its control characters as spaces (a table's string cell)."""
+    return "".join(ch if ch >= " " or ch in "\t" else " " for ch in str(value))
+
+
 def text(value: Any) -> str:
     """Text from the input, escaped so it prints literally (no markup, no control chars)."""
-    cleaned = "".join(ch if ch >= " " or ch in "\t" else " " for ch in str(value))
-    return escape(cleaned)
+    return escape(plain(value))
 
 
 _INDEXED = re.compile(r"^(.*)\[(\d+)\]$")

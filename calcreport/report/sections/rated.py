@@ -95,9 +95,9 @@ class RatedDutySheet:
             return (
                 "The point for the pump data sheet and the motor. Under variable-speed control "
                 f"the pump meets the required flow at a reduced speed (state {text(duty)}, "
-                f"{text(title)}); at the top speed it runs out to where its curve meets the "
-                "design system curve (the design case C1), which sizes the motor together "
-                "with the whole curve's peak power."
+                f"{text(title)}); at its design speed it runs out to where its curve meets "
+                "the design system curve (the design case C1). The motor is sized on the "
+                "peak power over the fastest curve."
             )
         return (
             "The point for the pump data sheet and the motor: the required flow at the head "
@@ -121,7 +121,7 @@ class RatedDutySheet:
         if top is None:
             heads = ["At the required flow"]
         elif rated["control"] == "variable_speed":
-            heads = ["Rated duty (reduced speed)", "Top speed (run-out)"]
+            heads = ["Rated duty (reduced speed)", "Design speed (run-out)"]
         else:
             heads = ["Rated point (data sheet)", "Operating point"]
         header = ["Pump"] + [
