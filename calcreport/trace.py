@@ -21,7 +21,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from calcreport.model.schema import Given
-from calcreport.physics.equation import Equation, lookup, registered
+from calcreport.physics.equation import Equation, Writer, fill, lookup, registered
 from calcreport.units import fmt, pretty_unit
 
 __all__ = [
@@ -341,15 +341,12 @@ class TraceBuilder:
         return Given(value, unit, step_id)
 
 
-def substitute(eq: Equation, values: dict[str, Any], result: float) -> str:
-    """The equation with the argument values and units written in, and its result."""
-    unit = pretty_unit(_unit(eq.unit))
-    shown = f"{fmt(result)} {unit}".strip()
+def substitute(eq: Equation, values: dict[str, Any], result: float, system: str = "SI") -> str:
+    """The equation with the argument values and units written in, and its result, in the
+    units of ``system`` as the equation's ``units`` say (:class:`Writer`): the trace keeps
+    the SI line; a US report prints the same line in US units."""
+    write = Writer("SI" if eq.units == "fixed" else system, display=eq.units == "display")
+    shown = write(result, _unit(eq.unit), eq.shown_in)
     if callable(eq.substitute):
-        return f"{eq.substitute(values, result, fmt)} → {eq.symbol} = {shown}"
-    filled = {
-        name: f"{fmt(value)} {pretty_unit(_unit(eq.params[name]))}".strip()
-        for name, value in values.items()
-        if not isinstance(value, tuple)
-    }
-    return f"{eq.symbol} = {eq.substitute.format(**filled)} = {shown}"
+        return f"{eq.substitute(values, result, write)} → {eq.symbol} = {shown}"
+    return f"{eq.symbol} = {fill(eq.substitute, values, eq.params, write)} = {shown}"

@@ -25,6 +25,7 @@ __all__ = [
     "Kind",
     "UnitProblem",
     "as_written",
+    "coherent_us",
     "display_unit",
     "expected",
     "fmt",
@@ -185,6 +186,7 @@ _FAST: dict[str, tuple[str, float, float]] = {
     "kWh/m^3": ("specific_energy", 3.6e6, 0.0),
     "kWh/kgal": ("specific_energy", 3.6e6 / (1000.0 * _GALLON), 0.0),
     "s": ("time", 1.0, 0.0),
+    "h": ("time", 3600.0, 0.0),
     "deg": ("angle", math.pi / 180.0, 0.0),
 }
 
@@ -432,6 +434,41 @@ def to_display(value: float, si_unit: str, unit: str) -> float:
         return (value - fast[2]) / fast[1]
     ureg = registry()
     return float(ureg.Quantity(value, si_unit or "dimensionless").to(unit).magnitude)
+
+
+# The coherent British gravitational (BG) units of the SI units the equations take: foot,
+# slug, second and pound-force (lbf = slug·ft/s²), so that a US substituted line is its own
+# arithmetic with no conversion factor hidden in it. Factors from the exact definitions
+# 1 ft = 0.3048 m, 1 lb = 0.45359237 kg and g_n = 9.80665 m/s² (NIST SP 811, appendix B):
+# BG value = SI value / factor.
+_FT, _LBF = _FOOT, _POUND_FORCE  # m, N
+_SLUG = _LBF / _FT  # kg (lbf·s²/ft)
+_BG = {
+    "m": ("ft", _FT),
+    "m^2": ("ft²", _FT**2),
+    "m^3": ("ft³", _FT**3),
+    "m/s": ("ft/s", _FT),
+    "m/s^2": ("ft/s²", _FT),
+    "m^2/s": ("ft²/s", _FT**2),
+    "m^3/s": ("ft³/s", _FT**3),
+    "kg/m^3": ("slug/ft³", _SLUG / _FT**3),
+    "Pa": ("lbf/ft²", _LBF / _FT**2),
+    "Pa*s": ("lbf·s/ft²", _LBF / _FT**2),
+    "W": ("ft·lbf/s", _LBF * _FT),
+    "J": ("ft·lbf", _LBF * _FT),
+    "J/m^3": ("ft·lbf/ft³", _LBF / _FT**2),
+    "J/kWh": ("ft·lbf/kWh", _LBF * _FT),
+    "J/(kg*K)": ("ft·lbf/(slug·°R)", _LBF * _FT / (_SLUG / 1.8)),
+    "K": ("°R", 1.0 / 1.8),
+    "delta_degC": ("°F (difference)", 1.0 / 1.8),
+}
+
+
+def coherent_us(si_unit: str) -> tuple[str, float]:
+    """The coherent BG unit of ``si_unit`` as printed and its size in ``si_unit``
+    (BG value = SI value / size); a unit with no BG counterpart (s, 1/s, rad, none) is its
+    own."""
+    return _BG.get(si_unit, (pretty_unit(si_unit), 1.0))
 
 
 # The kind of a trace quantity from its SI unit; a length is a diameter or a roughness and a

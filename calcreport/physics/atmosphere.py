@@ -159,6 +159,7 @@ def _pressure_steps(values: dict[str, float], p: float, fmt: Any) -> str:
     r"\ H = \frac{r_0\, z}{r_0 + z}",
     substitute=_pressure_steps,
     reference="us_standard_atmosphere_1976",
+    units="fixed",
 )
 def pressure(z: float) -> float:
     r"""Standard barometric pressure at a geometric elevation (US Standard Atmosphere 1976).

@@ -8,9 +8,20 @@ recompute it, without changing the function:
 - ``text``: the equation in plain Unicode, e.g. ``"Re = ρ·v·D/μ"``;
 - ``latex``: the same in matplotlib mathtext, for the PDF;
 - ``substitute``: the right-hand side with ``{name}`` placeholders that the
-  trace fills with the argument values and units, or a callable
-  ``(values, result, fmt) -> str`` for equations that print more than one line
-  (Colebrook prints both sides of the implicit equation);
+  trace fills with the argument values and units (``{name:unit}`` writes the value in
+  ``unit``; ``{g}`` and the other names of :data:`CONSTANTS` write a constant), or a
+  callable ``(values, result, write) -> str`` for equations that print more than one
+  line (Colebrook prints both sides of the implicit equation), ``write`` being a
+  :class:`Writer`;
+- ``units``: the units the substituted line is written in. ``"coherent"`` (most
+  equations): SI, or in a US report the coherent British gravitational units (ft, slug,
+  s, lbf), so that the printed numbers multiply out to the printed result in either
+  system; ``"display"``: a line that names values rather than working them (a property
+  correlation's state, a root found) prints them in the report's units; ``"fixed"``: an
+  empirical formula with dimensional constants (Hazen–Williams, metric specific speed)
+  prints in the units it is defined in, in either system;
+- ``shown_in``: the unit the result is written in when it is not the SI unit (energy
+  in kWh);
 - ``reference``: a key of ``catalog/references.toml``.
 
 The unit of each parameter and of the result are read from the numpy-style
@@ -26,11 +37,40 @@ from __future__ import annotations
 
 import inspect
 import re
+import string
 from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-__all__ = ["Equation", "equation", "listed", "lookup", "paired", "registered"]
+from calcreport.units import (
+    KIND_OF_SI_UNIT,
+    coherent_us,
+    display_unit,
+    fmt,
+    pretty_unit,
+    to_display,
+)
+
+__all__ = [
+    "CONSTANTS",
+    "Equation",
+    "Writer",
+    "equation",
+    "fill",
+    "listed",
+    "lookup",
+    "paired",
+    "registered",
+]
+
+UNITS = ("coherent", "display", "fixed")
+
+# Constants a substitution writes by name, in SI (value, unit), converted like any value.
+CONSTANTS = {
+    "g": (9.80665, "m/s^2"),  # standard gravity (CGPM 1901; NIST SP 811)
+    "inch": (0.0254, "m"),  # 1 in, for formulas that take a diameter in inches
+    "e_crane": (4.5e-5, "m"),  # Crane TP-410's roughness of clean commercial steel
+}
 
 _PARAM_LINE = re.compile(r"^(\w+)\s*:\s*\S.*$")
 _UNIT_AT_END = re.compile(r"\[([^\[\]]*)\]\s*$")
@@ -49,6 +89,8 @@ class Equation:
     reference: str
     params: dict[str, str]
     unit: str
+    units: str = "coherent"
+    shown_in: str = ""
 
     def __call__(self, **kwargs: Any) -> Any:
         return self.func(**kwargs)
@@ -115,8 +157,12 @@ def equation(
     latex: str,
     substitute: str | Callable[..., str],
     reference: str,
+    units: str = "coherent",
+    shown_in: str = "",
 ) -> Callable[[Callable[..., Any]], Callable[..., Any]]:
     """Register a physics function as a printable, recomputable equation."""
+    if units not in UNITS:
+        raise ValueError(f"units {units!r} not in {UNITS}")
 
     def register(func: Callable[..., Any]) -> Callable[..., Any]:
         # Named by topic: the module under physics, or the package for a topic in several
@@ -135,23 +181,79 @@ def equation(
             reference=reference,
             params=params,
             unit=unit,
+            units=units,
+            shown_in=shown_in,
         )
         return func
 
     return register
 
 
+class Writer:
+    """Writes the values of a substituted line: ``write(value, unit)`` gives
+    ``"998.21 kg/m³"``, ``write(value)`` the plain number.
+
+    ``unit`` is the value's SI unit. ``system`` "SI" writes it as it is; "US" writes it in
+    the coherent British gravitational unit (:func:`calcreport.units.coherent_us`), or with
+    ``display`` in the unit the US report prints for its kind. ``shown_in`` names the unit
+    to write in, in either system (kWh for an energy). Constants print to six significant
+    figures, values to five (:func:`calcreport.units.fmt`).
+    """
+
+    def __init__(self, system: str = "SI", display: bool = False) -> None:
+        self.us = system == "US"
+        self.display = display
+
+    def __call__(self, value: float, unit: str = "", shown_in: str = "") -> str:
+        return self._write(value, unit, shown_in, fmt)
+
+    def constant(self, name: str, shown_in: str = "") -> str:
+        """The constant ``name`` of :data:`CONSTANTS`, as a substitution writes it."""
+        value, unit = CONSTANTS[name]
+        return self._write(value, unit, shown_in, lambda x: f"{x:.6g}")
+
+    def _write(self, value: float, unit: str, shown_in: str, number: Callable[..., str]) -> str:
+        unit = "" if unit == "-" else unit
+        if shown_in:
+            value, printed = to_display(value, unit, shown_in), pretty_unit(shown_in)
+        elif not (self.us and unit):
+            printed = pretty_unit(unit)
+        elif self.display and unit in KIND_OF_SI_UNIT:
+            shown = display_unit(KIND_OF_SI_UNIT[unit], "US")
+            value, printed = to_display(value, unit, shown), pretty_unit(shown)
+        else:
+            printed, size = coherent_us(unit)
+            value = value / size
+        return f"{number(value)} {printed}".strip()
+
+
+def fill(template: str, values: dict[str, Any], params: dict[str, str], write: Writer) -> str:
+    """``template`` with each ``{name}`` (or ``{name:unit}``) written by ``write``: an
+    argument in its docstring unit, or a constant of :data:`CONSTANTS`."""
+    out = []
+    for literal, name, spec, _ in string.Formatter().parse(template):
+        out.append(literal)
+        if name is None:
+            continue
+        if name in values:
+            unit = params[name]
+            out.append(write(values[name], "" if unit == "-" else unit, spec or ""))
+        else:
+            out.append(write.constant(name, spec or ""))
+    return "".join(out)
+
+
 def listed(
     name: str, unit: str = "", *, sep: str = " + ", around: str = "{}", empty: str | None = None
 ) -> Callable[..., str]:
-    """A substitution printing the values of the list argument ``name``, each with ``unit``,
+    """A substitution writing the values of the list argument ``name`` (SI ``unit``),
     joined by ``sep`` and put in ``around``; ``empty`` stands for no values (when given)."""
 
-    def text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    def text(values: dict[str, Any], result: float, write: Writer) -> str:
         items = values[name]
         if not items and empty is not None:
             return empty
-        return around.format(sep.join(f"{fmt(v)} {unit}".strip() for v in items))
+        return around.format(sep.join(write(v, unit) for v in items))
 
     return text
 
@@ -165,16 +267,18 @@ def paired(
     *,
     around: str = "{}",
     empty: str | None = None,
+    shown: tuple[str, str] = ("", ""),
 ) -> Callable[..., str]:
-    """A substitution printing two list arguments element by element, ``a op b``, joined
-    by " + " and put in ``around``; ``empty`` stands for no values (when given)."""
+    """A substitution writing two list arguments element by element, ``a op b`` (SI units
+    ``first_unit``, ``second_unit``, written in the units ``shown`` where given), joined by
+    " + " and put in ``around``; ``empty`` stands for no values (when given)."""
 
-    def text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    def text(values: dict[str, Any], result: float, write: Writer) -> str:
         pairs = list(zip(values[first], values[second], strict=True))
         if not pairs and empty is not None:
             return empty
         terms = (
-            f"{f'{fmt(a)} {first_unit}'.strip()} {op} {f'{fmt(b)} {second_unit}'.strip()}"
+            f"{write(a, first_unit, shown[0])} {op} {write(b, second_unit, shown[1])}"
             for a, b in pairs
         )
         return around.format(" + ".join(terms))

@@ -36,7 +36,7 @@ INCH = 0.0254
     symbol="K",
     text="K = K1/Re + K∞·(1 + 1/D_in)",
     latex=r"K = \frac{K_1}{Re} + K_\infty\left(1 + \frac{1}{D_{in}}\right)",
-    substitute="{K1} / {Re} + {K_inf} × (1 + 1 / ({D} / 0.0254 m/in))",
+    substitute="{K1} / {Re} + {K_inf} × (1 + 1 / ({D} / {inch}))",
     reference="hooper_1981",
 )
 def two_k(K1: Any, K_inf: Any, Re: Any, D: Any) -> Any:
@@ -82,7 +82,7 @@ def two_k(K1: Any, K_inf: Any, Re: Any, D: Any) -> Any:
     symbol="K",
     text="K = K1/Re + Ki·(1 + Kd/D_in^0.3)",
     latex=r"K = \frac{K_1}{Re} + K_i\left(1 + \frac{K_d}{D_{in}^{0.3}}\right)",
-    substitute="{K1} / {Re} + {Ki} × (1 + {Kd} / ({D} / 0.0254 m/in)^0.3)",
+    substitute="{K1} / {Re} + {Ki} × (1 + {Kd} / ({D} / {inch})^0.3)",
     reference="darby_1999",
 )
 def three_k(K1: Any, Ki: Any, Kd: Any, Re: Any, D: Any) -> Any:
@@ -261,7 +261,7 @@ def refer_to_pipe(K_d: Any, d: Any, D_pipe: Any) -> Any:
     text="K = n·f_T, f_T = 0.25/[log10(ε_cs/(3.7·D))]², ε_cs = 0.045 mm",
     latex=r"K = n\, f_T,\ \ f_T = \frac{0.25}"
     r"{\left[\log_{10}\frac{\varepsilon_{cs}}{3.7 D}\right]^2}",
-    substitute="{n} × 0.25 / [log10(4.5e-05 m / (3.7 × {D}))]²",
+    substitute="{n} × 0.25 / [log10({e_crane} / (3.7 × {D}))]²",
     reference="crane_tp410",
 )
 def crane_k(n: Any, D: Any) -> Any:
@@ -309,6 +309,7 @@ def crane_k(n: Any, D: Any) -> Any:
     r"\bar{v} = \frac{1}{\rho}\ \mathrm{ft^3/lb}",
     substitute="{c} × √(16.0185 / {rho}) ft/s × 0.3048 m/ft",
     reference="crane_tp410",
+    units="fixed",
 )
 def full_lift_velocity(c: Any, rho: Any) -> Any:
     r"""Least pipe velocity that holds a check valve's disc fully open (Crane TP-410).

@@ -213,6 +213,7 @@ def swamee_jain(Re: Any, eD: Any) -> Any:
 
 
 def _colebrook_sides(values: dict[str, float], f: float, fmt: Any) -> str:
+    # Dimensionless throughout: the same line in either system (``fmt`` writes numbers).
     Re, eD = values["Re"], values["eD"]
     root = math.sqrt(f)
     lhs = 1.0 / root
@@ -231,6 +232,7 @@ def _colebrook_sides(values: dict[str, float], f: float, fmt: Any) -> str:
     r" + \frac{2.51}{Re\,\sqrt{f}}\right)",
     substitute=_colebrook_sides,
     reference="colebrook_1939",
+    units="fixed",  # dimensionless: the same line in either system
 )
 def colebrook(Re: Any, eD: Any) -> Any:
     r"""Darcy friction factor from the Colebrook-White equation, solved to convergence.
@@ -294,6 +296,7 @@ def colebrook(Re: Any, eD: Any) -> Any:
     latex=r"h_f = \frac{10.67\, L\, Q^{1.852}}{C^{1.852}\, D^{4.8704}}",
     substitute="10.67 × {L} × ({Q})^1.852 / (({C})^1.852 × ({D})^4.8704)",
     reference="hazen_williams_1920",
+    units="fixed",
 )
 def hazen_williams(L: Any, Q: Any, C: Any, D: Any) -> Any:
     r"""Friction head loss of water by the Hazen-Williams formula, SI form.

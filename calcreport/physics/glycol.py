@@ -82,6 +82,7 @@ def _incomp(output: str, fluid: str, T: float, w: float) -> float:
         "Melinder (2010) fit for ethylene glycol–water at T = {T}, glycol mass fraction w = {w}"
     ),
     reference="melinder_2010",
+    units="display",
 )
 def ethylene_glycol_density(T: Any, w: Any) -> Any:
     r"""Density of an aqueous ethylene-glycol solution at atmospheric pressure.
@@ -117,6 +118,7 @@ def ethylene_glycol_density(T: Any, w: Any) -> Any:
         "Melinder (2010) fit for ethylene glycol–water at T = {T}, glycol mass fraction w = {w}"
     ),
     reference="melinder_2010",
+    units="display",
 )
 def ethylene_glycol_viscosity(T: Any, w: Any) -> Any:
     r"""Dynamic viscosity of an aqueous ethylene-glycol solution.
@@ -150,6 +152,7 @@ def ethylene_glycol_viscosity(T: Any, w: Any) -> Any:
         "Melinder (2010) fit for propylene glycol–water at T = {T}, glycol mass fraction w = {w}"
     ),
     reference="melinder_2010",
+    units="display",
 )
 def propylene_glycol_density(T: Any, w: Any) -> Any:
     r"""Density of an aqueous propylene-glycol solution at atmospheric pressure.
@@ -183,6 +186,7 @@ def propylene_glycol_density(T: Any, w: Any) -> Any:
         "Melinder (2010) fit for propylene glycol–water at T = {T}, glycol mass fraction w = {w}"
     ),
     reference="melinder_2010",
+    units="display",
 )
 def propylene_glycol_viscosity(T: Any, w: Any) -> Any:
     r"""Dynamic viscosity of an aqueous propylene-glycol solution.
@@ -209,6 +213,7 @@ def propylene_glycol_viscosity(T: Any, w: Any) -> Any:
 
 
 def _raoult_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    # A correlation in SI (units="fixed"): ``fmt`` writes numbers, the units are literal.
     T, w, M = values["T"], values["w"], values["M_glycol"]
     x = _water_mole_fraction(w, M)
     T_sat = max(T, _T_MIN_SAT)
@@ -231,6 +236,7 @@ def _water_mole_fraction(w: float, M_glycol: float) -> float:
     latex=r"p_v = x_w\, p_{sat,water}(T)",
     substitute=_raoult_text,
     reference="common_practice",
+    units="fixed",
 )
 def raoult_vapor_pressure(T: Any, w: Any, M_glycol: Any) -> Any:
     r"""Vapour pressure of an aqueous glycol solution by Raoult's law on the water.

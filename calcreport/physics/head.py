@@ -75,8 +75,7 @@ def static_head(z_d: Any, z_s: Any) -> Any:
     symbol="H_c",
     text="H_c = z_c − z_s − p_s/(ρ·g) + h_L,c + v_c²/(2·g)",
     latex=r"H_c = z_c - z_s - \frac{p_s}{\rho g} + h_{L,c} + \frac{v_c^2}{2 g}",
-    substitute="{z_c} − {z_s} − {p_s} / ({rho} × 9.80665 m/s²) + {h_L} + ({v})² / "
-    "(2 × 9.80665 m/s²)",
+    substitute="{z_c} − {z_s} − {p_s} / ({rho} × {g}) + {h_L} + ({v})² / (2 × {g})",
     reference="white_fm",
 )
 def crest_head(z_c: Any, z_s: Any, p_s: Any, rho: Any, h_L: Any, v: Any) -> Any:
@@ -126,7 +125,7 @@ def crest_head(z_c: Any, z_s: Any, p_s: Any, rho: Any, h_L: Any, v: Any) -> Any:
     symbol="H_p",
     text="H_p = (p_d − p_s)/(ρ·g)",
     latex=r"H_p = \frac{p_d - p_s}{\rho g}",
-    substitute="({p_d} − {p_s}) / ({rho} × 9.80665 m/s²)",
+    substitute="({p_d} − {p_s}) / ({rho} × {g})",
     reference="white_fm",
 )
 def pressure_head(p_d: Any, p_s: Any, rho: Any) -> Any:
@@ -246,8 +245,8 @@ def saturation_gauge_pressure(p_v: Any, p_baro: Any) -> Any:
     text="NPSHa = (p_baro + p_s)/(ρ·g) + (z_s − z_p) − h_L,s − p_v/(ρ·g)",
     latex=r"NPSH_a = \frac{p_{baro} + p_s}{\rho g} + (z_s - z_p) - h_{L,s}"
     r" - \frac{p_v}{\rho g}",
-    substitute="({p_baro} + {p_s}) / ({rho} × 9.80665 m/s²) + ({z_s} − {z_p})"
-    " − {h_L} − {p_v} / ({rho} × 9.80665 m/s²)",
+    substitute="({p_baro} + {p_s}) / ({rho} × {g}) + ({z_s} − {z_p})"
+    " − {h_L} − {p_v} / ({rho} × {g})",
     reference="hi_npsh",
 )
 def npsh_available(p_baro: Any, p_s: Any, rho: Any, z_s: Any, z_p: Any, h_L: Any, p_v: Any) -> Any:
@@ -332,7 +331,7 @@ def absolute_pressure(p_baro: Any, p_g: Any) -> Any:
     symbol="p_in",
     text="p_in = p_s + ρ·g·(z_s − z_p − h_L,s) − ρ·v_in²/2",
     latex=r"p_{in} = p_s + \rho g (z_s - z_p - h_{L,s}) - \frac{\rho v_{in}^2}{2}",
-    substitute="{p_s} + {rho} × 9.80665 m/s² × ({z_s} − {z_p} − {h_L}) − {rho} × ({v_in})² / 2",
+    substitute="{p_s} + {rho} × {g} × ({z_s} − {z_p} − {h_L}) − {rho} × ({v_in})² / 2",
     reference="white_fm",
 )
 def suction_flange_pressure(p_s: Any, rho: Any, z_s: Any, z_p: Any, h_L: Any, v_in: Any) -> Any:
@@ -377,7 +376,7 @@ def suction_flange_pressure(p_s: Any, rho: Any, z_s: Any, z_p: Any, h_L: Any, v_
     symbol="p_out",
     text="p_out = p_in + ρ·g·H − ρ·(v_out² − v_in²)/2",
     latex=r"p_{out} = p_{in} + \rho g H - \frac{\rho (v_{out}^2 - v_{in}^2)}{2}",
-    substitute="{p_in} + {rho} × 9.80665 m/s² × {H} − {rho} × (({v_out})² − ({v_in})²) / 2",
+    substitute="{p_in} + {rho} × {g} × {H} − {rho} × (({v_out})² − ({v_in})²) / 2",
     reference="white_fm",
 )
 def discharge_flange_pressure(p_in: Any, rho: Any, H: Any, v_in: Any, v_out: Any) -> Any:

@@ -56,7 +56,7 @@ def submergence(z_l: Any, z_i: Any) -> Any:
     symbol="S_min",
     text="S_min = D·(1 + 2.3·v/√(g·D))",
     latex=r"S_{min} = D \left(1 + 2.3 \frac{v}{\sqrt{g D}}\right)",
-    substitute="{D} × (1 + 2.3 × {v} / √(9.80665 m/s² × {D}))",
+    substitute="{D} × (1 + 2.3 × {v} / √({g} × {D}))",
     reference="hi_intake",
 )
 def minimum_submergence(v: Any, D: Any) -> Any:

@@ -156,6 +156,7 @@ def _make(kind: str, prop: str) -> Callable[..., Any]:
         rf"_{{{'v,' if prop == 'vapor_pressure' else ''}\mathrm{{{label}}}}}({arguments})",
         substitute=substitute,
         reference=reference,
+        units="display",
     )(func)
 
 

@@ -73,7 +73,7 @@ def velocity(Q: Any, D: Any) -> Any:
     symbol="h_v",
     text="h_v = v²/(2·g)",
     latex=r"h_v = \frac{v^2}{2 g}",
-    substitute="({v})² / (2 × 9.80665 m/s²)",
+    substitute="({v})² / (2 × {g})",
     reference="white_fm",
 )
 def velocity_head(v: Any) -> Any:
@@ -107,7 +107,7 @@ def velocity_head(v: Any) -> Any:
     symbol="h_f",
     text="h_f = f·(L/D)·v²/(2·g)",
     latex=r"h_f = f\,\frac{L}{D}\,\frac{v^2}{2 g}",
-    substitute="{f} × {L} / {D} × ({v})² / (2 × 9.80665 m/s²)",
+    substitute="{f} × {L} / {D} × ({v})² / (2 × {g})",
     reference="white_fm",
 )
 def darcy_weisbach(f: Any, L: Any, D: Any, v: Any) -> Any:
@@ -227,7 +227,7 @@ def k_total(K: Any, count: Any) -> Any:
     symbol="h_m",
     text="h_m = ΣK·v²/(2·g)",
     latex=r"h_m = \Sigma K\,\frac{v^2}{2 g}",
-    substitute="{K_total} × ({v})² / (2 × 9.80665 m/s²)",
+    substitute="{K_total} × ({v})² / (2 × {g})",
     reference="crane_tp410",
 )
 def minor_loss(K_total: Any, v: Any) -> Any:
@@ -264,7 +264,7 @@ def minor_loss(K_total: Any, v: Any) -> Any:
     symbol="h_eq",
     text="h_eq = Δp_r/(ρ·g)·(Q/Q_r)²",
     latex=r"h_{eq} = \frac{\Delta p_r}{\rho g}\left(\frac{Q}{Q_r}\right)^2",
-    substitute="{dp} / ({rho} × 9.80665 m/s²) × ({Q} / {Q_rated})²",
+    substitute="{dp} / ({rho} × {g}) × ({Q} / {Q_rated})²",
     reference="white_fm",
 )
 def rated_loss(dp: Any, Q: Any, Q_rated: Any, rho: Any) -> Any:
@@ -310,7 +310,7 @@ def rated_loss(dp: Any, Q: Any, Q_rated: Any, rho: Any) -> Any:
     symbol="Σh",
     text="Σh = h_1 + h_2 + …",
     latex=r"\Sigma h = \sum_i h_i",
-    substitute=listed("h", "m", empty="0 m"),
+    substitute=listed("h", "m", empty="0"),
     reference="white_fm",
 )
 def head_sum(h: Any) -> Any:

@@ -25,12 +25,12 @@ RATING_SERIES = {"IEC": "IEC 60072-1", "NEMA": "NEMA MG 1"}
 SERVICE_STANDARDS = "IEC 60034-1, NEMA MG 1"
 
 
-def _ratings_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+def _ratings_text(values: dict[str, Any], result: float, write: Any) -> str:
     below = [r for r in values["ratings"] if r < result]
-    shown = f"{fmt(below[-1])} W < " if below else ""
+    shown = f"{write(below[-1], 'W')} < " if below else ""
     return (
-        f"smallest standard rating ≥ {fmt(values['P'])} W in the series: "
-        f"{shown}{fmt(values['P'])} W ≤ {fmt(result)} W"
+        f"smallest standard rating ≥ {write(values['P'], 'W')} in the series: "
+        f"{shown}{write(values['P'], 'W')} ≤ {write(result, 'W')}"
     )
 
 
@@ -40,6 +40,7 @@ def _ratings_text(values: dict[str, Any], result: float, fmt: Any) -> str:
     latex=r"P_{motor} = \min\{P_r \in \mathrm{series} : P_r \geq P_{req}\}",
     substitute=_ratings_text,
     reference="iec_60072",
+    units="display",
 )
 def standard_rating(P: Any, ratings: Any) -> Any:
     r"""The smallest standard motor rating not below a required output.

@@ -34,8 +34,7 @@ __all__ = [
     symbol="h_p",
     text="h_p = z_s + p_s/(ρ·g) + H − h_L − v²/(2·g) − z",
     latex=r"h_p = z_s + \frac{p_s}{\rho g} + H - h_L - \frac{v^2}{2 g} - z",
-    substitute="{z_s} + {p_s} / ({rho} × 9.80665 m/s²) + {H} − {h_L} − ({v})² / "
-    "(2 × 9.80665 m/s²) − {z}",
+    substitute="{z_s} + {p_s} / ({rho} × {g}) + {H} − {h_L} − ({v})² / (2 × {g}) − {z}",
     reference="white_fm",
 )
 def node_pressure_head(z_s: Any, p_s: Any, rho: Any, H: Any, h_L: Any, v: Any, z: Any) -> Any:
@@ -128,7 +127,7 @@ def elevation_along(z_1: Any, z_2: Any, x: Any, L: Any) -> Any:
     symbol="h_vap",
     text="h_vap = (p_v − p_baro)/(ρ·g)",
     latex=r"h_{vap} = \frac{p_v - p_{baro}}{\rho g}",
-    substitute="({p_v} − {p_baro}) / ({rho} × 9.80665 m/s²)",
+    substitute="({p_v} − {p_baro}) / ({rho} × {g})",
     reference="white_fm",
 )
 def vapour_limit_head(p_v: Any, p_baro: Any, rho: Any) -> Any:
@@ -167,7 +166,7 @@ def vapour_limit_head(p_v: Any, p_baro: Any, rho: Any) -> Any:
     symbol="p_max",
     text="p_max = p_s + ρ·g·(z_s + H_max − z)",
     latex=r"p_{max} = p_s + \rho g (z_s + H_{max} - z)",
-    substitute="{p_s} + {rho} × 9.80665 m/s² × ({z_s} + {H_max} − {z})",
+    substitute="{p_s} + {rho} × {g} × ({z_s} + {H_max} − {z})",
     reference="white_fm",
 )
 def static_pressure(p_s: Any, rho: Any, z_s: Any, H_max: Any, z: Any) -> Any:
@@ -217,7 +216,7 @@ def static_pressure(p_s: Any, rho: Any, z_s: Any, H_max: Any, z: Any) -> Any:
     symbol="p",
     text="p = ρ·g·h",
     latex=r"p = \rho g h",
-    substitute="{rho} × 9.80665 m/s² × {h}",
+    substitute="{rho} × {g} × {h}",
     reference="white_fm",
 )
 def head_to_pressure(rho: Any, h: Any) -> Any:

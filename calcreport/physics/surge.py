@@ -276,7 +276,7 @@ def line_period(L: Any, a: Any) -> Any:
     symbol="ΔH",
     text="ΔH = a·Δv/g",
     latex=r"\Delta H = \frac{a\, \Delta v}{g}",
-    substitute="{a} × {dv} / 9.80665 m/s²",
+    substitute="{a} × {dv} / {g}",
     reference="wylie_streeter_1993",
 )
 def joukowsky_head(a: Any, dv: Any) -> Any:
@@ -311,10 +311,10 @@ def joukowsky_head(a: Any, dv: Any) -> Any:
     return a * dv / G
 
 
-def _series_text(values: dict[str, Any], result: float, fmt: Any) -> str:
-    momentum = paired("L", "m", "×", "v", "m/s")(values, result, fmt)
-    travel = paired("L", "m", "/", "a", "m/s")(values, result, fmt)
-    return f"({momentum}) / (9.80665 m/s² × ({travel}))"
+def _series_text(values: dict[str, Any], result: float, write: Any) -> str:
+    momentum = paired("L", "m", "×", "v", "m/s")(values, result, write)
+    travel = paired("L", "m", "/", "a", "m/s")(values, result, write)
+    return f"({momentum}) / ({write.constant('g')} × ({travel}))"
 
 
 @equation(

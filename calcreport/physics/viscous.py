@@ -87,6 +87,7 @@ def kinematic_viscosity(mu: Any, rho: Any) -> Any:
     substitute="16.5 × ({nu} × 1e6 cSt/(m²/s))^0.5 × ({H} / {stages})^0.0625 / "
     "(({Q} / {eyes} × 3600 s/h)^0.375 × ({n} × 60 s/min)^0.25)",
     reference="hi_viscous",
+    units="fixed",
 )
 def viscosity_parameter(nu: Any, H: Any, Q: Any, n: Any, stages: Any, eyes: Any) -> Any:
     r"""The Hydraulic Institute's viscosity parameter B at the pump's water BEP.

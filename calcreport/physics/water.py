@@ -181,6 +181,7 @@ def _check_region1(T: float, p: float) -> None:
     r"\ \pi = \frac{p}{16.53\,\mathrm{MPa}},\ \tau = \frac{1386\,\mathrm{K}}{T}",
     substitute="IAPWS-IF97 region 1 at T = {T}, p = {p}",
     reference="iapws_if97",
+    units="display",
 )
 def density(T: float, p: float) -> float:
     r"""Density of liquid water from IAPWS-IF97 region 1.
@@ -296,6 +297,7 @@ def _derivatives(T: float, p: float) -> tuple[float, float, float, float, float]
     latex=r"c_p = -R\,\tau^2 \gamma_{\tau\tau}",
     substitute="IAPWS-IF97 region 1 at T = {T}, p = {p}",
     reference="iapws_if97",
+    units="display",
 )
 def heat_capacity(T: float, p: float) -> float:
     r"""Specific isobaric heat capacity of liquid water from IAPWS-IF97 region 1.
@@ -335,6 +337,7 @@ def heat_capacity(T: float, p: float) -> float:
     latex=r"K = \rho\, w^2",
     substitute="IAPWS-IF97 region 1 density and speed of sound at T = {T}, p = {p}",
     reference="iapws_if97",
+    units="display",
 )
 def bulk_modulus(T: float, p: float) -> float:
     r"""Isentropic bulk modulus of liquid water, ρ·w², from IAPWS-IF97 region 1.
@@ -384,6 +387,7 @@ def bulk_modulus(T: float, p: float) -> float:
     latex=r"p_s = 1\,\mathrm{MPa} \left[\frac{2C}{-B + \sqrt{B^2 - 4AC}}\right]^4",
     substitute="IAPWS-IF97 region 4 saturation-pressure equation at T = {T}",
     reference="iapws_if97",
+    units="display",
 )
 def saturation_pressure(T: float) -> float:
     r"""Saturation (vapour) pressure of water from IAPWS-IF97 region 4.
@@ -494,6 +498,7 @@ def saturation_temperature(p: float) -> float:
     latex=r"\mu = 1\,\mu\mathrm{Pa\,s} \times \bar\mu_0(\bar T)\,\bar\mu_1(\bar T, \bar\rho)",
     substitute="IAPWS 2008 viscosity at T = {T}, ρ = {rho}",
     reference="iapws_2008_viscosity",
+    units="display",
 )
 def viscosity(T: float, rho: float) -> float:
     r"""Dynamic viscosity of water from the IAPWS 2008 formulation, without critical enhancement.

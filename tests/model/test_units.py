@@ -242,3 +242,65 @@ def test_fast_conversions_equal_pint(unit):
 
 
 KINDS_SI = {name: spec.si for name, spec in units.KINDS.items()}
+
+
+# Coherent British gravitational units, built from the exact definitions above: the slug
+# is the mass a pound-force accelerates at 1 ft/s² ([SP811] B.8 "slug": 14.59390 kg).
+POUND_FORCE = POUND * G_N  # N; [SP811] B.8 "pound-force": 4.448222 N
+SLUG = POUND_FORCE / FOOT  # kg
+
+
+@pytest.mark.parametrize(
+    ("si", "printed", "size"),
+    [
+        ("m", "ft", FOOT),
+        ("m^3/s", "ft³/s", FOOT**3),
+        ("m/s^2", "ft/s²", FOOT),
+        ("kg/m^3", "slug/ft³", SLUG / FOOT**3),
+        ("Pa", "lbf/ft²", POUND_FORCE / FOOT**2),
+        ("Pa*s", "lbf·s/ft²", POUND_FORCE / FOOT**2),
+        ("W", "ft·lbf/s", POUND_FORCE * FOOT),
+        ("J", "ft·lbf", POUND_FORCE * FOOT),
+        ("K", "°R", 5 / 9),  # [SP811] B.8 "degree Rankine": T/K = (T/°R)/1.8
+        ("s", "s", 1.0),
+        ("1/s", "1/s", 1.0),
+    ],
+)
+def test_coherent_us_units_are_the_british_gravitational_ones(si, printed, size):
+    assert units.coherent_us(si) == (printed, pytest.approx(size, rel=1e-12))
+
+
+def test_slug_against_the_published_factor():
+    # [SP811] B.8: 1 slug = 1.459390 E+01 kg; 1 lbf = 4.448222 E+00 N.
+    assert units.coherent_us("kg/m^3")[1] * FOOT**3 == pytest.approx(14.59390, rel=1e-6)
+    assert units.coherent_us("Pa")[1] * FOOT**2 == pytest.approx(4.448222, rel=1e-6)
+
+
+def test_the_british_gravitational_units_are_coherent():
+    # Coherent: density × acceleration × length is a pressure with no factor, as in SI
+    # (lbf = slug·ft/s²), so ρ·g·h multiplies out in either system.
+    (_, rho), (_, g), (_, m), (_, p) = (
+        units.coherent_us(u) for u in ("kg/m^3", "m/s^2", "m", "Pa")
+    )
+    assert rho * g * m == pytest.approx(p, rel=1e-12)
+    (_, mu), (_, v) = units.coherent_us("Pa*s"), units.coherent_us("m/s")
+    assert rho * v * m / mu == pytest.approx(1.0, rel=1e-12)  # a Reynolds number is unchanged
+
+
+def test_a_substituted_line_in_us_units_works_out_by_hand():
+    from calcreport.physics.equation import lookup
+    from calcreport.trace import substitute
+
+    # Hydraulic power of 998.2 kg/m³ water, 0.05 m³/s against 30 m (values of our own).
+    eq = lookup("power.hydraulic_power")
+    values = {"rho": 998.2, "Q": 0.05, "H": 30.0}
+    P = eq(**values)
+    line = substitute(eq, values, P, "US")
+    assert line.startswith("P_h = 1.9368 slug/ft³ × 32.174 ft/s² × 1.7657 ft³/s × 98.425 ft")
+    # 998.2 / 515.38 = 1.9368 slug/ft³; 1.9368 × 32.174 × 1.7657 × 98.425 = 10,830 ft·lbf/s
+    # by hand; 1 hp = 550 ft·lbf/s ([SP811] B.8 "horsepower (550 ft·lbf/s)") gives 19.69 hp.
+    assert line.endswith("= 10830 ft·lbf/s")
+    assert P / (550 * POUND_FORCE * FOOT) == pytest.approx(19.69, rel=1e-3)
+    assert substitute(eq, values, P) == (
+        "P_h = 998.20 kg/m³ × 9.80665 m/s² × 0.050000 m³/s × 30.000 m = 14683 W"
+    )

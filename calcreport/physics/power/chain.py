@@ -17,7 +17,7 @@ from calcreport.physics.losses import G
     symbol="P_h",
     text="P_h = ρ·g·Q·H",
     latex=r"P_h = \rho\, g\, Q\, H",
-    substitute="{rho} × 9.80665 m/s² × {Q} × {H}",
+    substitute="{rho} × {g} × {Q} × {H}",
     reference="white_fm",
 )
 def hydraulic_power(rho: Any, Q: Any, H: Any) -> Any:
@@ -202,11 +202,11 @@ def per_pump_power(P: Any, n_run: Any) -> Any:
 PEAK_POINTS = 401
 
 
-def _peak_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+def _peak_text(values: dict[str, Any], result: float, write: Any) -> str:
     return (
-        f"max over {PEAK_POINTS} flows from {fmt(values['flow'][0])} to "
-        f"{fmt(values['flow'][-1])} m³/s of {fmt(values['rho'])} kg/m³ × 9.80665 m/s² × "
-        f"Q × H_pump(Q) / η_p(Q), curves by monotone cubic"
+        f"max over {PEAK_POINTS} flows from {write(values['flow'][0], 'm^3/s')} to "
+        f"{write(values['flow'][-1], 'm^3/s')} of {write(values['rho'], 'kg/m^3')} × "
+        f"{write.constant('g')} × Q × H_pump(Q) / η_p(Q), curves by monotone cubic"
     )
 
 

@@ -12,7 +12,7 @@ from calcreport.physics.power.energy import JOULES_PER_KWH
     symbol="C",
     text="C = E/(3.6 MJ/kWh)·c_e",
     latex=r"C = \frac{E}{3.6\ \mathrm{MJ/kWh}}\, c_e",
-    substitute="{E} / (3.6e6 J/kWh) × {price} /kWh",
+    substitute="{E:kWh} × {price} /kWh",
     reference="hi_power",
 )
 def annual_cost(E: Any, price: Any) -> Any:
@@ -49,7 +49,7 @@ def annual_cost(E: Any, price: Any) -> Any:
     symbol="C_d",
     text="C_d = P_e/(1000 W/kW)·c_d·12",
     latex=r"C_d = \frac{P_e}{1000\ \mathrm{W/kW}}\, c_d \times 12",
-    substitute="{P_e} / (1000 W/kW) × {rate} /kW/month × 12 months",
+    substitute="{P_e:kW} × {rate} /kW/month × 12 months",
     reference="hi_power",
 )
 def demand_cost(P_e: Any, rate: Any) -> Any:

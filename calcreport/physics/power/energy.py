@@ -49,8 +49,9 @@ def hours_to_seconds(hours: Any) -> Any:
     symbol="E",
     text="E = P_e·t",
     latex=r"E = P_e\, t",
-    substitute="{P_e} × {t}",
+    substitute="{P_e:kW} × {t:h}",
     reference="hi_power",
+    shown_in="kWh",
 )
 def annual_energy(P_e: Any, t: Any) -> Any:
     r"""Energy taken in a year of operation at constant input power.
@@ -165,8 +166,9 @@ def fill_time(V: Any, Q: Any) -> Any:
     symbol="E",
     text="E = Σ P_e,i·t_i",
     latex=r"E = \sum_i P_{e,i}\, t_i",
-    substitute=paired("P", "W", "×", "t", "s", empty="0 J"),
+    substitute=paired("P", "W", "×", "t", "s", shown=("kW", "h"), empty="0"),
     reference="hi_power",
+    shown_in="kWh",
 )
 def profile_energy(P: Any, t: Any) -> Any:
     r"""Energy of a duty profile: each point's input power for its time.
@@ -202,7 +204,7 @@ def profile_energy(P: Any, t: Any) -> Any:
     symbol="V",
     text="V = Σ Q_i·t_i",
     latex=r"V = \sum_i Q_i\, t_i",
-    substitute=paired("Q", "m³/s", "×", "t", "s", empty="0 m³"),
+    substitute=paired("Q", "m^3/s", "×", "t", "s", empty="0"),
     reference="hi_power",
 )
 def profile_volume(Q: Any, t: Any) -> Any:

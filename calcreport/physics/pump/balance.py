@@ -76,9 +76,9 @@ def operating_point(
     )
 
 
-def _solved_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+def _solved_text(values: dict[str, Any], result: float, write: Any) -> str:
     return (
-        f"Q = {fmt(values['Q'])} m³/s, the highest flow on the curve where "
+        f"Q = {write(values['Q'], 'm^3/s')}, the highest flow on the curve where "
         "H_pump(Q) − H_system(Q) = 0, bracketed on 201 flows and refined by the "
         "Illinois method; confirmed by the head-balance step"
     )
@@ -90,6 +90,7 @@ def _solved_text(values: dict[str, Any], result: float, fmt: Any) -> str:
     latex=r"H_{pump}(Q_{op}) = H_{system}(Q_{op})",
     substitute=_solved_text,
     reference="karassik_2008",
+    units="display",
 )
 def solved_flow(Q: Any) -> Any:
     r"""The operating flow found by :func:`operating_point`, recorded as a step.

@@ -103,14 +103,15 @@ def monotone_cubic(x: Any, y: Any, xq: Any) -> Any:
 
 
 def _curve_sub(label: str, unit: str) -> Callable[..., str]:
-    def text(values: dict[str, Any], result: float, fmt: Any) -> str:
+    def text(values: dict[str, Any], result: float, write: Any) -> str:
         flows, points = values["flow"], values[label]
         Q = values["Q"]
         k = max(0, min(len(flows) - 2, int(np.searchsorted(flows, Q, side="right")) - 1))
         return (
-            f"monotone cubic through the {len(flows)} curve points at Q = {fmt(Q)} m³/s, "
-            f"between ({fmt(flows[k])} m³/s, {fmt(points[k])}{unit}) and "
-            f"({fmt(flows[k + 1])} m³/s, {fmt(points[k + 1])}{unit})"
+            f"monotone cubic through the {len(flows)} curve points at Q = "
+            f"{write(Q, 'm^3/s')}, between ({write(flows[k], 'm^3/s')}, "
+            f"{write(points[k], unit)}) and ({write(flows[k + 1], 'm^3/s')}, "
+            f"{write(points[k + 1], unit)})"
         )
 
     return text
@@ -120,8 +121,9 @@ def _curve_sub(label: str, unit: str) -> Callable[..., str]:
     symbol="H_pump",
     text="H_pump = PCHIP(Q_i, H_i; Q)",
     latex=r"H_{pump} = \mathrm{PCHIP}(Q_i, H_i;\, Q)",
-    substitute=_curve_sub("head", " m"),
+    substitute=_curve_sub("head", "m"),
     reference="fritsch_carlson_1980",
+    units="display",
 )
 def head_at(Q: Any, flow: Any, head: Any) -> Any:
     r"""Pump head at a flow, from the curve points.
@@ -160,6 +162,7 @@ def head_at(Q: Any, flow: Any, head: Any) -> Any:
     latex=r"\eta_p = \mathrm{PCHIP}(Q_i, \eta_i;\, Q)",
     substitute=_curve_sub("efficiency", ""),
     reference="fritsch_carlson_1980",
+    units="display",
 )
 def efficiency_at(Q: Any, flow: Any, efficiency: Any) -> Any:
     r"""Pump efficiency at a flow, from the curve points.
@@ -196,8 +199,9 @@ def efficiency_at(Q: Any, flow: Any, efficiency: Any) -> Any:
     symbol="NPSHr",
     text="NPSHr = PCHIP(Q_i, NPSHr_i; Q)",
     latex=r"NPSH_r = \mathrm{PCHIP}(Q_i, NPSH_{r,i};\, Q)",
-    substitute=_curve_sub("npsh", " m"),
+    substitute=_curve_sub("npsh", "m"),
     reference="fritsch_carlson_1980",
+    units="display",
 )
 def npsh_required_at(Q: Any, flow: Any, npsh: Any) -> Any:
     r"""NPSH required at a flow, from the curve points.
@@ -311,7 +315,7 @@ def curve_max_head(head: Any) -> Any:
     symbol="η",
     text="η = ρ·g·Q·H/P",
     latex=r"\eta = \frac{\rho g Q H}{P}",
-    substitute="{rho} × 9.80665 m/s² × {Q} × {H} / {P}",
+    substitute="{rho} × {g} × {Q} × {H} / {P}",
     reference="karassik_2008",
 )
 def efficiency_from_power(rho: Any, Q: Any, H: Any, P: Any) -> Any:

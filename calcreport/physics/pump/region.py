@@ -10,9 +10,9 @@ from calcreport.physics.equation import equation
 from calcreport.physics.losses import G
 
 
-def _thermal_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+def _thermal_text(values: dict[str, Any], result: float, write: Any) -> str:
     return (
-        f"Q = {fmt(values['Q'])} m³/s, the flow between the first curve point and the BEP "
+        f"Q = {write(values['Q'], 'm^3/s')}, the flow between the first curve point and the BEP "
         "where ΔT(Q) = ΔT_max, bracketed and refined by the Illinois method; confirmed by "
         "the temperature-rise step at that flow"
     )
@@ -24,6 +24,7 @@ def _thermal_text(values: dict[str, Any], result: float, fmt: Any) -> str:
     latex=r"\Delta T(Q_{th}) = \Delta T_{max}",
     substitute=_thermal_text,
     reference="karassik_2008",
+    units="display",
 )
 def thermal_flow(Q: Any) -> Any:
     r"""The thermal minimum flow found by the root finder, recorded as a step.
@@ -140,7 +141,7 @@ def region_flow(r: Any, Q_bep: Any) -> Any:
     symbol="ΔT",
     text="ΔT = g·H·(1 − η)/(c_p·η)",
     latex=r"\Delta T = \frac{g H (1 - \eta)}{c_p\, \eta}",
-    substitute="9.80665 m/s² × {H} × (1 − {eta}) / ({cp} × {eta})",
+    substitute="{g} × {H} × (1 − {eta}) / ({cp} × {eta})",
     reference="karassik_2008",
 )
 def temperature_rise(H: Any, eta: Any, cp: Any) -> Any:

@@ -96,6 +96,7 @@ def affinity_head(H0: Any, n: Any, n0: Any) -> Any:
     latex=r"N_s = \frac{n\,\sqrt{Q}}{H^{0.75}}",
     substitute="(60 × {n}) × √{Q} / ({H})^0.75",
     reference="karassik_2008",
+    units="fixed",
 )
 def specific_speed(n: Any, Q: Any, H: Any) -> Any:
     r"""Specific speed at the best-efficiency point, metric (rpm, m^3/s, m).
@@ -174,9 +175,9 @@ def lift_speed(n0: Any, H_static: Any, H0: Any) -> Any:
     return n0 * math.sqrt(H_static / H0)
 
 
-def _speed_text(values: dict[str, Any], result: float, fmt: Any) -> str:
+def _speed_text(values: dict[str, Any], result: float, write: Any) -> str:
     return (
-        f"n = {fmt(values['n'] * 60)} rpm, the speed whose affinity-scaled curve passes "
+        f"n = {write(values['n'], '1/s', 'rpm')}, the speed whose affinity-scaled curve passes "
         "through the system head at this flow (bracketed root, Illinois method); confirmed "
         "by the head-balance step"
     )
@@ -188,6 +189,7 @@ def _speed_text(values: dict[str, Any], result: float, fmt: Any) -> str:
     latex=r"\left(\frac{n}{n_0}\right)^2 H_0\!\left(Q \frac{n_0}{n}\right) = H_{system}(Q)",
     substitute=_speed_text,
     reference="karassik_2008",
+    units="display",
 )
 def solved_speed(n: Any) -> Any:
     r"""The speed found for a variable-speed duty point, recorded as a step.

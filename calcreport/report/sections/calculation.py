@@ -9,6 +9,7 @@ from typing import Any
 
 from reportlab.platypus import Flowable
 
+from calcreport.physics.equation import lookup
 from calcreport.report.mathtext import Equation
 from calcreport.report.sections.common import (
     _MONEY,
@@ -16,7 +17,31 @@ from calcreport.report.sections.common import (
     _key_runs,
     text,
 )
+from calcreport.trace import substitute
 from calcreport.units import KIND_OF_SI_UNIT, display_unit, fmt, pretty_unit, to_display
+
+# How a US report writes its substituted lines (the trace's own lines are in SI).
+US_LINES = (
+    "Each substituted line is written in the coherent British gravitational units (foot, "
+    "slug, second, pound-force; 1 lbf = 1 slug·ft/s², g = 32.174 ft/s²), so its numbers "
+    "multiply out to its result with no conversion factor; the result is then given in "
+    "the report's units. Energy and its cost are worked in kWh. Empirical formulas with "
+    "dimensional constants (metric specific speed, Hazen–Williams in SI form, the viscosity "
+    "parameter of ANSI/HI 9.6.7, the US Standard Atmosphere) and dimensionless ones are "
+    "written in the units they are defined in; property correlations name their state in "
+    "the report's units."
+)
+
+
+def printed_substitution(st: dict[str, Any], system: str) -> str:
+    """A trace step's substituted line as the report prints it: the trace's own (SI) line,
+    or in a US report the same equation written in US units from the step's arguments
+    (:func:`calcreport.trace.substitute`); a formula of fixed units keeps the trace's."""
+    eq = lookup(st["function"])
+    if system != "US" or eq.units == "fixed":
+        return str(st["substituted"])
+    values = {name: arg["value"] for name, arg in st["arguments"].items()}
+    return substitute(eq, values, st["value"], "US")
 
 
 class CalculationSection:
@@ -52,7 +77,7 @@ class CalculationSection:
         if typeset:
             parts.append(Equation(st["latex"], 10.5))
             self.typeset.add(st["function"])
-        parts.append(self.p(text(st["substituted"]), s.substituted))
+        parts.append(self.p(text(printed_substitution(st, self.system)), s.substituted))
         result = {"value": st["value"], "unit": st["unit"]}
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
         if st["function"] in _MONEY:  # a sum of money: in the project's currency
@@ -87,6 +112,8 @@ class CalculationSection:
         )
         intro += f". Every step of every case, with its full substitution, is in {where}"
         out.append(self.p(intro + "."))
+        if self.system == "US":
+            out.append(self.p(US_LINES))
         for key, title, prefixes in SECTIONS:
             # The design state is worked in full; every other state is a table of results.
             steps = self.worked_steps(key, prefixes)
