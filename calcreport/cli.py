@@ -259,6 +259,7 @@ def _build_with(args: argparse.Namespace, tell: Callable[[str], None]) -> int:
         "trace_sha256": _sha256(text),
         "pdf_sha256": hashlib.sha256(rendered.pdf).hexdigest(),
         "steps": rendered.step_pages,
+        "links": rendered.links,
     }
     write_all(
         {

@@ -134,6 +134,9 @@ class Check:
     case: str
     message: str = ""
     margin: float | None = None  # how far inside the limit (negative: outside), in unit
+    # The step whose result the check compares (its value, or its limit where the value is
+    # an input): where a reader follows the number to its origin; "" when none.
+    step: str = ""
 
     def __post_init__(self) -> None:
         if self.status not in STATUSES:
@@ -152,6 +155,7 @@ class Check:
             "case": self.case,
             "message": self.message,
             "margin": self.margin,
+            "step": self.step,
         }
 
 

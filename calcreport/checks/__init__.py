@@ -145,6 +145,7 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
                 "head and the pump delivers nothing (affinity laws)",
                 reference="karassik_2008",
                 case="all",
+                step=results["minimum_lift_speed"].get("from", ""),
                 margin=n_min - n_lift,
                 message="" if n_min > n_lift else "the minimum speed delivers no flow",
             )
@@ -184,6 +185,7 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
                 "shaft power anywhere on the pump curve",
                 reference="karassik_2008",
                 case="all",
+                step=motor["peak_shaft_power"].get("from", ""),
             )
         )
         if motor.get("loading"):
@@ -201,6 +203,7 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
                 basis="The peak shaft power exceeds the largest standard rating in the catalogue",
                 reference="iec_60072",
                 case="all",
+                step=motor["peak_shaft_power"].get("from", ""),
             )
         )
     return found

@@ -30,6 +30,7 @@ def _velocity(
             basis=basis,
             reference=ref,
             case=case,
+            step=pipe["velocity"].get("from", ""),
             message=""
             if v <= limit
             else f"{_say(model, v, 'm/s')} exceeds the {side} limit {_say(model, limit, 'm/s')}",
@@ -49,6 +50,7 @@ def _velocity(
             basis=basis,
             reference=ref,
             case=case,
+            step=pipe["velocity"].get("from", ""),
             message=""
             if v >= low
             else f"{_say(model, v, 'm/s')} is below {_say(model, low, 'm/s')}",
@@ -74,6 +76,7 @@ def _regime(pipe: dict[str, Any], pipe_id: str, case: str) -> Check:
         "uncertain; Colebrook is used there as the conservative value",
         reference="moody_1944",
         case=case,
+        step=pipe["reynolds"].get("from", ""),
         message=f"Re = {Re:.0f}: {regime} flow" + (" (transition band)" if transition else ""),
     )
 
@@ -122,6 +125,7 @@ def _check_valve(model: Model, pipe: dict[str, Any], pipe_id: str, case: str) ->
         "constant from memory)",
         reference="crane_tp410",
         case=case,
+        step=pipe["velocity"].get("from", ""),
         message=""
         if ok
         else f"{_say(model, v, 'm/s')} is below {_say(model, v_min, 'm/s')}: "

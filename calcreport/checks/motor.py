@@ -30,6 +30,7 @@ def _motor_loading(motor: dict[str, Any]) -> Check:
         "rating (times the site derating, where given), at most 1 at service factor 1.0",
         reference="karassik_2008",
         case=state,
+        step=loading[state].get("from", ""),
         message=f"most loaded in {state}" + ("" if ok else ": the motor is overloaded"),
         margin=limit - value,
     )

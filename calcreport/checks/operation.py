@@ -86,6 +86,7 @@ def _duty(model: Model, results: dict[str, Any], point: dict[str, Any], case: st
         + f"; {tolerance}",
         reference="input",
         case=case,
+        step=point["flow"].get("from", ""),
         message=""
         if ok
         else f"delivers {_say(model, q, 'm^3/s')} of the {_say(model, needed, 'm^3/s')} required",
@@ -124,6 +125,7 @@ def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Ch
             basis=basis,
             reference=ref,
             case=case,
+            step=point["flow_ratio_bep"].get("from", ""),
             message=f"Q/Q_BEP = {ratio:.3f}",
             margin=min(ratio - low, high - ratio),
         )
@@ -143,6 +145,7 @@ def _operating_region(model: Model, point: dict[str, Any], case: str) -> list[Ch
                 basis="Allowable operating region from the pump data (pump.allowable_range)",
                 reference="input",
                 case=case,
+                step=point["flow_ratio_bep"].get("from", ""),
                 message=f"Q/Q_BEP = {ratio:.3f}",
                 margin=min(ratio - low, high - ratio),
             )
@@ -207,6 +210,7 @@ def _viscous(corrections: list[tuple[str, dict[str, Any]]]) -> Check:
         f"parameter B: none for B up to 1, the method's range ends at B = {viscous.B_MAX:g}",
         reference="hi_viscous",
         case=case,
+        step=worst["parameter"].get("from", ""),
         message=message,
         margin=viscous.B_MAX - B,
     )

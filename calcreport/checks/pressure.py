@@ -40,6 +40,7 @@ def _min_pressure(model: Model, route: dict[str, Any], case: str) -> Check:
         basis=basis,
         reference=ref,
         case=case,
+        step=route["min_pressure_head"].get("from", ""),
         message=message,
         margin=h - limit,
     )
@@ -91,6 +92,7 @@ def _pressure_rating(model: Model, rc: dict[str, Any]) -> Check:
         "applicable piping code",
         reference="input",
         case=rc["case"],
+        step=rc["pressure"].get("from", ""),
         message=message,
         margin=rating - p,
     )
@@ -99,20 +101,24 @@ def _pressure_rating(model: Model, rc: dict[str, Any]) -> Check:
 def _surge(result: dict[str, Any]) -> Check:
     """The surge screening's verdict: a tripped screening asks for a transient analysis."""
     verdict = result["verdict"]
+    source: dict[str, Any] = {}  # the result the value is
     if not result.get("screened", True):
         status, value, limit, comparison = "review", None, None, "screened"
     elif result["event"] == "valve_closure":
-        value, limit = result["closure_time"]["value"], result["line_period"]["value"]
+        source = result["line_period"]  # the closure time is an input
+        value, limit = result["closure_time"]["value"], source["value"]
         # A slow closure passes when its estimated rise is set against a rating somewhere.
         comparison = ">"
         status = "pass" if value > limit and result.get("rise_checked") else "review"
     elif "min_transient_pressure_head" in result:
-        value = result["min_transient_pressure_head"]["value"]
+        source = result["min_transient_pressure_head"]
+        value = source["value"]
         limit = result["vapour_head"]["value"]
         comparison = ">"
         status = "fail" if value <= limit else ("review" if value < 0.0 else "pass")
     else:
-        status, value, limit, comparison = "review", result["head_rise"]["value"], None, "known"
+        source = result["head_rise"]
+        status, value, limit, comparison = "review", source["value"], None, "known"
     unit = "s" if result["event"] == "valve_closure" and value is not None else "m"
     return Check(
         id=f"surge.{result['event']}",
@@ -128,5 +134,6 @@ def _surge(result: dict[str, Any]) -> Check:
         "transient analysis",
         reference="series_pipes_surge",
         case=result.get("case", "all"),
+        step=source.get("from", ""),
         message=verdict,
     )

@@ -26,6 +26,7 @@ def _npsh_positive(model: Model, results: dict[str, Any], case: str) -> Check:
         "inlet whatever pump is chosen (suction lift beyond what the site allows)",
         reference="hi_npsh",
         case=case,
+        step=results["npsh_available"].get("from", ""),
         message=""
         if npsha > 0.0
         else f"NPSHa = {_say(model, npsha, 'm')}: reduce suction lift or losses",
@@ -47,6 +48,7 @@ def _npsh_open_item(results: dict[str, Any], case: str) -> Check:
         "selected pump's NPSH3 and the margin its application needs",
         reference="hi_npsh",
         case=case,
+        step=results["npsh_available"].get("from", ""),
         message="open item: NPSH required not known",
         margin=npsha,
     )
@@ -72,6 +74,7 @@ def _npsh_margin(model: Model, results: dict[str, Any], point: dict[str, Any], c
         f"{basis_r}",
         reference=ref,
         case=case,
+        step=results["npsh_available"].get("from", ""),
         message=""
         if ok
         else (
@@ -99,6 +102,7 @@ def _submergence(model: Model, intake: dict[str, Any], case: str) -> Check:
         "a model study may justify less)",
         reference="hi_intake",
         case=case,
+        step=intake["submergence"].get("from", ""),
         message=""
         if ok
         else f"{_say(model, S, 'm')} of submergence is less than {_say(model, S_min, 'm')}",
@@ -124,6 +128,7 @@ def _suction_pressure(route: dict[str, Any], case: str) -> Check:
         "before the pump",
         reference="white_fm",
         case=case,
+        step=route["suction_min_pressure_head"].get("from", ""),
         message=f"lowest at {node}" + ("" if ok else ": the liquid boils in the suction line"),
         margin=h - h_vap,
     )

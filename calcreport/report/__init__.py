@@ -22,10 +22,12 @@ __all__ = ["Rendered", "render"]
 
 @dataclass(frozen=True)
 class Rendered:
-    """A rendered report: the PDF bytes and, for every step id, the pages it is printed on."""
+    """A rendered report: the PDF bytes, for every step id the pages it is printed on, and
+    for every step linked from the text the page its link lands on."""
 
     pdf: bytes
     step_pages: dict[str, list[int]]
+    links: dict[str, dict[str, Any]]
 
 
 def render(
@@ -66,12 +68,14 @@ def render(
     tell("drawing the charts")
     figures = _figures(trace)
     tell("laying out the pages")
-    pdf, pages = render_pdf(trace, input_text, figures, changes, files, listing)
+    pdf, pages, links = render_pdf(trace, input_text, figures, changes, files, listing)
     save_layouts()
     tell("writing the archival PDF")
     info = document_info(trace["project"])
     return Rendered(
-        archival(pdf, **info, project_date=trace["project"]["date"], attachments=files), pages
+        archival(pdf, **info, project_date=trace["project"]["date"], attachments=files),
+        pages,
+        links,
     )
 
 

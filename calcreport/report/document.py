@@ -43,7 +43,7 @@ from calcreport.report import style
 from calcreport.report.sections.basis import BasisSection
 from calcreport.report.sections.calculation import CalculationSection
 from calcreport.report.sections.closing import ClosingSections
-from calcreport.report.sections.common import plain, text
+from calcreport.report.sections.common import CALCULATION_ANCHOR, plain, stage_anchor, text
 from calcreport.report.sections.front import FrontMatter
 from calcreport.report.sections.rated import RatedDutySheet
 from calcreport.report.sections.route import RouteSections
@@ -97,6 +97,35 @@ class _Report(
         except tomllib.TOMLDecodeError:
             self.entered = {}
         self.section_number = 0
+        # Links: every step has an anchor key; a link to a step not worked in print lands
+        # on its stage's section (the linked key -> that section's anchor).
+        self.step_keys = {st["id"]: f"st{n}" for n, st in enumerate(trace["steps"])}
+        self.linked: dict[str, tuple[str, str]] = {}  # anchor key -> (step id, fallback)
+        self.used_by: dict[str, list[str]] = {}
+        for st in trace["steps"]:
+            for source in st["inputs"]:
+                if source in self.step_keys:
+                    self.used_by.setdefault(source, []).append(st["id"])
+
+    # -- links -----------------------------------------------------------------------------
+    def link(self, step_id: str, label: str | None = None) -> str:
+        """Markup of ``label`` (default: the step id) linked to the step ``step_id``: its
+        worked block, or where its stage stands when it is not worked in print; text with
+        no link when ``step_id`` is no step."""
+        shown = text(step_id if label is None else label)
+        key = self.step_keys.get(step_id)
+        if key is None:
+            return shown
+        self.linked.setdefault(key, (step_id, stage_anchor(self.steps_by_id[step_id])))
+        return f'<a href="#{key}" color="{style.LINK}">{shown}</a>'
+
+    def q_linked(
+        self, quantity: dict[str, Any] | None, kind: str | None = None, sig: int = 4
+    ) -> str:
+        """:meth:`q`, linked to the step the value comes from (its ``from``) when one is."""
+        shown = self.q(quantity, kind, sig)
+        source = quantity.get("from") if quantity else None
+        return self.link(source, shown) if source in self.step_keys else text(shown)
 
     # -- helpers ---------------------------------------------------------------------------
     def p(self, markup: str, st: Any = None) -> Paragraph:
@@ -126,11 +155,12 @@ class _Report(
         return show(quantity, kind, self.system, sig)
 
     def q_both(self, quantity: dict[str, Any], kind: str | None = None) -> str:
-        """SI value, and the US value beside it in a US report."""
+        """The value in the report's units, and in a US report the SI value beside it (the
+        trace's own, for a checker comparing with the attached listing)."""
         kind = kind or KIND_OF_SI_UNIT.get(quantity["unit"])
         si = show(quantity, kind, "SI") if kind else self.q(quantity)
         us = show(quantity, kind, "US") if self.system == "US" and kind else si
-        return si if us == si else f"{si} ({us})"  # kWh, rpm and s are the same in both
+        return si if us == si else f"{us} ({si})"  # kWh, rpm and s are the same in both
 
     def table(
         self,
@@ -282,6 +312,7 @@ class _Doc(BaseDocTemplate):
         # (level, label, page, bookmark key, top of the heading on its page)
         self.headings: list[tuple[int, str, int, str, float]] = []
         self.step_pages: dict[str, list[int]] = {}
+        self.anchors: dict[str, tuple[int, float]] = {}  # link target: (page, top)
 
     def afterFlowable(self, flowable: Flowable) -> None:
         step = getattr(flowable, "_step", None)
@@ -289,6 +320,9 @@ class _Doc(BaseDocTemplate):
             pages = self.step_pages.setdefault(step, [])
             if self.page not in pages:
                 pages.append(self.page)
+        anchor = getattr(flowable, "_anchor", None)
+        if anchor is not None and anchor not in self.anchors:
+            self.anchors[anchor] = (self.page, self.frame._y + flowable.height)
         toc = getattr(flowable, "_toc", None)
         if toc is not None:
             level, label = toc
@@ -298,11 +332,27 @@ class _Doc(BaseDocTemplate):
             self.headings.append((level, label, self.page, f"h{len(self.headings)}", top))
 
 
+def link_targets(
+    anchors: dict[str, tuple[int, float]], linked: dict[str, tuple[str, str]]
+) -> dict[str, tuple[int, float]]:
+    """Where every link lands (anchor key -> page, top): a step's worked block, else the
+    section of its stage, else the calculation chapter; the worked anchors as they are."""
+    out = dict(anchors)
+    for key, (_, stage) in linked.items():
+        if key not in out:
+            out[key] = anchors.get(stage) or anchors.get(CALCULATION_ANCHOR) or (1, 0.0)
+    return out
+
+
 def _canvas_maker(
-    project: dict[str, Any], status: str, headings: list[tuple[int, str, int, str, float]]
+    project: dict[str, Any],
+    status: str,
+    headings: list[tuple[int, str, int, str, float]],
+    targets: Callable[[], dict[str, tuple[int, float]]],
 ) -> Callable[..., rl_canvas.Canvas]:
     """A canvas that draws, once every page is laid out, the title block with 'Page N of
-    M' on each page and the contents list with page numbers: one build pass suffices."""
+    M' on each page, the contents list with page numbers and the link targets: one build
+    pass suffices."""
 
     class TitleBlockCanvas(rl_canvas.Canvas):
         def __init__(self, *args: Any, **kwargs: Any) -> None:
@@ -320,8 +370,13 @@ def _canvas_maker(
         def save(self) -> None:
             total = len(self._pages)
             contents = self.__dict__.get("_contents_at")
+            where = targets()
             for state in self._pages:
+                # Annotations are numbered by the canvas: links drawn with the pages and
+                # those added now (the contents) keep distinct numbers.
+                count = self._annotationCount
                 self.__dict__.update(state)
+                self._annotationCount = max(count, self._annotationCount)
                 self._title_block(total)
                 if contents and contents[0] == self._pageNumber:
                     self._contents(contents[1], contents[2])
@@ -329,6 +384,9 @@ def _canvas_maker(
                     if page == self._pageNumber:
                         self.bookmarkHorizontal(key, 0, top)
                         self.addOutlineEntry(label, key, level=level, closed=level > 0)
+                for key, (page, top) in where.items():
+                    if page == self._pageNumber:
+                        self.bookmarkHorizontal(key, 0, top)
                 super().showPage()
             super().save()
 
@@ -421,11 +479,12 @@ def render_pdf(
     changes: Any = None,
     attached: tuple[Any, ...] = (),
     listing: str = "attached",
-) -> tuple[bytes, dict[str, list[int]]]:
-    """The PDF report of ``trace`` (deterministic bytes) and the pages of every printed
-    step; ``attached`` (:class:`~calcreport.report.archive.Attachment`) are listed in
-    Appendix B as the files the PDF carries; ``listing="full"`` prints every step of
-    every state as Appendix C."""
+) -> tuple[bytes, dict[str, list[int]], dict[str, dict[str, Any]]]:
+    """The PDF report of ``trace`` (deterministic bytes), the pages of every printed
+    step and where each link to a step lands (step id -> its page, and ``at``: "step"
+    for its worked block, else the section anchor of its stage). ``attached``
+    (:class:`~calcreport.report.archive.Attachment`) are listed in Appendix B as the files
+    the PDF carries; ``listing="full"`` prints every step of every state as Appendix C."""
     report = _Report(trace, input_text, figures, changes, attached, listing)
     project = trace["project"]
     size = style.page_size(report.system)
@@ -444,6 +503,17 @@ def render_pdf(
     frame = Frame(doc.leftMargin, doc.bottomMargin, doc.width, doc.height, id="body")
     doc.addPageTemplates([PageTemplate("cover", [frame]), PageTemplate("body", [frame])])
     doc.build(
-        report.story(), canvasmaker=_canvas_maker(project, trace["status"]["value"], doc.headings)
+        report.story(),
+        canvasmaker=_canvas_maker(
+            project,
+            trace["status"]["value"],
+            doc.headings,
+            lambda: link_targets(doc.anchors, report.linked),
+        ),
     )
-    return buffer.getvalue(), doc.step_pages
+    where = link_targets(doc.anchors, report.linked)
+    links = {
+        step_id: {"page": where[key][0], "at": "step" if key in doc.anchors else stage}
+        for key, (step_id, stage) in sorted(report.linked.items(), key=lambda kv: kv[1][0])
+    }
+    return buffer.getvalue(), doc.step_pages, links

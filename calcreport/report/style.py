@@ -49,6 +49,7 @@ PAGE = {
 }
 
 INK = colors.HexColor("#1a1a1a")
+LINK = "#1f4e8c"  # a link to the step a number comes from (dark blue, prints as dark grey)
 RULE = colors.HexColor("#7a7a7a")
 SHADE = colors.HexColor("#ececec")
 SHADE_DARK = colors.HexColor("#c8c8c8")

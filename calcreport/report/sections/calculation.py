@@ -13,6 +13,7 @@ from calcreport.physics.equation import lookup
 from calcreport.report.mathtext import Equation
 from calcreport.report.sections.common import (
     _MONEY,
+    CALCULATION_ANCHOR,
     SECTIONS,
     _key_runs,
     text,
@@ -44,6 +45,9 @@ def printed_substitution(st: dict[str, Any], system: str) -> str:
     return substitute(eq, values, st["value"], "US")
 
 
+USERS_LISTED = 3  # steps named as using a step's result (the rest are counted)
+
+
 class CalculationSection:
     """The calculation chapter, one numbered section a stage."""
 
@@ -73,6 +77,7 @@ class CalculationSection:
         )
         title = self.p(head, s.step_head)
         title._step = st["id"]  # type: ignore[attr-defined]
+        title._anchor = self.step_keys[st["id"]]  # type: ignore[attr-defined]
         parts: list[Flowable] = [title]
         if typeset:
             parts.append(Equation(st["latex"], 10.5))
@@ -82,17 +87,24 @@ class CalculationSection:
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
         if st["function"] in _MONEY:  # a sum of money: in the project's currency
             result_text += f" {text(self.entered_value('operation.currency') or '')}".rstrip()
-        inputs = ", ".join(text(i) for i in _key_runs(st["inputs"]))
+        inputs = ", ".join(self.link(i) for i in _key_runs(st["inputs"]))
+        users = self.used_by.get(st["id"], [])
+        used = ", ".join(self.link(u) for u in users[:USERS_LISTED])
+        if len(users) > USERS_LISTED:
+            used += f" and {len(users) - USERS_LISTED} more"
+        used = f"; used by: {used}" if used else ""
         parts.append(
             self.p(
-                f"<b>Result:</b> {result_text}    <font size='7'>inputs: {inputs}</font>",
+                f"<b>Result:</b> {result_text}    <font size='7'>inputs: {inputs}{used}</font>",
                 s.substituted,
             )
         )
         return self.kept(parts)
 
     def calculation(self) -> list[Flowable]:
-        out: list[Flowable] = [self.heading("Calculation")]
+        chapter = self.heading("Calculation")
+        chapter._anchor = CALCULATION_ANCHOR  # type: ignore[attr-defined]
+        out: list[Flowable] = [chapter]
         others = self.view.other_cases
         intro = (
             "Each step gives the quantity computed, its step id, the equation, the equation "
@@ -119,7 +131,9 @@ class CalculationSection:
             steps = self.worked_steps(key, prefixes)
             if not steps and not (key == "route" and "route" in self.r):
                 continue
-            out.append(self.heading(title, 2))
+            heading = self.heading(title, 2)
+            heading._anchor = f"sec.{key}"  # type: ignore[attr-defined]
+            out.append(heading)
             if key == "pipes":
                 out += self.pipe_section(steps)
             elif key == "route":

@@ -40,6 +40,8 @@ class ClosingSections:
             if c["value"] and not kind:  # a ratio, or a unit the report has no kind for
                 unit = pretty_unit(c["value"]["unit"])
                 value = f"{c['value']['value']:.4g} {unit}".strip()
+            if c.get("step"):  # the number links to the step it comes from
+                value = self.link(c["step"], value)
             limit = (
                 f"{c['comparison']} {self.q(c['limit'], kind)}{gauge}"
                 if c["limit"]

@@ -33,6 +33,23 @@ SECTIONS = (
 )
 
 
+# The anchor of the calculation chapter, and of each of its sections ("sec." + its key):
+# where a link to a step not worked in print lands.
+CALCULATION_ANCHOR = "sec.calculation"
+
+
+def stage_anchor(step: dict[str, Any]) -> str:
+    """The anchor of the calculation section that works ``step``'s stage (by the first part
+    of its id after its case's prefix)."""
+    base, case = step["id"], step.get("case") or ""
+    if case and base.startswith(f"{case}."):
+        base = base[len(case) + 1 :]
+    for key, _, prefixes in SECTIONS:
+        if base.startswith(prefixes):
+            return f"sec.{key}"
+    return CALCULATION_ANCHOR
+
+
 _PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
 
 

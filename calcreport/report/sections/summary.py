@@ -50,14 +50,14 @@ class SummarySection:
             rows.append(
                 [
                     f"<b>{text(case['id'])}</b> {text(case['title'])}",
-                    self.q(res["flow"], "flow"),
-                    self.q(res["total_dynamic_head"], "length"),
+                    self.q_linked(res["flow"], "flow"),
+                    self.q_linked(res["total_dynamic_head"], "length"),
                     fmt(eff["value"], 3) if eff else "—",
-                    self.q(res["npsh_available"], "length"),
-                    self.q(point.get("npsh_required"), "length"),
+                    self.q_linked(res["npsh_available"], "length"),
+                    self.q_linked(point.get("npsh_required"), "length"),
                     fmt(ratio["value"], 3) if ratio else "—",
-                    self.q(res.get("shaft_power"), "power"),
-                    self.q(res.get("electrical_power"), "power"),
+                    self.q_linked(res.get("shaft_power"), "power"),
+                    self.q_linked(res.get("electrical_power"), "power"),
                 ]
             )
         w = self.width
@@ -68,9 +68,9 @@ class SummarySection:
         if energy:
             control = energy.get("control", "on_off").replace("_", "-")
             basis = f" ({control} control over the duty profile)" if "profile" in energy else ""
-            parts = [f"annual energy {self.q(energy['annual_energy'], 'energy', 5)}{basis}"]
+            parts = [f"annual energy {self.q_linked(energy['annual_energy'], 'energy', 5)}{basis}"]
             if "specific_energy" in energy:
-                parts.append(f"specific energy {self.q(energy['specific_energy'])}")
+                parts.append(f"specific energy {self.q_linked(energy['specific_energy'])}")
             if "annual_cost" in energy:
                 cost = energy["annual_cost"]
                 parts.append(f"annual energy cost {cost['value']:,.0f} {text(cost['unit'])}")
@@ -79,12 +79,12 @@ class SummarySection:
         parts = []
         if "min_pressure_head" in route:
             parts.append(
-                f"lowest pressure head {self.q(route['min_pressure_head'], 'length')} at "
+                f"lowest pressure head {self.q_linked(route['min_pressure_head'], 'length')} at "
                 f"{text(route['min_pressure_node'])} ({text(route['min_pressure_case'])})"
             )
         if "max_pressure" in route:
             parts.append(
-                f"highest pressure {self.q(route['max_pressure'], 'pressure')}(g) at "
+                f"highest pressure {self.q_linked(route['max_pressure'], 'pressure')}(g) at "
                 f"{text(route['max_pressure_node'])}"
             )
         if parts:
