@@ -66,7 +66,10 @@ def _solve_case(
         results["operating_point"] = point
         eta_pump = eta_curve or eta_pump
         if "bep_flow" in point and case.id == DESIGN_CASE:  # the design chart's regions
-            results["operating_region"] = _regions(b, model, source_of(point["bep_flow"]))
+            region = _regions(b, model, source_of(point["bep_flow"]))
+            if case.running.value > 1:
+                region["combined"] = _combined_region(model, case, region)
+            results["operating_region"] = region
     results.update(_power(b, model, case, liquid, h, eta_pump, eta_drive))
     results["required_flow"] = _q(required)
     results["pumps_running"] = _q(case.running)
@@ -86,7 +89,56 @@ def _solve_case(
             ),
             **(_npsh_curves(model, curve) if curve.npsh_required else {}),
         }
+        if case.running.value > 1:
+            results["pump_curve"]["combined"] = _combined_curve(model, case, curve)
     return results
+
+
+def _arrangement(model: Model, case: Case) -> tuple[float, float]:
+    """The factors (share, lift) that turn one pump's curve into the running pumps' curve.
+
+    Identical pumps in parallel add their flows at equal head, Q = n_run·Q_1 (share n_run,
+    lift 1); in series they add their heads at equal flow, H = n_run·H_1 (share 1, lift
+    n_run); one pump running gives (1, 1). Karassik, Pump Handbook, 4th ed., 2008
+    (``karassik_2008``). ``case.running`` is n_run [-].
+    """
+    n = case.running.value
+    return (n, 1.0) if model.pump.arrangement == "parallel" else (1.0, n)
+
+
+def _combined_curve(model: Model, case: Case, curve: CurvePoints) -> dict[str, Any]:
+    """The running pumps' curve at one pump's curve points (flow [m^3/s], head [m]), the
+    curve whose meeting with the system curve is the operating point (see :func:`_arrangement`).
+
+    Point i is every pump at point i of its own curve: each pump's efficiency and NPSH
+    required there are those of ``pump_curve`` at i, which a chart over the total flow draws
+    against this curve's flow.
+    """
+    share, lift = _arrangement(model, case)
+    return {
+        "flow": quantity((share * np.asarray(curve.values("flow"))).tolist(), "m^3/s"),
+        "head": quantity((lift * np.asarray(curve.values("head"))).tolist(), "m"),
+        "pumps": int(case.running.value),
+        "arrangement": model.pump.arrangement,
+    }
+
+
+def _combined_region(model: Model, case: Case, region: dict[str, Any]) -> dict[str, Any]:
+    """The region's flows [m^3/s] as total flows of the running pumps, each pump at the
+    bounding flow: n_run times in parallel, unchanged in series (see :func:`_arrangement`)."""
+    share, _ = _arrangement(model, case)
+
+    def total(q: dict[str, Any]) -> dict[str, Any]:
+        return quantity(share * q["value"], q["unit"])
+
+    out: dict[str, Any] = {"pumps": int(case.running.value), "arrangement": model.pump.arrangement}
+    for key in ("bep_flow", "min_continuous_flow"):
+        if key in region:
+            out[key] = total(region[key])
+    for key in ("preferred", "allowable"):
+        if key in region:
+            out[key] = [total(q) for q in region[key]]
+    return out
 
 
 def _npsh_curves(model: Model, curve: CurvePoints) -> dict[str, Any]:
@@ -149,8 +201,8 @@ def _system_curve(
     the last point, so the duty point costs no second pass over the pipes.
     """
     low, high = _flow_span(model)
-    if curve is not None:
-        high = max(high, curve.values("flow")[-1])
+    if curve is not None:  # on to the end of the running pumps' curve
+        high = max(high, _arrangement(model, case)[0] * curve.values("flow")[-1])
     flows = np.append(np.linspace(low, high, CURVE_POINTS), model.flow.value)
     sweep = _hydraulics(
         _Sweep(), model, case, liquid, surfaces, flow=Given(flows, "m^3/s", "flow_range")
@@ -290,9 +342,7 @@ def _operating_flow(
     notes: Notes,
 ) -> Given | None:
     flows, heads = curve.values("flow"), curve.values("head")
-    n = case.running.value
-    parallel = model.pump.arrangement == "parallel"
-    share, lift = (n, 1.0) if parallel else (1.0, n)  # combined curve: Q x share, H x lift
+    share, lift = _arrangement(model, case)  # combined curve: Q x share, H x lift
 
     def difference(q: np.ndarray) -> np.ndarray:
         system = _hydraulics(

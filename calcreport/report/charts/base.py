@@ -18,6 +18,7 @@ from calcreport.units import display_unit, fmt, pretty_unit, to_display
 WIDTH_IN = 6.3  # fits the text width of A4 and Letter
 FONT_PT = 8.0  # annotations and ticks
 LABEL_PT = 8.5  # axis labels
+MAX_HEIGHT_IN = 7.5  # the tallest chart that leaves its caption room on a page
 
 INK = "#222222"
 BLUE = "#1f4e79"  # primary line
@@ -97,7 +98,16 @@ def _freeze_layout(fig: Any) -> None:
     every text already stands where the chart will show it.
     """
     _plain_glyphs(fig)
-    fig.get_layout_engine().execute(fig)
+    engine = fig.get_layout_engine()
+    # No legend taller than its axes: a taller figure. An estimate first, so the layout has
+    # room to run, then what the layout leaves short (the legend's gap above the axes grows
+    # with them, so a second pass may be needed).
+    _grow(fig, _legend_shortfall(fig, laid_out=False))
+    engine.execute(fig)
+    for _ in range(2):
+        if not _grow(fig, _legend_shortfall(fig, laid_out=True)):
+            break
+        engine.execute(fig)
     fig.set_layout_engine("none")
     renderer = fig._get_renderer()
     with renderer._draw_disabled():
@@ -106,6 +116,42 @@ def _freeze_layout(fig: Any) -> None:
             if legend is not None:
                 legend.draw(renderer)
     _plain_glyphs(fig)  # the tick labels that the layout created
+
+
+_DECORATIONS_PT = 45.0  # the height of a chart outside its axes and legend: ticks, label, pads
+
+
+def _legend_shortfall(fig: Any, laid_out: bool) -> float:
+    """The height [pt] the figure lacks for no legend to be taller than its axes: as laid
+    out, or before the layout, estimated from the figure's height.
+
+    The layout keeps the margins and shares out the rest of the height by the rows' height
+    ratios, so an axes with a share s of it grows by s times the figure's growth.
+    """
+    renderer = fig._get_renderer()
+    need = 0.0
+    for ax in fig.axes:
+        legend = ax.get_legend()
+        if legend is None:
+            continue
+        spec = ax.get_subplotspec()
+        grid = spec.get_gridspec()
+        ratios = grid.get_height_ratios() or [1.0] * grid.nrows
+        share = sum(ratios[i] for i in spec.rowspan) / sum(ratios)
+        height = legend.get_window_extent(renderer).height
+        room = ax.bbox.height if laid_out else (fig.bbox.height - height - _DECORATIONS_PT) * share
+        if height > room:
+            need = max(need, (height - room + 1.0) / share)
+    return need
+
+
+def _grow(fig: Any, points: float) -> bool:
+    """Make the figure ``points`` taller, up to :data:`MAX_HEIGHT_IN`; whether it grew."""
+    height = fig.get_figheight()
+    if points <= 0.0 or height >= MAX_HEIGHT_IN:
+        return False
+    fig.set_figheight(min(height + points / 72.0, MAX_HEIGHT_IN))
+    return True
 
 
 def _plain_glyphs(fig: Any) -> None:
@@ -222,6 +268,11 @@ def _plain(x: float) -> str:
         return "0"
     text = f"{x:.0f}" if abs(x) >= 1000 else f"{x:.4g}"
     return text.replace("-", "−")
+
+
+def _arrangement(combined: dict[str, Any]) -> str:
+    """How the pumps of a combined curve (``pump_curve.combined``) run: "2 pumps in parallel"."""
+    return f"{combined['pumps']} pumps in {combined['arrangement']}"
 
 
 def _given(trace: dict[str, Any], key: str) -> dict[str, Any] | None:

@@ -12,6 +12,7 @@ from calcreport.report.charts.base import (
     BLUE,
     INK,
     RUST,
+    _arrangement,
     _Display,
     _given,
     _legend_above,
@@ -40,6 +41,15 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
     qu, hu = d.label("flow"), d.label("length")
     pump = r.get("pump_curve") if isinstance(r.get("pump_curve"), dict) else {}
     op = r.get("operating_point") if isinstance(r.get("operating_point"), dict) else {}
+    # NPSH is each pump's, the flow the system's: with several pumps running, each pump's
+    # values are drawn at the total flow of the running pumps (pump_curve.combined), where
+    # the NPSH available and the operating point (its total flow) stand.
+    combined = pump.get("combined")
+    region = r.get("operating_region")
+    region = region and region.get("combined", region)
+    which = ""
+    if combined:
+        which = " of each pump" if combined["arrangement"] == "parallel" else " of the first pump"
 
     # With the pump's efficiency, a panel above shares the flow axis.
     with_efficiency = "flow" in pump and "efficiency" in pump
@@ -57,7 +67,7 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
     xmax = float(np.max(q))
 
     if "flow" in pump and "npsh_required" in pump:
-        pq = d(pump["flow"], "flow")
+        pq = d((combined or pump)["flow"], "flow")
         (line,) = ax.plot(
             pq,
             d(pump["npsh_required"], "length"),
@@ -67,7 +77,7 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
             marker="s",
             ms=3.5,
             mfc="white",
-            label="NPSH required (pump data)",
+            label=f"NPSH required{which} (pump data)",
         )
         handles.append(line)
         ymax = max(ymax, float(np.max(line.get_ydata())))
@@ -97,10 +107,15 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
         )
 
     if top is not None:
-        handles += _efficiency_panel(top, d, pump, op, r.get("operating_region"), q_duty)
+        handles += _efficiency_panel(top, d, pump, op, region, q_duty)
     ax.set_xlim(0, xmax * 1.02)
     ax.set_ylim(0, ymax * 1.3)
-    ax.set_xlabel(f"Flow [{qu}]")
+    if combined and combined["arrangement"] == "parallel":
+        ax.set_xlabel(f"Total flow of the {_arrangement(combined)} [{qu}]")
+    elif combined:
+        ax.set_xlabel(f"Flow through the {_arrangement(combined)} [{qu}]")
+    else:
+        ax.set_xlabel(f"Flow [{qu}]")
     ax.set_ylabel(f"NPSH [{hu}]")
     _legend_above(top if top is not None else ax, _unique(handles))
 
@@ -120,6 +135,13 @@ def _draw_npsh(trace: dict[str, Any]) -> tuple[Any, str]:
         title += "; the dotted line is the NPSH available the margin criterion asks for"
     if top is not None:
         title = "Pump efficiency (above) and " + title
+    if combined and "npsh_required" in pump and combined["arrangement"] == "parallel":
+        title += (
+            f"; each pump's NPSH required is drawn at the total flow of the "
+            f"{_arrangement(combined)}, {combined['pumps']} times its own"
+        )
+    elif combined and "npsh_required" in pump:
+        title += "; the NPSH required is the first pump's, which the suction line feeds"
     return fig, title
 
 
@@ -131,16 +153,18 @@ def _efficiency_panel(
     regions: dict[str, Any] | None,
     q_duty: float,
 ) -> list[Any]:
-    """The pump's efficiency against flow, in percent, with BEP and the operating point."""
+    """The pump's efficiency against flow, in percent, with BEP and the operating point;
+    with several pumps running, each pump's efficiency at their total flow."""
     _style_axes(ax)
     eta = np.asarray(pump["efficiency"]["value"], dtype=float) * 100.0
+    combined = pump.get("combined")
     (line,) = ax.plot(
-        d(pump["flow"], "flow"),
+        d((combined or pump)["flow"], "flow"),
         eta,
         color=INK,
         lw=1.3,
         ls=(0, (7, 2, 1.5, 2)),
-        label="pump efficiency",
+        label="efficiency of each pump" if combined else "pump efficiency",
     )
     handles = [line]
     if "flow" in op and "efficiency" in op:

@@ -90,13 +90,15 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     src_x0, src_x1 = 0.05, 0.16
     dst_x0, dst_x1 = 0.84, 0.95
     n_s, n_d = len(suction), len(discharge)
-    width = (dst_x0 - src_x1) / max(n_s + n_d, 1)
-    pump_x = src_x1 + (n_s * width if n_s else 0.06)
+    pumps = _PumpSet.of(r)
+    half = pumps.half_width()  # the pipes end on either side of the pump set
+    width = (dst_x0 - src_x1 - 2 * half) / max(n_s + n_d, 1)
+    pump_x = src_x1 + (n_s * width if n_s else 0.06) + half
     if n_s == 0:
-        width = (dst_x0 - pump_x) / max(n_d, 1)
+        width = (dst_x0 - pump_x - half) / max(n_d, 1)
         d_width = width
     else:
-        d_width = (dst_x0 - pump_x) / max(n_d, 1)
+        d_width = (dst_x0 - pump_x - half) / max(n_d, 1)
 
     # Source vessel.
     lows = [v for v in (elev("source.level_low"),) if v is not None]
@@ -162,7 +164,8 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     fig = _new_figure(3.6)
     ax = fig.add_subplot()
     ax.set_xlim(0, 1)
-    ax.set_ylim(y_lo - 0.15 * y_span, y_hi + 0.12 * y_span)
+    limits = (y_lo - 0.15 * y_span, y_hi + 0.12 * y_span)
+    ax.set_ylim(*(pumps.room(pump_y, *limits) if pumps.stacked else limits))
     ax.spines["bottom"].set_visible(False)
     ax.set_xticks([])
     ax.set_ylabel(f"Elevation [{hu}]")
@@ -197,9 +200,9 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
     # Pipes, suction then discharge.
     dip_x = src_x0 + 0.68 * (src_x1 - src_x0)  # a suction lift draws from the liquid
     if not suction:  # the pump sits at the source vessel's nozzle
-        nozzle = [(src_x1, src_out_y), (pump_x, pump_y)]
+        nozzle = [(src_x1, src_out_y), (pump_x - half, pump_y)]
         if lift:
-            nozzle = [(dip_x, src_bottom + 0.2 * tank_h), (dip_x, pump_y), (pump_x, pump_y)]
+            nozzle = [(dip_x, src_bottom + 0.2 * tank_h), (dip_x, pump_y), (pump_x - half, pump_y)]
         ax.plot(*zip(*nozzle, strict=True), **pipe_kw)
     y_scale = 0.5 / max(y_hi - y_lo, min_span)  # axes units, about the chart's aspect
 
@@ -217,7 +220,7 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
             pts = [(dip_x, src_bottom + 0.2 * tank_h), (dip_x, ys), (x + width, ye)]
         segments.append((pid, p, pts))
         x += width
-    x = pump_x
+    x = pump_x + half
     prev_y = pump_y
     for (pid, p), (ys, ye) in zip(discharge, d_ends, strict=True):
         pts = [(x, ys), (x + d_width, ye)]
@@ -252,16 +255,14 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
             zorder=4,
         ).set_in_layout(False)
     joints = [seg[2][-1] for seg in segments[:-1]]
-    joints = [j for j in joints if abs(j[0] - pump_x) > 1e-9]
+    joints = [j for j in joints if abs(j[0] - (pump_x - half)) > 1e-9]
     if joints:
         ax.plot(*zip(*joints, strict=True), zorder=4, **joint_kw)
     if free_outlet is not None and segments:
         end = segments[-1][2][-1]
         ax.plot([end[0], end[0]], [end[1], level_d], color=BLUE, lw=0.8, ls=(0, (1.5, 1.5)))
 
-    # Pump symbol: a circle with a triangle pointing downstream.
-    ax.plot([pump_x], [pump_y], marker="o", ms=15, mfc="white", mec=INK, mew=1.2, zorder=5)
-    ax.plot([pump_x], [pump_y], marker=">", ms=6, mfc=INK, mec=INK, zorder=6)
+    places = pumps.draw(ax, pump_x, pump_y, pipe_kw)
 
     # Surface symbols and the reference lines to the elevation scale.
     marker = _surface_marker()
@@ -272,13 +273,15 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
             mec=INK, mew=0.8, zorder=6)  # fmt: skip
     ref = {"color": GREY, "lw": 0.5, "ls": (0, (1, 2)), "zorder": 0}
     ax.plot([0, src_x0], [level_s, level_s], **ref)
-    ax.plot([0, pump_x - 0.015], [pump_y, pump_y], **ref)
+    ax.plot([0, pump_x - half - 0.015], [pump_y, pump_y], **ref)
     ax.plot([0, dst_x0], [level_d, level_d], **ref)
 
     placer = _Placer(fig, ax)
     placer.add_lines()
-    pump_box = ax.transData.transform([(pump_x, pump_y)])[0]
-    placer.boxes.append((pump_box[0] - 9, pump_box[1] - 9, pump_box[0] + 9, pump_box[1] + 9))
+    reach = pumps.size / 2 + 1.5
+    for x_p, dy, _ in places:
+        at = ax.transData.transform([(x_p, pump_y)])[0] + (0.0, dy)
+        placer.boxes.append((at[0] - reach, at[1] - reach, at[0] + reach, at[1] + reach))
 
     def pressure_text(q: dict[str, Any] | None) -> str:
         if not q or q["value"] == 0:
@@ -301,9 +304,20 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
         [(0, -4), (0, -12)],
         leader_from=99,
     )
-    datum_text = f"pump\ndatum {_plain(pump_y)} {hu}" if datum is not None else "pump"
-    placer.place(datum_text, (pump_x, pump_y), [(0, -11), (0, 11), (10, -10), (-10, -10),
-                 (10, 10), (-10, 10)], leader_from=99)  # fmt: skip
+    spares = [(x_p, dy) for x_p, dy, spare in places if spare]
+    if spares:  # one label by the last standby pump, first: each is dashed alike
+        x_p, dy = spares[-1]
+        centre, header = ax.transData.transform([(x_p, pump_y), (pump_x + half, pump_y)])
+        label_at = tuple(ax.transData.inverted().transform([centre + (0.0, dy)])[0])
+        gap = pumps.size / 2 + 3.5
+        beyond = header[0] - centre[0] + 3 if pumps.stacked else 0.0  # a parallel header
+        clear = max(gap, beyond)
+        placer.place("standby", label_at, [(clear, 0), (-clear, 0), (0, -gap), (0, gap)],
+                     leader_from=99)  # fmt: skip
+    datum_text = pumps.name() + (f"\ndatum {_plain(pump_y)} {hu}" if datum is not None else "")
+    low, high = min(dy for _, dy, _ in places), max(dy for _, dy, _ in places)
+    placer.place(datum_text, (pump_x, pump_y), [(0, low - 11), (0, high + 11), (10, low - 10),
+                 (-10, low - 10), (10, high + 10), (-10, high + 10)], leader_from=99)  # fmt: skip
 
     lu, du = d.label("length"), d.label("diameter")
     for pid, p, pts in _labelled(segments):
@@ -335,4 +349,133 @@ def _draw_sketch(trace: dict[str, Any]) -> tuple[Any, str]:
         f"pump datum to the elevation scale at the left in {hu}; pipe runs not to horizontal "
         "scale, vessel outlines schematic"
     )
+    if pumps.running + pumps.standby > 1:
+        title += "; " + pumps.caption()
     return fig, title
+
+
+class _PumpSet:
+    """The pumps the sketch draws: how they are arranged and how many run and stand by,
+    from the trace's rated duty (results.rated_duty: arrangement, pumps_running,
+    pumps_standby); one pump when the trace does not say."""
+
+    HEADER = 0.035  # axes units from the pumps to a parallel header
+    STEP = 0.055  # axes units between pumps in series
+    STACK_PT = 100.0  # the tallest stack of parallel pumps
+    SPARE_DROP_PT = 22.0  # a series' standby pumps, below the line
+    AXES_PT = 240.0  # about the sketch's axes height, a little less
+
+    def __init__(self, arrangement: str, running: int, standby: int) -> None:
+        self.arrangement = arrangement
+        self.running = running
+        self.standby = standby
+        total = running + standby
+        self.stacked = arrangement == "parallel" and total > 1
+        # Parallel pumps one above another, their pitch shrinking for many; a symbol's size.
+        self.pitch = min(20.0, self.STACK_PT / total) if self.stacked else 20.0
+        self.size = min(15.0, self.pitch - 4.0)
+
+    @classmethod
+    def of(cls, results: dict[str, Any]) -> _PumpSet:
+        rated = results.get("rated_duty") or {}
+        running = rated.get("pumps_running", {}).get("value", 1)
+        standby = rated.get("pumps_standby", {}).get("value", 0)
+        return cls(str(rated.get("arrangement", "single")), int(running), int(standby))
+
+    def half_width(self) -> float:
+        """Half the set's width (axes units): the pipes end this far either side of it."""
+        if self.stacked:
+            return self.HEADER
+        return (self.running - 1) * self.STEP / 2
+
+    def places(self, x: float) -> list[tuple[float, float, bool]]:
+        """Each pump's centre as (x in data, offset from the datum [pt], standby), about ``x``:
+        parallel pumps one above another, duty pumps first; pumps in series one after the
+        other, a standby pump below them."""
+        if self.stacked:
+            total = self.running + self.standby
+            top = (total - 1) / 2 * self.pitch
+            return [(x, top - i * self.pitch, i >= self.running) for i in range(total)]
+        half = self.half_width()
+        duty = [(x - half + i * self.STEP, 0.0, False) for i in range(self.running)]
+        spare = [
+            (x + (j - (self.standby - 1) / 2) * self.STEP, -self.SPARE_DROP_PT, True)
+            for j in range(self.standby)
+        ]
+        return duty + spare
+
+    def room(self, y: float, low: float, high: float) -> tuple[float, float]:
+        """Elevation limits (low, high) widened where a stack of parallel pumps about the
+        datum ``y`` would reach out of the axes (their height taken as AXES_PT)."""
+        reach = self.places(0.0)[0][1] + self.size / 2 + 4.0  # above and below the datum [pt]
+        f = reach / self.AXES_PT  # the share of the axes height either side must hold
+        low = min(low, (y - f * high) / (1.0 - f))
+        return low, max(high, (y - f * low) / (1.0 - f))
+
+    def draw(
+        self, ax: Any, x: float, y: float, pipe_kw: dict[str, Any]
+    ) -> list[tuple[float, float, bool]]:
+        """The pump symbols (a circle, a triangle pointing downstream; a standby one dashed
+        and grey) and the piping between them; returns :meth:`places`."""
+        places = self.places(x)
+        half = self.half_width()
+        branch_kw = {**pipe_kw, "lw": 1.2}
+        if self.stacked:  # headers and a branch to each pump
+            top, bottom = places[0][1], places[-1][1]
+            for x_h in (x - half, x + half):
+                ax.plot([0.0, 0.0], [top, bottom], transform=_around(ax, x_h, y), **branch_kw)
+            for _, dy, _ in places:
+                ax.plot([x - half, x + half], [y, y], transform=_shifted(ax, dy), **branch_kw)
+        elif self.running > 1:  # the line through the pumps in series
+            ax.plot([x - half, x + half], [y, y], **pipe_kw)
+        scale = self.size / 15.0
+        for x_p, dy, spare in places:
+            at = _shifted(ax, dy)
+            colour = GREY if spare else INK
+            ax.plot([x_p], [y], marker="o", ms=self.size, mfc="white",
+                    mec="white" if spare else INK, mew=1.2, zorder=5, transform=at)  # fmt: skip
+            if spare:
+                turn = np.linspace(0.0, 2.0 * np.pi, 49)
+                r = self.size / 2
+                ax.plot(r * np.cos(turn), dy + r * np.sin(turn), color=INK, lw=1.0,
+                        ls=(0, (2.0, 1.5)), zorder=5, transform=_around(ax, x_p, y))  # fmt: skip
+            ax.plot([x_p], [y], marker=">", ms=6 * scale, mfc=colour, mec=colour, zorder=6,
+                    transform=at)  # fmt: skip
+        return places
+
+    def name(self) -> str:
+        """The set's label on the sketch ("pump", "2 duty pumps in parallel"); the standby
+        pumps have a label of their own."""
+        duty = "duty " if self.standby else ""
+        if self.running == 1:
+            return f"{duty}pump"
+        return f"{self.running} {duty}pumps in {self.arrangement}"
+
+    def caption(self) -> str:
+        """What the caption says of a set of several pumps."""
+        if self.stacked:
+            text = (
+                f"the {self.running + self.standby} pumps in parallel drawn one above another "
+                "about the pump datum, where all stand"
+            )
+            return text + (", standby dashed" if self.standby else "")
+        text = "the duty pump"
+        if self.running > 1:
+            text = f"the {self.running} pumps in series drawn one after another"
+        return text + (", standby dashed below" if self.standby else "")
+
+
+def _shifted(ax: Any, dy: float) -> Any:
+    """Data coordinates moved up by ``dy`` points (the data transform itself for none)."""
+    from matplotlib.transforms import ScaledTranslation
+
+    if dy == 0.0:
+        return ax.transData
+    return ax.transData + ScaledTranslation(0.0, dy / 72.0, ax.figure.dpi_scale_trans)
+
+
+def _around(ax: Any, x: float, y: float) -> Any:
+    """Coordinates in points about the data point (x, y)."""
+    from matplotlib.transforms import Affine2D, ScaledTranslation
+
+    return Affine2D().scale(ax.figure.dpi / 72.0) + ScaledTranslation(x, y, ax.transData)

@@ -4,6 +4,7 @@ and duty points, the preferred and allowable regions.
 
 from __future__ import annotations
 
+import itertools
 from typing import Any
 
 import numpy as np
@@ -14,6 +15,7 @@ from calcreport.report.charts.base import (
     INK,
     LIGHT,
     RUST,
+    _arrangement,
     _Display,
     _legend_above,
     _new_figure,
@@ -50,9 +52,11 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
     xmax = float(np.max(q))
 
     # Other operating cases that carry their own curve.
-    styles = iter([(GREY, (0, (5, 2))), (GREY, (0, (1, 1.5))), (GREY, (0, (6, 2, 1, 2)))] * 4)
+    dashes = [(0, (5, 2)), (0, (1, 1.5)), (0, (6, 2, 1, 2))]
+    styles = itertools.cycle([(GREY, dash) for dash in dashes])
     titles = {c.get("id"): c.get("title", c.get("id")) for c in trace.get("cases", []) or []}
     shown_cases: list[str] = []
+    other_lines = []
     for case_id, case in (r.get("cases") or {}).items():
         other = case.get("system_curve") if isinstance(case, dict) else None
         if not other or other == curve:
@@ -68,34 +72,45 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
         )
         handles.append(line)
         shown_cases.append(f"{case_id}: {titles.get(case_id, case_id)}")
-        ymax = max(ymax, float(np.max(line.get_ydata())))
+        other_lines.append(line)
 
-    # Pump curve and operating point, when the trace has them.
+    # Pump curve and operating point, when the trace has them. With several pumps running,
+    # the operating point lies on their combined curve, drawn as the pump curve; one pump's
+    # curve, lighter, lies within its flows and heads.
     pump = r.get("pump_curve")
+    combined = one = None
     if isinstance(pump, dict) and "flow" in pump and "head" in pump:
+        combined = pump.get("combined")
+        if combined:
+            (one,) = ax.plot(
+                d(pump["flow"], "flow"),
+                d(pump["head"], "length"),
+                color=GREY,
+                lw=0.8,
+                ls=_PUMP_DASH,
+                label="one pump",
+            )
+            _curve_end(ax, one, GREY)
+        main = combined or pump
         (line,) = ax.plot(
-            d(pump["flow"], "flow"),
-            d(pump["head"], "length"),
+            d(main["flow"], "flow"),
+            d(main["head"], "length"),
             color=INK,
             lw=1.3,
-            ls=(0, (7, 2, 1.5, 2)),
-            label="pump curve",
+            ls=_PUMP_DASH,
+            label=_arrangement(combined) if combined else "pump curve",
         )
-        handles.append(line)
         # The curve is never extended: its last point is a limit of the pump data.
-        (end,) = ax.plot(
-            line.get_xdata()[-1:],
-            line.get_ydata()[-1:],
-            ls="none",
-            marker="|",
-            ms=11,
-            mew=1.6,
-            color=INK,
-            label="end of pump curve",
-        )
-        handles.append(end)
+        end = _curve_end(ax, line, INK)
+        handles += [h for h in (line, one, end) if h is not None]
         ymax = max(ymax, float(np.max(line.get_ydata())))
         xmax = max(xmax, float(np.max(line.get_xdata())))
+
+    # A case's curve runs on to the end of its own pumps' curve (more pumps running, further
+    # out): the heads that count are those within the flows shown.
+    for line in other_lines:
+        x, y = line.get_xdata(), line.get_ydata()
+        ymax = max(ymax, float(np.max(y[x <= xmax * 1.02], initial=ymax)))
 
     # Static head: the elevation and surface-pressure parts of TDH.
     static = r.get("static_head")
@@ -139,7 +154,8 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
             )
             om.set_label("operating points, other cases")
             handles.append(om)
-    handles += _regions(ax, d, r.get("operating_region"))
+    region = r.get("operating_region")
+    handles += _regions(ax, d, region and region.get("combined", region))
 
     # Head from zero, or from below zero where the curve or static head is negative.
     ymin = min(0.0, float(np.min(h)), h_static if static_line is not None else 0.0, h_duty)
@@ -191,11 +207,34 @@ def _draw_system_curve(trace: dict[str, Any]) -> tuple[Any, str]:
         f"System curve at the design case: head against flow, duty point "
         f"{_num(q_duty)} {qu} at TDH {_num(h_duty)} {hu}"
     )
-    if op_xy is not None:
+    if op_xy is not None and combined:
+        title += (
+            f", with the combined curve of the {_arrangement(combined)}, one pump's curve "
+            "(grey) and the operating point"
+        )
+    elif op_xy is not None:
         title += ", with the pump curve and the operating point"
     if shown_cases:
         title += "; " + "; ".join(shown_cases)
     return fig, title
+
+
+_PUMP_DASH = (0, (7, 2, 1.5, 2))  # a pump curve, dash-dot
+
+
+def _curve_end(ax: Any, line: Any, color: str) -> Any:
+    """The bar at the last point of a pump curve (the curve is never extended)."""
+    (end,) = ax.plot(
+        line.get_xdata()[-1:],
+        line.get_ydata()[-1:],
+        ls="none",
+        marker="|",
+        ms=11,
+        mew=1.6,
+        color=color,
+        label="end of pump curve",
+    )
+    return end
 
 
 def _regions(ax: Any, d: Any, regions: dict[str, Any] | None) -> list[Any]:
