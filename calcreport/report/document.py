@@ -40,6 +40,7 @@ from reportlab.platypus import (
 from reportlab.platypus.flowables import _listWrapOn
 
 from calcreport.report import style
+from calcreport.report.columns import TwoColumns
 from calcreport.report.sections.basis import BasisSection
 from calcreport.report.sections.calculation import CalculationSection
 from calcreport.report.sections.closing import ClosingSections
@@ -268,19 +269,25 @@ class _Report(
         if self.changes is not None:
             story += [PageBreak()] + self.changes_page()
         contents_at = len(story)
-        story += [PageBreak()] + self.at_a_glance()
-        story += [PageBreak()] + self.basis()
-        story += [PageBreak()] + self.calculation()
+        # A chapter starts on the page before it when enough of that page is left for its
+        # heading and first figure or table: no page left two-thirds empty between them.
+        story += [CondPageBreak(CHAPTER_ROOM)] + self.at_a_glance()
+        story += [CondPageBreak(CHAPTER_ROOM)] + self.basis()
+        story += [CondPageBreak(CHAPTER_ROOM)] + self.calculation()
         story += [CondPageBreak(80 * mm)] + self.checks()
-        story += [PageBreak()] + self.charts()
+        story += [CondPageBreak(CHAPTER_ROOM)] + self.charts()
         story += [CondPageBreak(90 * mm)] + self.cautions()
         story += [CondPageBreak(60 * mm)] + self.references()
-        story += [PageBreak()] + self.appendix()
+        story += [CondPageBreak(CHAPTER_ROOM)] + self.appendix()
         # The contents list follows the summary on its page when it fits there: the canvas
-        # writes one line a heading (about 13 pt, chapters 15 pt) below its mark.
-        lines = sum(1 for f in story if getattr(f, "_toc", None) is not None)
-        story[contents_at:contents_at] = [CondPageBreak(lines * 13.5 + 60)] + self.contents()
+        # writes one line a heading (chapters 15 pt, sections 12.5 pt) below its mark.
+        levels = [f._toc[0] for f in story if getattr(f, "_toc", None) is not None]
+        height = sum(15.0 if level == 0 else 12.5 for level in levels) + 6.0
+        story[contents_at:contents_at] = [CondPageBreak(height + 40)] + self.contents(height)
         return story
+
+
+CHAPTER_ROOM = 110 * mm  # room a chapter needs to start on a page already begun
 
 
 class _KeepWithStart(KeepTogether):
@@ -295,7 +302,7 @@ class _KeepWithStart(KeepTogether):
     def wrap(self, aW: float, aH: float) -> tuple[float, float]:
         size = super().wrap(aW, aH)
         *lead, last = self._content
-        if lead and isinstance(last, Table | Paragraph):  # these split across pages
+        if lead and isinstance(last, Table | Paragraph | TwoColumns):  # these split
             _, h_lead = _listWrapOn(lead, aW, self.canv)
             if self._H - h_lead > self.LONG:
                 rows = getattr(last, "_rowHeights", None)  # a table: its header and 2 rows

@@ -9,6 +9,7 @@ from typing import Any
 from reportlab.platypus import Flowable, Paragraph, TableStyle
 
 from calcreport.report import style
+from calcreport.report.columns import TwoColumns
 from calcreport.report.sections.common import (
     MAX_FITTINGS_LISTED,
     _ContentsMark,
@@ -18,6 +19,8 @@ from calcreport.report.sections.common import (
 )
 from calcreport.report.style import Table
 from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit, show
+
+INPUT_ROWS_ONE_COLUMN = 40  # a longer table of inputs is set in two columns
 
 
 class BasisSection:
@@ -29,8 +32,9 @@ class BasisSection:
     s: Any
     system: str
 
-    def contents(self) -> list[Flowable]:
-        return [Paragraph("Contents", self.s.h1), _ContentsMark()]
+    def contents(self, height: float) -> list[Flowable]:
+        """The contents heading and the room (``height``) its list takes."""
+        return [Paragraph("Contents", self.s.h1), _ContentsMark(height)]
 
     def at_a_glance(self) -> list[Flowable]:
         out: list[Flowable] = [self.heading("The system at a glance")]
@@ -153,11 +157,19 @@ class BasisSection:
             if key.startswith("catalog."):
                 continue
             entered = self.entered_value(key)
-            si = f"{fmt(q['value'], 6)} {pretty_unit(q['unit'])}".strip()
+            si = f"{q['value']:.6g} {pretty_unit(q['unit'])}".strip()
             if "pressure" in key and q["unit"] == "Pa":
-                si += " (abs)" if key == "site.station_pressure" else " (gauge)"
+                si += "(abs)" if key == "site.station_pressure" else "(g)"
             rows.append([key, entered, si])
-        out.append(self.plain_table(rows, [w * 0.42, w * 0.3, w * 0.28], mono=(0,)))
+        if len(rows) <= INPUT_ROWS_ONE_COLUMN:
+            out.append(self.plain_table(rows, [w * 0.42, w * 0.3, w * 0.28], mono=(0,)))
+        else:  # a long table in two columns: half the pages, the same rows
+            gap = 12.0
+            half = (w - gap) / 2
+            widths = [half * 0.52, half * 0.22, half * 0.26]
+            out.append(
+                TwoColumns(lambda part: self.plain_table(part, widths, mono=(0,)), rows, gap)
+            )
         out += self.catalog_data_used()
         return out
 

@@ -6,7 +6,8 @@ from __future__ import annotations
 
 from typing import Any
 
-from reportlab.platypus import Flowable, PageBreak, Paragraph, TableStyle
+from reportlab.lib.units import mm
+from reportlab.platypus import CondPageBreak, Flowable, PageBreak, Paragraph, TableStyle
 
 from calcreport.report import style
 from calcreport.report.sections.common import _lines, text
@@ -32,6 +33,7 @@ class ClosingSections:
         and source (the summary leaves them to the design-checks section)."""
         rows = [["Status", "Check", "Case", "Value", "Limit", "Basis"][: 6 if basis else 5]]
         extra: list[tuple[Any, ...]] = []
+        stated: dict[str, str] = {}  # a basis printed in full -> the check that states it
         for n, c in enumerate(checks, start=1):
             unit = (c["value"] or c["limit"] or {"unit": ""})["unit"]
             kind = KIND_OF_SI_UNIT.get(unit)
@@ -53,6 +55,11 @@ class ClosingSections:
                 else self.ref(c["reference"])
             )
             message = f"<br/><i>{text(c['message'])}</i>" if c["message"] else ""
+            # A basis shared by several checks (one criterion on every pipe) is stated
+            # once; the later rows name the check that states it.
+            said = f"{text(c['basis'])} ({source})"
+            first = stated.setdefault(said, c["title"])
+            said = said if first == c["title"] else f"As for {text(first)}."
             rows.append(
                 [
                     c["status"].upper(),
@@ -60,7 +67,7 @@ class ClosingSections:
                     text(c["case"]),
                     value,
                     limit,
-                    f"{text(c['basis'])} ({source})",
+                    said,
                 ][: 6 if basis else 5]
             )
             extra += [
@@ -193,7 +200,7 @@ class ClosingSections:
             self.heading("Appendix A — Darcy friction factor chart", numbered=False)
         ]
         out += self.figure("friction_factor")
-        out += [PageBreak()] + self.files_appendix()
+        out += [CondPageBreak(110 * mm)] + self.files_appendix()
         if self.listing == "full":
             out += [PageBreak()] + self.listing_appendix()
         return out

@@ -143,11 +143,16 @@ def _key_runs(keys: Sequence[str]) -> list[str]:
 
 
 class _ContentsMark(Flowable):
-    """Where the contents list starts; the canvas writes it once every page is known."""
+    """The room of the contents list (``height``); the canvas writes the list there once
+    every page is known."""
+
+    def __init__(self, height: float = 0.0) -> None:
+        super().__init__()
+        self.room = height
 
     def wrap(self, available_width: float, available_height: float) -> tuple[float, float]:
-        return available_width, 0.0
+        return available_width, self.room
 
     def draw(self) -> None:
-        x, y = self.canv.absolutePosition(0, 0)
+        x, y = self.canv.absolutePosition(0, self.room)
         self.canv._contents_at = (self.canv.getPageNumber(), x, y)
