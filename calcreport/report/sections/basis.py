@@ -11,16 +11,19 @@ from reportlab.platypus import Flowable, Paragraph, TableStyle
 from calcreport.report import style
 from calcreport.report.columns import TwoColumns
 from calcreport.report.sections.common import (
+    LONG_ROUTE_PIPES,
     MAX_FITTINGS_LISTED,
     _ContentsMark,
     _key_runs,
     _lines,
+    runs,
     text,
 )
 from calcreport.report.style import Table
 from calcreport.units import KIND_OF_SI_UNIT, fmt, pretty_unit, show
 
 INPUT_ROWS_ONE_COLUMN = 40  # a longer table of inputs is set in two columns
+MAX_PIPE_INPUT_ROWS = 300  # more pipe inputs than this: the pipes' table stands for them
 
 
 class BasisSection:
@@ -54,15 +57,22 @@ class BasisSection:
                 ]
             )
         w = self.width
-        out.append(self.table(rows, [w * 0.08, w * 0.1, w * 0.12, w * 0.14, w * 0.12, w * 0.44]))
-        for ident, p in self.r["pipes"].items():
-            for what, source in p.get("sources", {}).items():
-                out.append(
-                    self.p(
-                        f"{text(ident)} {what.replace('_', ' ')} from the catalog: {text(source)}",
-                        self.s.small,
-                    )
-                )
+        long_route = len(self.r["pipes"]) > LONG_ROUTE_PIPES
+        if long_route:
+            rows = [rows[0], *runs(rows[1:])]
+        out.append(self.table(rows, [w * 0.1, w * 0.1, w * 0.12, w * 0.14, w * 0.12, w * 0.42]))
+        sources = [
+            [text(ident), f"{what.replace('_', ' ')} from the catalog: {text(source)}"]
+            for ident, p in self.r["pipes"].items()
+            for what, source in p.get("sources", {}).items()
+        ]
+        if long_route:  # one line a run of pipes of one source
+            by_what: dict[str, list[list[Any]]] = {}
+            for ident, said in sources:
+                by_what.setdefault(said, []).append([ident, said])
+            sources = [row for group in by_what.values() for row in runs(group)]
+        for ident, said in sources:
+            out.append(self.p(f"{ident} {said}", self.s.small))
         return out
 
     def fitting_list(self, ident: str) -> str:
@@ -161,6 +171,18 @@ class BasisSection:
             if "pressure" in key and q["unit"] == "Pa":
                 si += "(abs)" if key == "site.station_pressure" else "(g)"
             rows.append([key, entered, si])
+        pipes = [row for row in rows[1:] if row[0].startswith("pipe[")]
+        if len(pipes) > MAX_PIPE_INPUT_ROWS:  # a long route: its pipes are tabled in section 2
+            rows = [row for row in rows if not row[0].startswith("pipe[")]
+            out.append(
+                self.p(
+                    f"The {len(pipes)} inputs of the {len(self.r['pipes'])} pipes are not "
+                    "listed here: each pipe's length, diameter, roughness and fittings stand "
+                    "in the table of section 2, and every value as entered in the input "
+                    "attached to this PDF.",
+                    self.s.small,
+                )
+            )
         if len(rows) <= INPUT_ROWS_ONE_COLUMN:
             out.append(self.plain_table(rows, [w * 0.42, w * 0.3, w * 0.28], mono=(0,)))
         else:  # a long table in two columns: half the pages, the same rows

@@ -14,8 +14,10 @@ from calcreport.report.mathtext import Equation
 from calcreport.report.sections.common import (
     _MONEY,
     CALCULATION_ANCHOR,
+    LONG_ROUTE_PIPES,
     SECTIONS,
     _key_runs,
+    runs,
     text,
 )
 from calcreport.trace import substitute
@@ -46,6 +48,26 @@ def printed_substitution(st: dict[str, Any], system: str) -> str:
 
 
 USERS_LISTED = 3  # steps named as using a step's result (the rest are counted)
+INPUTS_LISTED = 12  # a step's inputs named in print (a sum over hundreds of pipes: counted)
+LINE_CHARS = 900  # a longer substituted line prints its first and last terms in full
+
+
+def elided(line: str) -> str:
+    """A substituted line of hundreds of terms (a sum over every pipe of a long route) as
+    printed: its first and last terms, and the count of those between; the whole line is in
+    the attached listing. A line of ``LINE_CHARS`` or fewer prints whole."""
+    if len(line) <= LINE_CHARS:
+        return line
+    for sep in (" + ", ", "):
+        head = line.rfind(sep, 0, LINE_CHARS * 2 // 3)
+        tail = line.find(sep, len(line) - LINE_CHARS // 3)
+        if 0 < head < tail:
+            hidden = line[head:tail].count(sep)  # the terms between the two kept ends
+            return (
+                f"{line[:head]}{sep}… {hidden} more terms (the full line is in the attached "
+                f"listing) …{sep}{line[tail + len(sep) :]}"
+            )
+    return line
 
 
 class CalculationSection:
@@ -82,12 +104,15 @@ class CalculationSection:
         if typeset:
             parts.append(Equation(st["latex"], 10.5))
             self.typeset.add(st["function"])
-        parts.append(self.p(text(printed_substitution(st, self.system)), s.substituted))
+        parts.append(self.p(text(elided(printed_substitution(st, self.system))), s.substituted))
         result = {"value": st["value"], "unit": st["unit"]}
         result_text = f"{text(st['symbol'])} = {self.q_both(result)}"
         if st["function"] in _MONEY:  # a sum of money: in the project's currency
             result_text += f" {text(self.entered_value('operation.currency') or '')}".rstrip()
-        inputs = ", ".join(self.link(i) for i in _key_runs(st["inputs"]))
+        named = _key_runs(st["inputs"])
+        inputs = ", ".join(self.link(i) for i in named[:INPUTS_LISTED])
+        if len(named) > INPUTS_LISTED:
+            inputs += f" and {len(named) - INPUTS_LISTED} more"
         users = self.used_by.get(st["id"], [])
         used = ", ".join(self.link(u) for u in users[:USERS_LISTED])
         if len(users) > USERS_LISTED:
@@ -284,6 +309,8 @@ class CalculationSection:
                 ]
             )
         w = self.width
+        if len(self.r["pipes"]) > LONG_ROUTE_PIPES:  # like pipes along a long main: one row
+            rows = [rows[0], *runs(rows[1:])]
         out.append(self.table(rows, [w * 0.1] * 10))
         out.append(
             self.p(

@@ -17,6 +17,7 @@ from calcreport.units import KIND_OF_SI_UNIT, pretty_unit
 # Passing checks of one kind in more pipes than this print as one row (the pipe nearest
 # its limit); a design check that does not pass always has its own row.
 GROUP_PIPE_CHECKS = 8
+MAX_ECHO_LINES = 400  # a longer input is attached, not echoed (four pages in two columns)
 
 
 class ClosingSections:
@@ -281,6 +282,17 @@ class ClosingSections:
                 self.s.small,
             )
         )
+        lines = self.input_text.splitlines() or [""]
+        if len(lines) > MAX_ECHO_LINES:  # a raw listing of many pages: attached, not printed
+            out.append(
+                self.p(
+                    f"The input ({len(lines)} lines, SHA-256 {text(inp['sha256'])}) is "
+                    "attached to this PDF verbatim and not echoed in print; its values stand "
+                    "in the tables of the system and of the inputs as used.",
+                    self.s.small,
+                )
+            )
+            return out
         out.append(self.p(f"Input echoed verbatim (SHA-256 {text(inp['sha256'])}):", self.s.small))
         # A monospaced line holds a fixed count of characters: longer lines are cut into
         # pieces of that count (each ending in ↩), so layout time stays linear in the input.
@@ -288,7 +300,6 @@ class ClosingSections:
 
         # A long input is set in two balanced columns: half the pages, the same lines.
         mono = self.s.mono
-        lines = self.input_text.splitlines() or [""]
         columns = 2 if len(lines) > 60 else 1
         gap = 12.0
         column = (self.width - gap * (columns - 1)) / columns

@@ -33,6 +33,25 @@ SECTIONS = (
 )
 
 
+# A route of more pipes than this prints each run of like pipes as one row of its tables.
+LONG_ROUTE_PIPES = 40
+
+
+def runs(rows: list[list[Any]]) -> list[list[Any]]:
+    """Table rows with each run of consecutive rows alike but for their first cell (the
+    pipes of one size along a long main) as one row whose first cell names the run and
+    counts it: ``"D1–D499 (499)"``. Nothing is lost: every member's values are the row's."""
+    out: list[list[Any]] = []
+    start = 0
+    for n in range(1, len(rows) + 1):
+        if n < len(rows) and rows[n][1:] == rows[start][1:]:
+            continue
+        first, last = rows[start][0], rows[n - 1][0]
+        out.append([first if n - 1 == start else f"{first}–{last} ({n - start})", *rows[start][1:]])
+        start = n
+    return out
+
+
 # The anchor of the calculation chapter, and of each of its sections ("sec." + its key):
 # where a link to a step not worked in print lands.
 CALCULATION_ANCHOR = "sec.calculation"
