@@ -39,6 +39,7 @@ from calcreport.model.sections.pipes import FITTINGS_METHODS, FRICTION_METHODS, 
 from calcreport.model.sections.project import _project
 from calcreport.model.sections.pump import MOTOR_CLASSES, _pump
 from calcreport.model.sections.reader import _Lines, _Reader
+from calcreport.model.sections.study import _study
 from calcreport.model.sections.vessels import _flow_range, _vessel
 from calcreport.units import as_written
 
@@ -68,6 +69,7 @@ _TOP_KEYS = {
     "component",
     "surge",
     "fittings_method",
+    "study",
 }
 # Bounds on what one input may hold: far beyond any real system, small enough that a
 # pasted or generated file cannot make a run take minutes or the report thousands of pages.
@@ -254,6 +256,11 @@ def _build(r: _Reader, data: dict[str, Any], text: str, raw: bytes, path: str) -
             "A dirty-strainer case needs a suction pipe to hold the strainer.",
         )
     components = _components(r, data.get("component"), pipes)
+    study = None
+    if "study" in data and pump is not None and pump_data is not None and not r.count("pump"):
+        study_data = r.table(data, "study", "study", required=True)
+        if study_data is not None:
+            study = _study(r, study_data, pump_data, pump, operation)
     surge = _surge(r, data)
     friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
     fittings_method = r.text(data, "fittings_method", "", "two_k", FITTINGS_METHODS)
@@ -330,4 +337,5 @@ def _build(r: _Reader, data: dict[str, Any], text: str, raw: bytes, path: str) -
         motor_class=motor_class,
         motor_derating=motor_derating,
         motor_ambient=motor_ambient,
+        study=study,
     )

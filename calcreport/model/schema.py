@@ -200,6 +200,27 @@ class Pump:
 
 
 @dataclass(frozen=True)
+class Candidate:
+    """A pump offered for the duty: the [pump] table with the candidate's own keys, its
+    initial cost and its annual maintenance cost (project currency)."""
+
+    id: str
+    title: str
+    pump: Pump
+    capital_cost: Given
+    annual_maintenance: Given | None = None
+
+
+@dataclass(frozen=True)
+class Study:
+    """Candidate pumps to rank by life-cycle cost; ``selected`` (a candidate id, or "" for
+    the best that passes) gets the full calculation."""
+
+    candidates: tuple[Candidate, ...]
+    selected: str = ""
+
+
+@dataclass(frozen=True)
 class Operation:
     hours_per_year: Given | None = None
     energy_price: Given | None = None
@@ -259,6 +280,7 @@ class Model:
     motor_ambient: Given | None = None  # ambient (coolant) temperature at the motor
     components: tuple[Component, ...] = ()
     surge: Surge | None = None  # None: no surge screening asked for
+    study: Study | None = None  # None: one design, checked
 
     @property
     def suction_pipes(self) -> tuple[Pipe, ...]:

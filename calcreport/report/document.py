@@ -48,6 +48,7 @@ from calcreport.report.sections.common import CALCULATION_ANCHOR, plain, stage_a
 from calcreport.report.sections.front import FrontMatter
 from calcreport.report.sections.rated import RatedDutySheet
 from calcreport.report.sections.route import RouteSections
+from calcreport.report.sections.study import StudySection
 from calcreport.report.sections.summary import SummarySection
 from calcreport.report.style import Table
 from calcreport.tracefile import TraceView
@@ -60,6 +61,7 @@ class _Report(
     FrontMatter,
     RatedDutySheet,
     SummarySection,
+    StudySection,
     BasisSection,
     CalculationSection,
     RouteSections,
@@ -269,6 +271,8 @@ class _Report(
         if self.changes is not None:
             story += [PageBreak()] + self.changes_page()
         contents_at = len(story)
+        if "study" in self.r:  # the choice between offers, before the chosen one's calculation
+            story += [CondPageBreak(CHAPTER_ROOM)] + self.choice()
         # A chapter starts on the page before it when enough of that page is left for its
         # heading and first figure or table: no page left two-thirds empty between them.
         story += [CondPageBreak(CHAPTER_ROOM)] + self.at_a_glance()

@@ -50,7 +50,19 @@ __all__ = ["solve"]
 
 
 def solve(model: Model) -> Trace:
-    """Solve the pump system of ``model`` and return its trace."""
+    """Solve the pump system of ``model`` and return its trace: with candidate pumps
+    (``model.study``), each candidate's whole calculation, their ranking by life-cycle cost
+    and the selected candidate's trace (:mod:`calcreport.solver.study`)."""
+    if model.study is not None:
+        from calcreport.solver.study import solve_study
+
+        return solve_study(model, _solve_design)
+    return _solve_design(model)
+
+
+def _solve_design(model: Model, study: Any = None) -> Trace:
+    """The trace of the one design ``model`` describes; ``study(b, results)``, when given,
+    adds the candidates' study to it (its steps and ``results.study``)."""
     b = TraceBuilder()
     notes = Notes()
     _record_inputs(b, model)
@@ -202,6 +214,8 @@ def solve(model: Model) -> Trace:
         if energy:
             by_case[DESIGN_CASE]["energy"] = energy
     results = dict(by_case[DESIGN_CASE])
+    if study is not None:
+        results["study"] = study(b, results)
     # The highest pressures: the pump's highest head on its fastest curve.
     surge = route.surge_screening(states, notes)
     if surge:

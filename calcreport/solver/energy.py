@@ -180,7 +180,8 @@ def _energy(
                 costs=costs,
             )
         )
-        energy["annual_cost"] = quantity(total.value, op.currency)
+        # In the project's currency, naming its step (a study's life-cycle cost uses it).
+        energy["annual_cost"] = {**quantity(total.value, op.currency), "from": total.key}
         if op.life_years is not None and op.discount_rate is not None:
             pv = b.step(
                 "energy.life_cycle_cost",

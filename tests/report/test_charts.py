@@ -29,6 +29,7 @@ EXAMPLES = {
     "us": ROOT / "input_examples" / "process_transfer_us.toml",
     "check": ROOT / "input_examples" / "check_case.toml",
     "cooling": ROOT / "input_examples" / "cooling_water_selected_pump.toml",
+    "offers": ROOT / "input_examples" / "pump_offers.toml",
 }
 NAMES = charts.FIGURES
 WIDTH_PT = 6.3 * 72
@@ -156,6 +157,7 @@ def test_figures_lists_every_public_chart() -> None:
         "friction_factor",
         "route_pressure",
         "energy",
+        "candidates",
     }
     assert set(NAMES) <= set(charts.__all__)
 
@@ -168,6 +170,8 @@ def test_optional_charts_apply_only_where_the_trace_holds_their_data(traces) -> 
     assert not charts.applies("route_pressure", traces["check"])
     assert charts.applies("energy", traces["cooling"])
     assert charts.applies("route_pressure", traces["cooling"])
+    assert charts.applies("candidates", traces["offers"])
+    assert not charts.applies("candidates", traces["cooling"])
 
 
 def _applicable(traces: dict[str, dict[str, Any]], name: str) -> str:

@@ -572,3 +572,16 @@ def test_long_route_groups_passing_pipe_checks_and_thins_chart_labels(tmp_path):
     assert [c for c in trace["checks"] if c["status"] != "pass"] == [
         c for c in rows if c["status"] != "pass"
     ]
+
+
+def test_a_study_report_names_the_choice_and_why_before_its_calculation(built):
+    _, trace, pages = built["pump_offers"]
+    text = re.sub(r"\s+", " ", " ".join(pages))
+    choice = text.index("Choice of pump", text.index("Contents") + 100)
+    assert choice < text.index("The system at a glance", choice)
+    assert "Offer B is selected: the lowest life-cycle cost among the offers that pass" in text
+    assert "Offer A would cost less over the life" in text and "fails npsh_margin" in text
+    # Every offer's row: its rank, status and life-cycle cost as the trace holds them.
+    for offer in trace["results"]["study"]["candidates"]:
+        assert f"{offer['life_cycle_cost']['value']:,.0f} EUR" in text
+    assert "Life-cycle cost of the offers" in text  # each offer's cost, worked

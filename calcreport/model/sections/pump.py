@@ -65,78 +65,80 @@ MAX_CSV_BYTES = 200_000
 MIN_CURVE_POINTS = 3
 
 
-def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
-    r.known_keys(data, "pump", _PUMP_KEYS)
-    elevation = r.quantity(data, "elevation", "pump", "length", required=True)
-    efficiency = r.quantity(data, "efficiency", "pump", "dimensionless", fraction=True)
-    speed = r.quantity(data, "speed", "pump", "speed", positive=True)
+def _pump(r: _Reader, data: dict[str, Any], where: str = "pump") -> Pump | None:
+    """The pump of ``data``, its keys named under ``where`` (``pump``, or a candidate's
+    ``candidate[2]``)."""
+    r.known_keys(data, where, _PUMP_KEYS)
+    elevation = r.quantity(data, "elevation", where, "length", required=True)
+    efficiency = r.quantity(data, "efficiency", where, "dimensionless", fraction=True)
+    speed = r.quantity(data, "speed", where, "speed", positive=True)
     curve = None
     if "curve" in data:
-        curve_data = r.table(data, "curve", "pump.curve", required=True)
-        curve = _curve(r, curve_data) if curve_data is not None else None
+        curve_data = r.table(data, "curve", f"{where}.curve", required=True)
+        curve = _curve(r, curve_data, where) if curve_data is not None else None
     if speed and curve and curve.speed is None:
         r.problem(
-            "pump.curve.speed",
+            f"{where}.curve.speed",
             "With pump.speed given, give the speed of the curve "
             "data too, so the curve can be moved by the affinity laws.",
         )
     if speed and not curve:
-        r.problem("pump.speed", "pump.speed moves a pump curve; give [pump.curve] as well.")
+        r.problem(f"{where}.speed", f"{where}.speed moves a pump curve; give its curve as well.")
     ranges = {}
     for key in ("preferred_range", "allowable_range"):
         if key in data:
-            ranges[key] = _fraction_pair(r, data[key], f"pump.{key}")
-    provenance = {key: r.text(data, key, "pump", "") for key in _PROVENANCE_KEYS if key in data}
-    minimum = r.quantity(data, "min_continuous_flow", "pump", "flow", positive=True)
+            ranges[key] = _fraction_pair(r, data[key], f"{where}.{key}")
+    provenance = {key: r.text(data, key, where, "") for key in _PROVENANCE_KEYS if key in data}
+    minimum = r.quantity(data, "min_continuous_flow", where, "flow", positive=True)
     speed_range = None
     if "speed_range" in data:
-        speeds = _quantity_list(r, data, "speed_range", "pump", "speed")
+        speeds = _quantity_list(r, data, "speed_range", where, "speed")
         if speeds is not None and len(speeds) != 2:
             r.problem(
-                "pump.speed_range",
+                f"{where}.speed_range",
                 'Give the lowest and the highest speed, such as ["1800 rpm", "2950 rpm"].',
             )
         elif speeds is not None and speeds[0].value >= speeds[1].value:
-            r.problem("pump.speed_range", "Give the lowest speed first.")
+            r.problem(f"{where}.speed_range", "Give the lowest speed first.")
         elif speeds is not None:
             speed_range = (speeds[0], speeds[1])
             if curve is None or curve.speed is None:
                 r.problem(
-                    "pump.speed_range",
+                    f"{where}.speed_range",
                     "A speed range moves the pump curve: give [pump.curve] with its speed.",
                 )
-    basis = r.text(data, "efficiency_basis", "pump", "pump", EFFICIENCY_BASES)
+    basis = r.text(data, "efficiency_basis", where, "pump", EFFICIENCY_BASES)
     if basis == "overall" and curve and curve.power:
         r.problem(
-            "pump.efficiency_basis",
+            f"{where}.efficiency_basis",
             "A power curve gives the shaft power, so its efficiency is the pump's own: "
             'use efficiency_basis = "pump" (the default).',
         )
-    count = _whole(r, data, "count", 1, MAX_PUMPS)
-    standby = _whole(r, data, "standby", 0, MAX_PUMPS - 1)
-    arrangement = r.text(data, "arrangement", "pump", "parallel", ARRANGEMENTS)
+    count = _whole(r, data, where, "count", 1, MAX_PUMPS)
+    standby = _whole(r, data, where, "standby", 0, MAX_PUMPS - 1)
+    arrangement = r.text(data, "arrangement", where, "parallel", ARRANGEMENTS)
     if standby and standby.value >= (count.value if count else 1.0):
         r.problem(
-            "pump.standby",
+            f"{where}.standby",
             "At least one pump must remain in service: pump.standby must be less than pump.count.",
         )
     if count and count.value > 1 and curve is None:
         r.problem(
-            "pump.count",
+            f"{where}.count",
             "Several pumps need their curve: give [pump.curve] for one "
             "pump, so the combined curve can be built.",
         )
-    rating = r.quantity(data, "pressure_rating", "pump", "pressure", positive=True)
-    stages = _whole(r, data, "stages", 1, 30)
-    impeller = r.text(data, "impeller", "pump", "single_suction", IMPELLERS)
+    rating = r.quantity(data, "pressure_rating", where, "pressure", positive=True)
+    stages = _whole(r, data, where, "stages", 1, 30)
+    impeller = r.text(data, "impeller", where, "single_suction", IMPELLERS)
     if elevation is None:
         return None
     return Pump(
         stages=stages,
         impeller=impeller,
         pressure_rating=rating,
-        count=count or Given(1.0, "", "pump.count"),
-        standby=standby or Given(0.0, "", "pump.standby"),
+        count=count or Given(1.0, "", f"{where}.count"),
+        standby=standby or Given(0.0, "", f"{where}.standby"),
         arrangement=arrangement,
         speed_range=speed_range,
         efficiency_basis=basis,
@@ -151,11 +153,11 @@ def _pump(r: _Reader, data: dict[str, Any]) -> Pump | None:
     )
 
 
-def _curve_file(r: _Reader, name: Any) -> dict[str, list[str]] | None:
+def _curve_file(r: _Reader, name: Any, where: str = "pump") -> dict[str, list[str]] | None:
     """Curve columns from a CSV file named relative to the input (``flow [L/s]``, ...)."""
     import csv
 
-    where = "pump.curve.file"
+    where = f"{where}.curve.file"
     if not isinstance(name, str) or not name:
         r.problem(where, f"Expected a file name in double quotes; got {as_written(name)}.")
         return None
@@ -227,8 +229,8 @@ def _curve_file(r: _Reader, name: Any) -> dict[str, list[str]] | None:
     return columns
 
 
-def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
-    path = "pump.curve"
+def _curve(r: _Reader, data: dict[str, Any], where: str = "pump") -> PumpCurve | None:
+    path = f"{where}.curve"
     r.known_keys(data, path, _CURVE_KEYS)
     if "file" in data:
         inline = [key for key in _CURVE_COLUMNS if key in data]
@@ -239,7 +241,7 @@ def _curve(r: _Reader, data: dict[str, Any]) -> PumpCurve | None:
                 f"(also given inline: {', '.join(inline)}).",
             )
             return None
-        columns = _curve_file(r, data["file"])
+        columns = _curve_file(r, data["file"], where)
         if columns is None:
             return None
         data = {**data, **{k: _numbers(v) for k, v in columns.items()}}

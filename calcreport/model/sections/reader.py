@@ -223,9 +223,11 @@ def _numbers(cells: list[str]) -> list[Any]:
     return out
 
 
-def _whole(r: _Reader, data: dict[str, Any], key: str, low: int, high: int) -> Given | None:
-    """A whole number of pumps between ``low`` and ``high``."""
-    where = f"pump.{key}"
+def _whole(
+    r: _Reader, data: dict[str, Any], at: str, key: str, low: int, high: int
+) -> Given | None:
+    """A whole number of pumps between ``low`` and ``high`` at ``at.key``."""
+    where = f"{at}.{key}"
     if key not in data:
         return None
     raw = data[key]

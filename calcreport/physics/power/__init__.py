@@ -8,7 +8,7 @@ Energy
 Duty profile
     profile_energy, profile_volume, energy_per_volume, throttling_power, peak_power, time_sum
 Cost
-    annual_cost, demand_cost, cost_sum, present_value
+    annual_cost, demand_cost, cost_sum, present_value, life_cycle_cost
 """
 
 from __future__ import annotations
@@ -22,7 +22,13 @@ from calcreport.physics.power.chain import (
     shaft_power,
     wire_to_water_power,
 )
-from calcreport.physics.power.cost import annual_cost, cost_sum, demand_cost, present_value
+from calcreport.physics.power.cost import (
+    annual_cost,
+    cost_sum,
+    demand_cost,
+    life_cycle_cost,
+    present_value,
+)
 from calcreport.physics.power.energy import (
     annual_energy,
     energy_per_volume,
@@ -45,6 +51,7 @@ __all__ = [
     "fill_time",
     "hours_to_seconds",
     "hydraulic_power",
+    "life_cycle_cost",
     "peak_power",
     "peak_shaft_power",
     "per_pump_power",

@@ -156,3 +156,52 @@ def present_value(C: Any, rate: Any, years: Any) -> Any:
     if rate == 0:
         return C * years
     return C * (1.0 - (1.0 + rate) ** -years) / rate
+
+
+@equation(
+    symbol="LCC",
+    text="LCC = C_ic + (C_e + C_m)·[1 − (1 + i)^−n]/i",
+    latex=r"LCC = C_{ic} + (C_e + C_m)\, \frac{1 - (1 + i)^{-n}}{i}",
+    substitute="{capital} + ({energy} + {maintenance}) × [1 − (1 + {rate})^−{years}] / {rate}",
+    reference="hi_lcc",
+)
+def life_cycle_cost(capital: Any, energy: Any, maintenance: Any, rate: Any, years: Any) -> Any:
+    r"""Life-cycle cost of a pump offer: its initial cost and the present value of its annual
+    energy and maintenance costs over the life.
+
+    .. math:: LCC = C_{ic} + (C_e + C_m) \frac{1 - (1 + i)^{-n}}{i}
+
+    The other elements of the guide's sum (installation, operation, down time,
+    environment, disposal) are taken equal between offers unless given in the capital
+    cost.
+
+    Parameters
+    ----------
+    capital : float
+        Initial cost of the offer, in the project currency [-]
+    energy : float
+        Annual energy cost, in the project currency [-]
+    maintenance : float
+        Annual maintenance cost, in the project currency [-]
+    rate : float
+        Discount rate per year; zero gives the plain sum over the life [-]
+    years : float
+        Life in years [-]
+
+    Returns
+    -------
+    LCC : float
+        Life-cycle cost, in the project currency [-]
+
+    Examples
+    --------
+    >>> round(life_cycle_cost(10000.0, 1000.0, 200.0, 0.05, 20.0), 2)
+    24954.65
+
+    References
+    ----------
+    1. Hydraulic Institute and Europump, Pump Life Cycle Costs: A Guide to LCC
+       Analysis for Pumping Systems, 2001 (LCC = Cic + Cin + Ce + Co + Cm + Cs + Cenv +
+       Cd, recurring costs at their present value).
+    """
+    return capital + present_value(energy + maintenance, rate, years)

@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
+from functools import lru_cache
 from typing import Any
 
 import numpy as np
@@ -38,6 +39,15 @@ def _slopes(x: np.ndarray, y: np.ndarray) -> np.ndarray:
         elif np.sign(d0) != np.sign(d1) and abs(slope) > abs(3.0 * d0):
             slope = 3.0 * d0
         d[end] = slope
+    return d
+
+
+@lru_cache(maxsize=256)
+def _cached_slopes(x: bytes, y: bytes) -> np.ndarray:
+    """:func:`_slopes` of a curve given by its bytes: a root finder interpolates one curve
+    hundreds of times, and the slopes depend on the curve alone (read-only copy)."""
+    d = _slopes(np.frombuffer(x), np.frombuffer(y))
+    d.setflags(write=False)
     return d
 
 
@@ -90,7 +100,7 @@ def monotone_cubic(x: Any, y: Any, xq: Any) -> Any:
             f"{xa[0]:.6g}..{xa[-1]:.6g}; curves are not extrapolated"
         )
     q = np.clip(q, xa[0], xa[-1])
-    d = _slopes(xa, ya)
+    d = _cached_slopes(xa.tobytes(), ya.tobytes())
     k = np.clip(np.searchsorted(xa, q, side="right") - 1, 0, len(xa) - 2)
     h = xa[k + 1] - xa[k]
     t = (q - xa[k]) / h

@@ -40,6 +40,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from calcreport.report.charts.base import _PDF_METADATA, _RC, _plain_glyphs
+from calcreport.report.charts.candidates_chart import _draw_candidates
 from calcreport.report.charts.energy_chart import _draw_energy
 from calcreport.report.charts.friction_chart import _draw_friction_factor
 from calcreport.report.charts.losses_chart import _draw_loss_breakdown
@@ -54,6 +55,7 @@ __all__ = [
     "Drawn",
     "Figure",
     "applies",
+    "candidates",
     "drawn",
     "energy",
     "friction_factor",
@@ -135,6 +137,11 @@ def energy(trace: dict[str, Any]) -> Figure:
     return _render(_draw_energy, trace)
 
 
+def candidates(trace: dict[str, Any]) -> Figure:
+    """The offered pumps' curves over the design system curve, with their operating points."""
+    return _render(_draw_candidates, trace)
+
+
 # Chart name -> the function that draws it, in report order.
 _DRAWERS: dict[str, Callable[[dict[str, Any]], tuple[Any, str]]] = {
     "sketch": _draw_sketch,
@@ -145,6 +152,7 @@ _DRAWERS: dict[str, Callable[[dict[str, Any]], tuple[Any, str]]] = {
     "friction_factor": _draw_friction_factor,
     "route_pressure": _draw_route_pressure,
     "energy": _draw_energy,
+    "candidates": _draw_candidates,
 }
 # The chart names in report order.
 FIGURES = tuple(_DRAWERS)
@@ -160,6 +168,8 @@ def applies(name: str, trace: dict[str, Any]) -> bool:
     if name == "energy":
         rows = results.get("energy", {}).get("profile", [])
         return bool(rows) and all("electrical_power" in r for r in rows)
+    if name == "candidates":
+        return any("curve" in c for c in results.get("study", {}).get("candidates", []))
     return True
 
 

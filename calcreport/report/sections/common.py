@@ -30,6 +30,7 @@ SECTIONS = (
     ("commissioning", "Gauge pressures for commissioning", ("commissioning.",)),
     ("route", "Pressure along the route", ("route.",)),
     ("surge", "Surge screening", ("surge.",)),
+    ("study", "Life-cycle cost of the offers", ("study.",)),
 )
 
 
@@ -74,7 +75,13 @@ _PROFILE_STEP = re.compile(r"^P\d+\.(pump|power|energy)\.")
 
 # Equations whose result is a sum of money, printed in the input's currency.
 _MONEY = frozenset(
-    {"power.annual_cost", "power.cost_sum", "power.demand_cost", "power.present_value"}
+    {
+        "power.annual_cost",
+        "power.cost_sum",
+        "power.demand_cost",
+        "power.life_cycle_cost",
+        "power.present_value",
+    }
 )
 
 

@@ -1,0 +1,101 @@
+"""Candidate pumps: each offer solved in full, ranked by life-cycle cost among those that
+pass, the selected one calculated with every offer's life-cycle cost as a step."""
+
+from __future__ import annotations
+
+import copy
+from dataclasses import replace
+from pathlib import Path
+
+import pytest
+
+from calcreport.cli import main
+from calcreport.model.loader import load, loads
+from calcreport.physics.power.cost import life_cycle_cost
+from calcreport.recheck import recheck
+from calcreport.solver import solve
+
+OFFERS = Path(__file__).parents[2] / "input_examples" / "pump_offers.toml"
+
+
+def test_life_cycle_cost_against_a_hand_present_value():
+    # Present value of a uniform annual cost, summed year by year as a hand calculation
+    # does (each year's cost discounted by (1 + i)^k): the annuity factor of the guide.
+    capital, energy, upkeep, rate, years = 14200.0, 7781.85, 380.0, 0.06, 15
+    by_hand = capital + sum((energy + upkeep) / (1 + rate) ** k for k in range(1, years + 1))
+    assert life_cycle_cost(capital, energy, upkeep, rate, years) == pytest.approx(
+        by_hand, rel=1e-12
+    )
+    # No discounting: the plain sum over the life.
+    assert life_cycle_cost(1000.0, 100.0, 50.0, 0.0, 10) == 2500.0
+
+
+@pytest.fixture(scope="module")
+def study():
+    model = load(str(OFFERS))
+    return model, solve(model)
+
+
+def test_the_cheaper_offer_that_fails_npsh_ranks_after_those_that_pass(study):
+    _, trace = study
+    offers = {o["id"]: o for o in trace.results["study"]["candidates"]}
+    a, b, c = offers["A"], offers["B"], offers["C"]
+    # A costs least over the life but cavitates at a state it runs in.
+    assert a["life_cycle_cost"]["value"] < b["life_cycle_cost"]["value"]
+    assert a["status"] == "fail" and "npsh_margin" in a["failing"]
+    assert [o["id"] for o in trace.results["study"]["candidates"]] == ["B", "C", "A"]
+    assert b["rank"] == 1 and c["rank"] == 2 and a["rank"] == 3
+    assert b["life_cycle_cost"]["value"] < c["life_cycle_cost"]["value"]
+    assert trace.results["study"]["selected"] == "B"
+    assert trace.results["study"]["selected_by"] == "rank"
+
+
+def test_each_offer_is_checked_at_every_state_as_its_own_calculation(study):
+    model, trace = study
+    for candidate in model.study.candidates:
+        own = solve(replace(model, pump=candidate.pump, study=None))
+        row = next(o for o in trace.results["study"]["candidates"] if o["id"] == candidate.id)
+        assert row["failing"] == sorted({c.id for c in own.checks if c.status == "fail"})
+        assert row["review"] == sorted({c.id for c in own.checks if c.status == "review"})
+        # Its checks ran at the cases, the duty-profile points and the rated duty.
+        states = {c.case for c in own.checks}
+        assert {"P1", "P2", "P3"} & states or "all" in states, candidate.id
+        assert row["annual_energy_cost"]["value"] == pytest.approx(
+            own.results["energy"]["annual_cost"]["value"], rel=1e-12
+        )
+
+
+def test_the_selected_offer_gets_the_full_calculation_and_recheck_confirms_it(study):
+    model, trace = study
+    chosen = next(c for c in model.study.candidates if c.id == "B")
+    assert trace.results["pump_curve"]["head"]["value"] == [g.value for g in chosen.pump.curve.head]
+    steps = {s.id: s for s in trace.steps}
+    for offer in trace.results["study"]["candidates"]:
+        step = steps[f"study.{offer['id']}.life_cycle_cost"]
+        assert step.value == offer["life_cycle_cost"]["value"]
+    assert recheck(trace.to_json()).ok
+    tampered = copy.deepcopy(trace.to_json())
+    row = tampered["results"]["study"]["candidates"][0]
+    row["life_cycle_cost"]["value"] *= 0.9
+    assert not recheck(tampered).ok
+
+
+def test_the_offer_named_in_the_input_is_calculated_whatever_its_rank():
+    text = OFFERS.read_text(encoding="utf-8").replace('# selected = "B"', 'selected = "C"')
+    trace = solve(loads(text.encode(), path=str(OFFERS)))
+    study = trace.results["study"]
+    assert study["selected"] == "C" and study["selected_by"] == "input"
+    assert trace.results["pump_curve"]["head"]["value"][0] == pytest.approx(38.5)
+
+
+def test_bad_study_input_names_every_key_and_writes_nothing(tmp_path, capsys):
+    text = OFFERS.read_text(encoding="utf-8")
+    text = text.replace('id = "C"', 'id = "B"').replace('# selected = "B"', 'selected = "Z"')
+    text = text.replace("discount_rate = 0.06\n", "").replace("life_years = 15\n", "")
+    source = tmp_path / "bad.toml"
+    source.write_text(text, encoding="utf-8")
+    assert main(["build", str(source), "-o", str(tmp_path / "out")]) == 2
+    err = capsys.readouterr().err
+    assert "study.candidate[3].id" in err and 'The id "B" is given to two candidates' in err
+    assert "study.selected" in err and "operation.life_years" in err
+    assert not (tmp_path / "out").exists()
