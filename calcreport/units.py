@@ -445,6 +445,7 @@ _FT, _LBF = _FOOT, _POUND_FORCE  # m, N
 _SLUG = _LBF / _FT  # kg (lbf·s²/ft)
 _BG = {
     "m": ("ft", _FT),
+    "1/m": ("1/ft", 1.0 / _FT),
     "m^2": ("ft²", _FT**2),
     "m^3": ("ft³", _FT**3),
     "m/s": ("ft/s", _FT),

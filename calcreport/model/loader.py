@@ -260,7 +260,7 @@ def _build(r: _Reader, data: dict[str, Any], text: str, raw: bytes, path: str) -
     if "study" in data and pump is not None and pump_data is not None and not r.count("pump"):
         study_data = r.table(data, "study", "study", required=True)
         if study_data is not None:
-            study = _study(r, study_data, pump_data, pump, operation)
+            study = _study(r, study_data, pump_data, pump, operation, pipes)
     surge = _surge(r, data)
     friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
     fittings_method = r.text(data, "fittings_method", "", "two_k", FITTINGS_METHODS)

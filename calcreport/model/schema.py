@@ -212,12 +212,33 @@ class Candidate:
 
 
 @dataclass(frozen=True)
+class PipeSize:
+    """One size a group of pipes may take: its bore (and wall), its cost per length."""
+
+    label: str  # as a reader names it: "NPS 6, 40" or "202.7 mm"
+    inner_diameter: Given
+    cost_per_length: Given  # project currency per metre
+    wall_thickness: Given | None = None
+    sources: dict[str, str] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class SizeStudy:
+    """Sizes for pipes that change together (a main), each priced per length."""
+
+    pipes: tuple[str, ...]
+    sizes: tuple[PipeSize, ...]
+
+
+@dataclass(frozen=True)
 class Study:
-    """Candidate pumps to rank by life-cycle cost; ``selected`` (a candidate id, or "" for
-    the best that passes) gets the full calculation."""
+    """Candidate pumps to rank by life-cycle cost (``selected``, a candidate id, or "" for
+    the best that passes, gets the full calculation), and pipe sizes to price against the
+    energy they cost over the life."""
 
     candidates: tuple[Candidate, ...]
     selected: str = ""
+    pipe_sizes: tuple[SizeStudy, ...] = ()
 
 
 @dataclass(frozen=True)

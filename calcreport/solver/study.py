@@ -16,7 +16,7 @@ from collections.abc import Callable
 from dataclasses import dataclass, replace
 from typing import Any
 
-from calcreport.model.schema import Candidate, Given, Model
+from calcreport.model.schema import Candidate, Given, Model, PipeSize, SizeStudy
 from calcreport.physics import power
 from calcreport.trace import Trace, TraceBuilder, quantity
 from calcreport.trace import bound as _q
@@ -81,20 +81,177 @@ def _rank(offers: list[_Offer]) -> list[_Offer]:
 
 
 def solve_study(model: Model, solve_design: Callable[..., Trace]) -> Trace:
-    """The selected candidate's trace with the study of every candidate in it."""
-    assert model.study is not None
+    """The trace of the selected offer (or the [pump] without offers) at the design's pipe
+    sizes, with the study of every offer and every pipe size in it."""
+    study = model.study
+    assert study is not None
     offers = [
         _offer(model, c, solve_design(replace(model, pump=c.pump, study=None)))
-        for c in model.study.candidates
+        for c in study.candidates
     ]
     ranked = _rank(offers)
     by_id = {o.candidate.id: o for o in offers}
-    chosen = by_id[model.study.selected] if model.study.selected else ranked[0]
+    chosen = (by_id[study.selected] if study.selected else ranked[0]) if offers else None
+    design = replace(model, pump=chosen.candidate.pump if chosen else model.pump, study=None)
+    sized = [
+        [_sized(design, n, group, k, size, solve_design) for k, size in enumerate(group.sizes, 1)]
+        for n, group in enumerate(study.pipe_sizes, 1)
+    ]
 
-    def study(b: TraceBuilder, results: dict[str, Any]) -> dict[str, Any]:
-        return _record(b, model, ranked, chosen, results)
+    def record(b: TraceBuilder, results: dict[str, Any]) -> dict[str, Any]:
+        out = _record(b, model, ranked, chosen, results) if chosen else {}
+        if sized:
+            out["pipe_sizes"] = [row for group in sized for row in _record_sizes(b, model, group)]
+        out.setdefault("basis", _basis(model))
+        return out
 
-    return solve_design(replace(model, pump=chosen.candidate.pump, study=None), study)
+    return solve_design(design, record)
+
+
+@dataclass(frozen=True)
+class _Sized:
+    """A pipe size as its own calculation left it (the selected pump, every state)."""
+
+    main: int  # the pipe_size group's number
+    number: int  # the size's number in its group
+    pipes: tuple[str, ...]
+    size: PipeSize
+    trace: Trace
+    status: str
+    failing: tuple[str, ...]
+    review: tuple[str, ...]
+    capital: float
+    annual_energy_cost: float | None
+    life_cycle_cost: float | None
+    as_designed: bool
+
+
+def _sized(
+    design: Model,
+    main: int,
+    group: SizeStudy,
+    number: int,
+    size: PipeSize,
+    solve_design: Callable[..., Trace],
+) -> _Sized:
+    """The design with the pipes of ``group`` at ``size``, solved in full."""
+    pipes = tuple(
+        replace(
+            p,
+            inner_diameter=size.inner_diameter,
+            wall_thickness=size.wall_thickness or p.wall_thickness,
+            sources={**p.sources, **size.sources},
+        )
+        if p.id in group.pipes
+        else p
+        for p in design.pipes
+    )
+    trace = solve_design(replace(design, pipes=pipes))
+    fails = tuple(sorted({c.id for c in trace.checks if c.status == "fail"}))
+    reviews = tuple(sorted({c.id for c in trace.checks if c.status == "review"}))
+    status = "fail" if fails or trace.status["value"] == "not feasible" else (
+        "review" if reviews else "pass"
+    )  # fmt: skip
+    length = sum(p.length.value for p in design.pipes if p.id in group.pipes)
+    capital = power.length_cost(size.cost_per_length.value, [length])
+    cost = trace.results.get("energy", {}).get("annual_cost")
+    energy = None if cost is None else float(cost["value"])
+    op = design.operation
+    lcc = (
+        power.life_cycle_cost(capital, energy, 0.0, op.discount_rate.value, op.life_years.value)
+        if energy is not None and op.discount_rate is not None and op.life_years is not None
+        else None
+    )
+    # The design's own size, its bore as entered (a catalog bore rounded to 0.1 mm).
+    as_designed = all(
+        abs(p.inner_diameter.value - size.inner_diameter.value) <= 1e-3 * p.inner_diameter.value
+        for p in design.pipes
+        if p.id in group.pipes
+    )
+    return _Sized(
+        main, number, group.pipes, size, trace, status, fails, reviews, capital, energy, lcc,
+        as_designed,
+    )  # fmt: skip
+
+
+def _record_sizes(b: TraceBuilder, model: Model, group: list[_Sized]) -> list[dict[str, Any]]:
+    """The rows of one main's sizes, each with its capital and life-cycle cost as steps, its
+    annual energy cost from its own calculation."""
+    op = model.operation
+    currency = op.currency
+    passing = [s for s in group if s.status != "fail" and s.life_cycle_cost is not None]
+    lowest = min(passing, key=lambda s: s.life_cycle_cost or 0.0) if passing else None
+    rows = []
+    for s in group:
+        sid = f"study.main{s.main}.size{s.number}"
+        lengths = [p.length for p in model.pipes if p.id in s.pipes]
+        capital = b.step(
+            f"{sid}.capital_cost",
+            f"Cost of the pipes {', '.join(s.pipes)} at {s.size.label}",
+            power.length_cost,
+            c=b.input(s.size.cost_per_length),
+            L=lengths,
+        )
+        row: dict[str, Any] = {
+            "pipes": list(s.pipes),
+            "size": s.size.label,
+            "inner_diameter": _q(b.input(s.size.inner_diameter)),
+            "status": s.status,
+            "failing": list(s.failing),
+            "review": list(s.review),
+            "as_designed": s.as_designed,
+            "lowest": s is lowest,
+            "capital_cost": {**quantity(capital.value, currency), "from": capital.key},
+            "total_dynamic_head": quantity(s.trace.results["total_dynamic_head"]["value"], "m"),
+            "velocity": quantity(
+                max(s.trace.results["pipes"][p]["velocity"]["value"] for p in s.pipes), "m/s"
+            ),
+        }
+        energy: Given | None = None
+        if s.annual_energy_cost is not None:
+            energy = b.solution(
+                f"{sid}.annual_energy_cost",
+                s.annual_energy_cost,
+                "",
+                f"the annual energy cost of the design with pipes {', '.join(s.pipes)} at "
+                f"{s.size.label} (its own calculation, every state and check solved)",
+            )
+        if energy is not None and op.discount_rate is not None and op.life_years is not None:
+            row["annual_energy_cost"] = {**quantity(energy.value, currency), "from": energy.key}
+            lcc = b.step(
+                f"{sid}.life_cycle_cost",
+                f"Life-cycle cost of the pipes {', '.join(s.pipes)} at {s.size.label}",
+                power.life_cycle_cost,
+                capital=capital,
+                energy=energy,
+                maintenance=b.assume(
+                    "Pipe sizes are compared on their cost and the energy they cost: upkeep "
+                    "is taken equal between sizes (zero in the comparison).",
+                    0.0,
+                ),
+                rate=op.discount_rate,
+                years=op.life_years,
+            )
+            row["life_cycle_cost"] = {**quantity(lcc.value, currency), "from": lcc.key}
+            # The life-cycle cost less the pipes' own: the energy's share, for the chart.
+            row["energy_present_value"] = quantity(lcc.value - capital.value, currency)
+        point = s.trace.results.get("operating_point")
+        if point is not None:
+            row["operating_point"] = {
+                key: quantity(point[key]["value"], point[key]["unit"]) for key in ("flow", "head")
+            }
+        rows.append(row)
+    return rows
+
+
+def _basis(model: Model) -> dict[str, Any]:
+    op = model.operation
+    out: dict[str, Any] = {"method": METHOD, "reference": "hi_lcc"}
+    if op.life_years is not None:
+        out["life"] = _q(op.life_years)
+    if op.discount_rate is not None:
+        out["discount_rate"] = _q(op.discount_rate)
+    return out
 
 
 def _record(
@@ -176,10 +333,6 @@ def _record(
         "candidates": rows,
         "selected": chosen.candidate.id,
         "selected_by": "input" if model.study and model.study.selected else "rank",
-        "basis": {"method": METHOD, "reference": "hi_lcc"},
+        "basis": _basis(model),
     }
-    if op.life_years is not None:
-        out["basis"]["life"] = _q(op.life_years)
-    if op.discount_rate is not None:
-        out["basis"]["discount_rate"] = _q(op.discount_rate)
     return out

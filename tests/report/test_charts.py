@@ -158,6 +158,7 @@ def test_figures_lists_every_public_chart() -> None:
         "route_pressure",
         "energy",
         "candidates",
+        "pipe_sizes",
     }
     assert set(NAMES) <= set(charts.__all__)
 

@@ -99,3 +99,49 @@ def test_bad_study_input_names_every_key_and_writes_nothing(tmp_path, capsys):
     assert "study.candidate[3].id" in err and 'The id "B" is given to two candidates' in err
     assert "study.selected" in err and "operation.life_years" in err
     assert not (tmp_path / "out").exists()
+
+
+def test_each_main_size_is_priced_and_solved_in_full(study):
+    model, trace = study
+    rows = trace.results["study"]["pipe_sizes"]
+    assert [row["size"] for row in rows] == [
+        "NPS/DN 5, 40",
+        "NPS/DN 6, 40",
+        "NPS/DN 8, 40",
+        "NPS/DN 10, 40",
+    ]
+    length = sum(p.length.value for p in model.pipes if p.id in ("D1", "D2"))  # 60 m + 85 m
+    rate, years = 0.06, 15
+    factor = sum(1 / (1 + rate) ** k for k in range(1, years + 1))  # by hand, year by year
+    for row, cost in zip(rows, (95, 120, 165, 230), strict=True):
+        assert row["capital_cost"]["value"] == pytest.approx(cost * length)
+        expected = row["capital_cost"]["value"] + row["annual_energy_cost"]["value"] * factor
+        assert row["life_cycle_cost"]["value"] == pytest.approx(expected, rel=1e-12)
+    # A wider bore: slower flow, less head and less energy; the pipes cost more.
+    velocity = [row["velocity"]["value"] for row in rows]
+    energy = [row["annual_energy_cost"]["value"] for row in rows]
+    assert velocity == sorted(velocity, reverse=True) and energy == sorted(energy, reverse=True)
+    # NPS 6 is the design's own bore (154.1 mm as entered) and here the lowest.
+    assert [row["as_designed"] for row in rows] == [False, True, False, False]
+    lowest = min(
+        (r for r in rows if r["status"] != "fail"), key=lambda r: r["life_cycle_cost"]["value"]
+    )
+    assert lowest["lowest"] and sum(r["lowest"] for r in rows) == 1
+
+
+def test_a_size_is_the_design_with_that_bore_solved_alone(study):
+    model, trace = study
+    row = trace.results["study"]["pipe_sizes"][0]  # NPS 5
+    chosen = next(c for c in model.study.candidates if c.id == trace.results["study"]["selected"])
+    bore = 0.128194  # ASME B36.10M NPS 5 Sch 40: OD 141.30 mm, wall 6.55 mm
+    pipes = tuple(
+        replace(p, inner_diameter=replace(p.inner_diameter, value=bore))
+        if p.id in ("D1", "D2")
+        else p
+        for p in model.pipes
+    )
+    alone = solve(replace(model, pump=chosen.pump, pipes=pipes, study=None))
+    assert row["inner_diameter"]["value"] == pytest.approx(bore, rel=1e-4)
+    assert row["total_dynamic_head"]["value"] == pytest.approx(
+        alone.results["total_dynamic_head"]["value"], rel=1e-3
+    )

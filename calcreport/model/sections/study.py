@@ -8,13 +8,25 @@ import re
 from dataclasses import fields, replace
 from typing import Any
 
-from calcreport.model.schema import Candidate, Operation, Pump, Study
+from calcreport.model.schema import (
+    Candidate,
+    Given,
+    Operation,
+    Pipe,
+    PipeSize,
+    Pump,
+    SizeStudy,
+    Study,
+)
+from calcreport.model.sections.pipes import _catalog_diameter
 from calcreport.model.sections.pump import _PROVENANCE_KEYS, _pump
 from calcreport.model.sections.reader import _Reader
 from calcreport.units import as_written
 
 MAX_CANDIDATES = 10
-_STUDY_KEYS = {"candidate", "selected"}
+MAX_SIZES = 12
+_STUDY_KEYS = {"candidate", "selected", "pipe_size"}
+_SIZE_KEYS = {"nominal_size", "schedule", "material", "inner_diameter", "cost_per_length"}
 _COST_KEYS = {"id", "title", "capital_cost", "annual_maintenance"}
 _ID = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_-]{0,15}$")
 # The input key of each pump field a candidate may set (the rest carry over from [pump]).
@@ -22,22 +34,41 @@ _FIELD_KEYS = {f.name: (f.name,) for f in fields(Pump)} | {"provenance": _PROVEN
 
 
 def _study(
-    r: _Reader, data: dict[str, Any], pump_data: dict[str, Any], base: Pump, op: Operation
+    r: _Reader,
+    data: dict[str, Any],
+    pump_data: dict[str, Any],
+    base: Pump,
+    op: Operation,
+    pipes: tuple[Pipe, ...],
 ) -> Study | None:
-    """The study of ``data`` (the [study] table); each candidate's pump is ``base`` with the
-    fields its own keys set, read as ``study.candidate[n].<key>``."""
+    """The study of ``data`` (the [study] table): the candidate pumps, each ``base`` with
+    the fields its own keys set (read as ``study.candidate[n].<key>``), and the pipe
+    sizes to price (``study.pipe_size[n]``)."""
     r.known_keys(data, "study", _STUDY_KEYS)
-    rows = data.get("candidate")
-    if not isinstance(rows, list) or not rows or not all(isinstance(x, dict) for x in rows):
+    if "candidate" not in data and "pipe_size" not in data:
         r.problem(
-            "study.candidate",
-            "Give each pump offered as a [[study.candidate]] table with its id, "
-            "capital_cost and the [pump] keys it changes (its curve, speed, count...).",
+            "study",
+            "A study compares offers or sizes: give [[study.candidate]] tables (pumps "
+            "offered) or [[study.pipe_size]] tables (sizes of a main), or both.",
         )
         return None
-    if len(rows) > MAX_CANDIDATES:
-        r.problem("study.candidate", f"At most {MAX_CANDIDATES} candidates; got {len(rows)}.")
+    _needs_costs(r, op)
+    candidates = _candidates(r, data, pump_data, base) if "candidate" in data else ()
+    seen = {c.id for c in candidates}
+    selected = r.text(data, "selected", "study", "")
+    if selected and selected not in seen:
+        r.problem(
+            "study.selected",
+            f'"{selected}" is no candidate id; give one of {", ".join(sorted(seen)) or "none"}.',
+        )
+    sizes = _pipe_sizes(r, data.get("pipe_size"), pipes) if "pipe_size" in data else ()
+    if r.count("study"):
         return None
+    return Study(tuple(candidates), selected, sizes)
+
+
+def _needs_costs(r: _Reader, op: Operation) -> None:
+    """A study ranks by life-cycle cost: the energy price, hours, life and rate are needed."""
     missing = [
         key
         for key, value in (
@@ -47,14 +78,31 @@ def _study(
         )
         if value is None
     ]
-    if missing or not (op.hours_per_year or op.profile or op.annual_volume):
-        basis = missing + ([] if op.hours_per_year or op.profile or op.annual_volume else [
-            "operation.hours_per_year (or a profile or annual volume)"
-        ])  # fmt: skip
+    if not (op.hours_per_year or op.profile or op.annual_volume):
+        missing.append("operation.hours_per_year (or a profile or annual volume)")
+    if missing:
         r.problem(
             "study",
-            "Candidates are ranked by life-cycle cost, which needs " + ", ".join(basis) + ".",
+            "Offers and sizes are ranked by life-cycle cost, which needs "
+            + ", ".join(missing)
+            + ".",
         )
+
+
+def _candidates(
+    r: _Reader, data: dict[str, Any], pump_data: dict[str, Any], base: Pump
+) -> tuple[Candidate, ...]:
+    rows = data.get("candidate")
+    if not isinstance(rows, list) or not rows or not all(isinstance(x, dict) for x in rows):
+        r.problem(
+            "study.candidate",
+            "Give each pump offered as a [[study.candidate]] table with its id, "
+            "capital_cost and the [pump] keys it changes (its curve, speed, count...).",
+        )
+        return ()
+    if len(rows) > MAX_CANDIDATES:
+        r.problem("study.candidate", f"At most {MAX_CANDIDATES} candidates; got {len(rows)}.")
+        return ()
     candidates: list[Candidate] = []
     seen: set[str] = set()
     for n, row in enumerate(rows, start=1):
@@ -87,12 +135,70 @@ def _study(
             if not any(key in own for key in keys)
         }
         candidates.append(Candidate(ident, title, replace(pump, **carried), capital, upkeep))
-    selected = r.text(data, "selected", "study", "")
-    if selected and selected not in seen:
+    return tuple(candidates)
+
+
+def _pipe_sizes(r: _Reader, raw: Any, pipes: tuple[Pipe, ...]) -> tuple[SizeStudy, ...]:
+    """``study.pipe_size``: groups of pipes, each with the sizes it may take and their cost."""
+    if not isinstance(raw, list) or not raw or not all(isinstance(x, dict) for x in raw):
         r.problem(
-            "study.selected",
-            f'"{selected}" is no candidate id; give one of {", ".join(sorted(seen))}.',
+            "study.pipe_size",
+            'Give each main to size as a [[study.pipe_size]] table: pipes = ["D1", "D2"] and '
+            "sizes = [{ nominal_size, schedule (or inner_diameter), cost_per_length }, ...].",
         )
-    if r.count("study"):
-        return None
-    return Study(tuple(candidates), selected)
+        return ()
+    by_id = {p.id: p for p in pipes}
+    taken: set[str] = set()
+    out = []
+    for n, group in enumerate(raw, start=1):
+        where = f"study.pipe_size[{n}]"
+        r.known_keys(group, where, {"pipes", "sizes"})
+        names = group.get("pipes")
+        if not isinstance(names, list) or not names or not all(isinstance(x, str) for x in names):
+            r.problem(f"{where}.pipes", 'Name the pipes that change together, such as ["D1"].')
+            continue
+        unknown = [x for x in names if x not in by_id]
+        if unknown:
+            r.problem(f"{where}.pipes", f"No pipe has the id {', '.join(unknown)}.")
+            continue
+        again = [x for x in names if x in taken]
+        if again:
+            r.problem(f"{where}.pipes", f"{', '.join(again)} is already in another size study.")
+        taken |= set(names)
+        rows = group.get("sizes")
+        if (
+            not isinstance(rows, list)
+            or len(rows) < 2
+            or not all(isinstance(x, dict) for x in rows)
+        ):
+            r.problem(f"{where}.sizes", "Give at least two sizes to compare, each a table.")
+            continue
+        if len(rows) > MAX_SIZES:
+            r.problem(f"{where}.sizes", f"At most {MAX_SIZES} sizes; got {len(rows)}.")
+            continue
+        sizes = []
+        for k, row in enumerate(rows, start=1):
+            at = f"{where}.sizes[{k}]"
+            r.known_keys(row, at, _SIZE_KEYS)
+            sources: dict[str, str] = {}
+            # A catalog size of the family its material names (steel by default).
+            bore, wall = _catalog_diameter(r, row, at, sources)
+            if bore is None and "nominal_size" not in row:
+                bore = r.quantity(
+                    row, "inner_diameter", at, "diameter", required=True, positive=True
+                )
+            cost = r.quantity(row, "cost_per_length", at, "dimensionless", required=True)
+            if cost is not None and cost.value < 0.0:
+                r.problem(f"{at}.cost_per_length", "A cost cannot be negative.")
+            elif cost is not None:  # currency per metre of pipe
+                cost = Given(cost.value, "1/m", cost.key)
+            if bore is None or cost is None:
+                continue
+            label = (
+                f"NPS/DN {row['nominal_size']}, {row['schedule']}"
+                if "nominal_size" in row
+                else f"{bore.value * 1e3:.1f} mm bore"
+            )
+            sizes.append(PipeSize(label, bore, cost, wall, sources))
+        out.append(SizeStudy(tuple(names), tuple(sizes)))
+    return tuple(out)

@@ -8,7 +8,7 @@ Energy
 Duty profile
     profile_energy, profile_volume, energy_per_volume, throttling_power, peak_power, time_sum
 Cost
-    annual_cost, demand_cost, cost_sum, present_value, life_cycle_cost
+    annual_cost, demand_cost, cost_sum, present_value, life_cycle_cost, length_cost
 """
 
 from __future__ import annotations
@@ -26,6 +26,7 @@ from calcreport.physics.power.cost import (
     annual_cost,
     cost_sum,
     demand_cost,
+    length_cost,
     life_cycle_cost,
     present_value,
 )
@@ -51,6 +52,7 @@ __all__ = [
     "fill_time",
     "hours_to_seconds",
     "hydraulic_power",
+    "length_cost",
     "life_cycle_cost",
     "peak_power",
     "peak_shaft_power",

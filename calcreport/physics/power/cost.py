@@ -205,3 +205,45 @@ def life_cycle_cost(capital: Any, energy: Any, maintenance: Any, rate: Any, year
        Cd, recurring costs at their present value).
     """
     return capital + present_value(energy + maintenance, rate, years)
+
+
+def _length_text(values: dict[str, Any], result: float, write: Any) -> str:
+    lengths = " + ".join(write(length, "m") for length in values["L"])
+    return f"{write(values['c'], '1/m')} × ({lengths})"
+
+
+@equation(
+    symbol="C_pipe",
+    text="C_pipe = c_L·ΣL_i",
+    latex=r"C_{pipe} = c_L \sum_i L_i",
+    substitute=_length_text,
+    reference="hi_lcc",
+)
+def length_cost(c: Any, L: Any) -> Any:
+    r"""Initial cost of pipes priced by length.
+
+    .. math:: C_{pipe} = c_L \sum_i L_i
+
+    Parameters
+    ----------
+    c : float
+        Installed cost per metre of pipe, in the project currency [1/m]
+    L : list of float
+        Length of each pipe [m]
+
+    Returns
+    -------
+    C_pipe : float
+        Initial cost of the pipes, in the project currency [-]
+
+    Examples
+    --------
+    >>> length_cost(120.0, [60.0, 85.0])
+    17400.0
+
+    References
+    ----------
+    1. Hydraulic Institute and Europump, Pump Life Cycle Costs: A Guide to LCC
+       Analysis for Pumping Systems, 2001 (initial costs of the system, piping included).
+    """
+    return c * sum(L)

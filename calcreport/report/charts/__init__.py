@@ -47,6 +47,7 @@ from calcreport.report.charts.losses_chart import _draw_loss_breakdown
 from calcreport.report.charts.npsh_chart import _draw_npsh
 from calcreport.report.charts.pressure_chart import _draw_route_pressure
 from calcreport.report.charts.profile_chart import _draw_profile
+from calcreport.report.charts.sizes_chart import _draw_pipe_sizes
 from calcreport.report.charts.sketch_chart import _draw_sketch
 from calcreport.report.charts.system_chart import _draw_system_curve
 
@@ -61,6 +62,7 @@ __all__ = [
     "friction_factor",
     "loss_breakdown",
     "npsh",
+    "pipe_sizes",
     "profile",
     "route_pressure",
     "sketch",
@@ -142,6 +144,11 @@ def candidates(trace: dict[str, Any]) -> Figure:
     return _render(_draw_candidates, trace)
 
 
+def pipe_sizes(trace: dict[str, Any]) -> Figure:
+    """A main's life-cycle cost against its bore, with the pipes' and the energy's shares."""
+    return _render(_draw_pipe_sizes, trace)
+
+
 # Chart name -> the function that draws it, in report order.
 _DRAWERS: dict[str, Callable[[dict[str, Any]], tuple[Any, str]]] = {
     "sketch": _draw_sketch,
@@ -153,6 +160,7 @@ _DRAWERS: dict[str, Callable[[dict[str, Any]], tuple[Any, str]]] = {
     "route_pressure": _draw_route_pressure,
     "energy": _draw_energy,
     "candidates": _draw_candidates,
+    "pipe_sizes": _draw_pipe_sizes,
 }
 # The chart names in report order.
 FIGURES = tuple(_DRAWERS)
@@ -170,6 +178,9 @@ def applies(name: str, trace: dict[str, Any]) -> bool:
         return bool(rows) and all("electrical_power" in r for r in rows)
     if name == "candidates":
         return any("curve" in c for c in results.get("study", {}).get("candidates", []))
+    if name == "pipe_sizes":
+        rows = results.get("study", {}).get("pipe_sizes", [])
+        return sum(1 for row in rows if "life_cycle_cost" in row) >= 2
     return True
 
 

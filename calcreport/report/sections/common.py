@@ -79,6 +79,7 @@ _MONEY = frozenset(
         "power.annual_cost",
         "power.cost_sum",
         "power.demand_cost",
+        "power.length_cost",
         "power.life_cycle_cost",
         "power.present_value",
     }

@@ -23,34 +23,118 @@ class StudySection:
         study = self.r.get("study")
         if not study:
             return []
-        offers = study["candidates"]
+        offers = study.get("candidates", [])
+        sizes = study.get("pipe_sizes", [])
         basis = study["basis"]
         years = f"{basis['life']['value']:g}" if "life" in basis else "—"
         rate = f"{basis['discount_rate']['value']:.3g}" if "discount_rate" in basis else "—"
-        out: list[Flowable] = [self.heading("Choice of pump")]
+        what = " and main size" if offers and sizes else ""
+        out: list[Flowable] = [
+            self.heading(f"Choice of pump{what}" if offers else "Choice of main size")
+        ]
+        things = " and ".join(
+            t for t, on in (("offer", offers), ("pipe size", sizes)) if on
+        )  # fmt: skip
         out.append(
             self.p(
-                f"{len(offers)} offers were each calculated in full, as the rest of this report "
-                "calculates the selected one: every operating state (cases, duty-profile "
-                "points, the rated duty) with every design check. An offer passes when no "
-                "check fails; reviews are listed. The offers that pass are ranked by "
-                f"life-cycle cost over {years} years at a discount rate of {rate} a year "
-                f"{self.ref(basis['reference'])}: {text(basis['method'])}. The offers that "
-                "fail follow, by the same cost.",
+                f"Each {things} was calculated in full, as the rest of this report "
+                "calculates the design: every operating state (cases, duty-profile points, "
+                "the rated duty) with every design check. One passes when no check fails; "
+                "reviews are listed. Those that pass are ranked by life-cycle cost over "
+                f"{years} years at a discount rate of {rate} a year "
+                f"{self.ref(basis['reference'])}: {text(basis['method'])}.",
                 self.s.lead,
             )
         )
-        out.append(self.p(self._why(study)))
-        out += self.kept([self.offers_table(offers), *self.figure("candidates")])
+        if offers:
+            out.append(self.p(self._why(study)))
+            out += self.kept([self.offers_table(offers), *self.figure("candidates")])
+        if sizes:
+            out += self.sizes_part(study)
         out.append(
             self.p(
-                f"The chapters that follow are the full calculation of offer "
-                f"{text(study['selected'])}; each offer's life-cycle cost is worked in the "
-                "section Life-cycle cost of the offers.",
+                "The chapters that follow are the full calculation of the design"
+                + (f" with offer {text(study['selected'])}" if offers else "")
+                + "; each life-cycle cost is worked in the section Life-cycle cost of the "
+                "offers.",
                 self.s.small,
             )
         )
         return out
+
+    def sizes_part(self, study: dict[str, Any]) -> list[Flowable]:
+        """The sizes of each main: the lowest life-cycle cost and where the design stands."""
+        rows = study["pipe_sizes"]
+        pump = f" with offer {text(study['selected'])}" if study.get("candidates") else ""
+        out: list[Flowable] = []
+        for main in dict.fromkeys(tuple(row["pipes"]) for row in rows):
+            group = [row for row in rows if tuple(row["pipes"]) == main]
+            names = ", ".join(text(p) for p in main)
+            lowest = next((row for row in group if row["lowest"]), None)
+            design = next((row for row in group if row["as_designed"]), None)
+            said = f"The main {names} in {len(group)} sizes{pump}, each priced by length. "
+            if lowest is None:
+                said += "No size passes every check."
+            elif design is lowest:
+                said += (
+                    f"<b>{text(lowest['size'])}</b>, the design's own size, has the lowest "
+                    "life-cycle cost of the sizes that pass."
+                )
+            else:
+                said += (
+                    f"<b>{text(lowest['size'])}</b> has the lowest life-cycle cost of the "
+                    "sizes that pass"
+                )
+                if design is not None and "life_cycle_cost" in design:
+                    said += (
+                        f"; the design's {text(design['size'])} costs "
+                        f"{self._money(design['life_cycle_cost'])} over the life against "
+                        f"{self._money(lowest['life_cycle_cost'])}"
+                    )
+                said += "."
+            out.append(self.p(said))
+            out += self.kept([self.sizes_table(group), *self.figure("pipe_sizes")])
+        return out
+
+    def sizes_table(self, group: list[dict[str, Any]]) -> Any:
+        rows: list[list[Any]] = [
+            [
+                "Size",
+                "Bore",
+                "Velocity",
+                "TDH",
+                "Status",
+                "Checks failing / for review",
+                "Pipes' cost",
+                "Energy a year",
+                "Life-cycle cost",
+            ]
+        ]
+        for row in group:
+            marks = [
+                m
+                for m, on in (("lowest", row["lowest"]), ("as designed", row["as_designed"]))
+                if on
+            ]
+            ids = [f"<b>{text(c)}</b>" for c in row["failing"]] + [text(c) for c in row["review"]]
+            lcc = row.get("life_cycle_cost")
+            rows.append(
+                [
+                    f"<b>{text(row['size'])}</b>" + (f" ({', '.join(marks)})" if marks else ""),
+                    self.q(row["inner_diameter"], "diameter"),
+                    self.q(row["velocity"], "velocity"),
+                    self.q(row["total_dynamic_head"], "length"),
+                    row["status"].upper(),
+                    ", ".join(ids) or "—",
+                    self.link(row["capital_cost"]["from"], self._money(row["capital_cost"])),
+                    self._money(row.get("annual_energy_cost")),
+                    self.link(lcc["from"], self._money(lcc)) if lcc else "—",
+                ]
+            )
+        w = self.width
+        return self.table(
+            rows, [w * f for f in (0.15, 0.09, 0.09, 0.08, 0.08, 0.2, 0.1, 0.1, 0.11)]
+        )
 
     def _why(self, study: dict[str, Any]) -> str:
         """The sentence naming the choice and its reason."""
