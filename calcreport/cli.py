@@ -95,6 +95,23 @@ def _parser() -> argparse.ArgumentParser:
         help="the full step listing of every state: attached to the PDF as a text file "
         "(default), or also printed as Appendix C",
     )
+    study = commands.add_parser(
+        "study",
+        help="rank the offers and pipe sizes of the input's [study]: the report, the trace "
+        "and a CSV of the table",
+        description="Solve each offer and each pipe size of the input's [study] in full, "
+        "rank them by life-cycle cost among those that pass, and write the report of the "
+        "selected design (its Choice chapter holds the study), the trace, the page map and "
+        "<input>.study.csv, the table of every offer and size.",
+    )
+    study.add_argument("input", help="the input TOML file, with a [study] table")
+    study.add_argument("--files-anywhere", action="store_true", help=_ANYWHERE)
+    study.add_argument(
+        "-o",
+        "--output",
+        metavar="DIR",
+        help="folder for the files (default: beside the input)",
+    )
     from calcreport.recheck import SCOPE as RECHECK_SCOPE
 
     recheck = commands.add_parser(
@@ -218,7 +235,16 @@ def _build(args: argparse.Namespace) -> int:
         tell("")  # the status line goes before any message that follows it
 
 
-def _build_with(args: argparse.Namespace, tell: Callable[[str], None]) -> int:
+def _study(args: argparse.Namespace) -> int:
+    args.previous, args.listing = None, "attached"
+    tell = _progress(sys.stderr)
+    try:
+        return _build_with(args, tell, study=True)
+    finally:
+        tell("")
+
+
+def _build_with(args: argparse.Namespace, tell: Callable[[str], None], study: bool = False) -> int:
     from calcreport.model.loader import load
     from calcreport.output import write_all
     from calcreport.report import render
@@ -227,8 +253,14 @@ def _build_with(args: argparse.Namespace, tell: Callable[[str], None]) -> int:
     source = Path(args.input)
     tell("reading the input")
     model = load(source, args.files_anywhere)
+    if study and model.study is None:
+        sys.stderr.write(
+            f"{source}: the input has no [study] table: give [[study.candidate]] offers or "
+            "[[study.pipe_size]] sizes to compare (calcreport build reports one design)\n"
+        )
+        return EXIT_INPUT
     tell(f"solving {len(model.pipes)} pipe{'s' if len(model.pipes) != 1 else ''}")
-    trace = solve(model)
+    trace = solve(model, tell)
     folder = Path(args.output) if args.output else source.parent
     if folder.exists() and not folder.is_dir():
         sys.stderr.write(f"calcreport: the output {folder} exists and is not a folder\n")
@@ -261,16 +293,19 @@ def _build_with(args: argparse.Namespace, tell: Callable[[str], None]) -> int:
         "steps": rendered.step_pages,
         "links": rendered.links,
     }
-    write_all(
-        {
-            pdf: rendered.pdf,
-            trace_file: text.encode("utf-8"),
-            pages_file: (json.dumps(pages, indent=1) + "\n").encode("utf-8"),
-        },
-        protect=source,
-    )
+    files = {
+        pdf: rendered.pdf,
+        trace_file: text.encode("utf-8"),
+        pages_file: (json.dumps(pages, indent=1) + "\n").encode("utf-8"),
+    }
+    if study:
+        from calcreport.report.study_table import study_csv
+
+        files[folder / f"{source.stem}.study.csv"] = study_csv(data).encode("utf-8")
+    write_all(files, protect=source)
     tell("")
-    print(f"wrote {pdf}, {trace_file} and {pages_file}")
+    *first, last = [str(path) for path in files]
+    print(f"wrote {', '.join(first)} and {last}")
     return EXIT_OK
 
 
@@ -365,6 +400,7 @@ _COMMANDS = {
     "check": _check,
     "solve": _solve,
     "build": _build,
+    "study": _study,
     "recheck": _recheck,
     "diff": _diff,
 }

@@ -49,14 +49,15 @@ from calcreport.trace import bound as _q  # a result naming its source
 __all__ = ["solve"]
 
 
-def solve(model: Model) -> Trace:
-    """Solve the pump system of ``model`` and return its trace: with candidate pumps
-    (``model.study``), each candidate's whole calculation, their ranking by life-cycle cost
-    and the selected candidate's trace (:mod:`calcreport.solver.study`)."""
+def solve(model: Model, progress: Any = None) -> Trace:
+    """Solve the pump system of ``model`` and return its trace: with a study
+    (``model.study``), each offer's and pipe size's whole calculation, their ranking by
+    life-cycle cost and the selected design's trace (:mod:`calcreport.solver.study`);
+    ``progress`` is told each calculation of a study as it starts."""
     if model.study is not None:
         from calcreport.solver.study import solve_study
 
-        return solve_study(model, _solve_design)
+        return solve_study(model, _solve_design, progress or (lambda stage: None))
     return _solve_design(model)
 
 

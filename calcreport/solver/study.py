@@ -80,13 +80,23 @@ def _rank(offers: list[_Offer]) -> list[_Offer]:
     )
 
 
-def solve_study(model: Model, solve_design: Callable[..., Trace]) -> Trace:
+def solve_study(
+    model: Model, solve_design: Callable[..., Trace], tell: Callable[[str], None]
+) -> Trace:
     """The trace of the selected offer (or the [pump] without offers) at the design's pipe
-    sizes, with the study of every offer and every pipe size in it."""
+    sizes, with the study of every offer and every pipe size in it; ``tell`` hears each
+    calculation as it starts."""
     study = model.study
     assert study is not None
+    total = len(study.candidates) + sum(len(g.sizes) for g in study.pipe_sizes) + 1
+    done = iter(range(1, total + 1))
+
+    def solved(what: str, variant: Model, *hook: Any) -> Trace:
+        tell(f"solving {what} ({next(done)} of {total})")
+        return solve_design(variant, *hook)
+
     offers = [
-        _offer(model, c, solve_design(replace(model, pump=c.pump, study=None)))
+        _offer(model, c, solved(f"offer {c.id}", replace(model, pump=c.pump, study=None)))
         for c in study.candidates
     ]
     ranked = _rank(offers)
@@ -94,7 +104,7 @@ def solve_study(model: Model, solve_design: Callable[..., Trace]) -> Trace:
     chosen = (by_id[study.selected] if study.selected else ranked[0]) if offers else None
     design = replace(model, pump=chosen.candidate.pump if chosen else model.pump, study=None)
     sized = [
-        [_sized(design, n, group, k, size, solve_design) for k, size in enumerate(group.sizes, 1)]
+        [_sized(design, n, group, k, size, solved) for k, size in enumerate(group.sizes, 1)]
         for n, group in enumerate(study.pipe_sizes, 1)
     ]
 
@@ -105,7 +115,7 @@ def solve_study(model: Model, solve_design: Callable[..., Trace]) -> Trace:
         out.setdefault("basis", _basis(model))
         return out
 
-    return solve_design(design, record)
+    return solved("the selected design", design, record)
 
 
 @dataclass(frozen=True)
@@ -146,7 +156,7 @@ def _sized(
         else p
         for p in design.pipes
     )
-    trace = solve_design(replace(design, pipes=pipes))
+    trace = solve_design(f"{', '.join(group.pipes)} at {size.label}", replace(design, pipes=pipes))
     fails = tuple(sorted({c.id for c in trace.checks if c.status == "fail"}))
     reviews = tuple(sorted({c.id for c in trace.checks if c.status == "review"}))
     status = "fail" if fails or trace.status["value"] == "not feasible" else (

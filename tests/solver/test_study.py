@@ -145,3 +145,36 @@ def test_a_size_is_the_design_with_that_bore_solved_alone(study):
     assert row["total_dynamic_head"]["value"] == pytest.approx(
         alone.results["total_dynamic_head"]["value"], rel=1e-3
     )
+
+
+def test_the_study_command_writes_the_report_and_the_table(tmp_path, capsys):
+    import csv
+
+    assert main(["study", str(OFFERS), "-o", str(tmp_path)]) == 0
+    assert "pump_offers.study.csv" in capsys.readouterr().out
+    table = (tmp_path / "pump_offers.study.csv").read_text(encoding="utf-8")
+    rows = list(csv.DictReader(table.splitlines()))
+    offers = [r for r in rows if r["kind"] == "offer"]
+    sizes = [r for r in rows if r["kind"] == "pipe size"]
+    assert [r["id or size"] for r in offers] == ["B", "C", "A"]
+    assert offers[0]["selected or as designed"] == "selected"
+    assert offers[2]["failing"] == "npsh_margin"
+    assert len(sizes) == 4 and [r["rank"] for r in sizes].count("lowest") == 1
+    for name in ("pump_offers.pdf", "pump_offers.trace.json", "pump_offers.pages.json"):
+        assert (tmp_path / name).is_file()
+
+
+def test_the_study_command_refuses_an_input_with_nothing_to_compare(tmp_path, capsys):
+    plain = Path(__file__).parents[2] / "input_examples" / "check_case.toml"
+    assert main(["study", str(plain), "-o", str(tmp_path / "out")]) == 2
+    assert "no [study] table" in capsys.readouterr().err
+    assert not (tmp_path / "out").exists()
+
+
+def test_a_study_tells_each_calculation_as_it_starts():
+    heard: list[str] = []
+    solve(load(str(OFFERS)), heard.append)
+    # Three offers, four sizes and the selected design: eight calculations.
+    assert heard[0] == "solving offer A (1 of 8)"
+    assert heard[-1] == "solving the selected design (8 of 8)"
+    assert any(h.startswith("solving D1, D2 at NPS/DN 8, 40") for h in heard)
