@@ -141,6 +141,26 @@ def _cases(b: TraceBuilder, model: Model) -> list[Case]:
         )
         case(f"Dirty suction strainer ({dirty.value / 1e3:.4g} kPa at the duty flow), lowest "
              f"source level{pumps}", high, duty, pipes=fouled)  # fmt: skip
+    # The envelope's extremes at once: each alone is a case above, but the system also
+    # runs with an aged pipe in cold weather at the peak demand.
+    worst = [
+        part
+        for part, on in (
+            ("aged pipe", aged),
+            ("coldest liquid", temperatures),
+            ("peak required flow", flows),
+        )
+        if on
+    ]
+    if len(worst) >= 2:
+        case(
+            f"Combined worst: {', '.join(worst)}, highest static head{pumps}",
+            high,
+            duty,
+            flow=flows[-1] if flows else None,
+            temperature=temperatures[0] if temperatures else None,
+            pipes=rough if aged else None,
+        )
     if model.pump.speed_range:
         slow, fast = model.pump.speed_range
         case(

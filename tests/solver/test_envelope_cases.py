@@ -375,3 +375,28 @@ def test_motor_is_sized_on_the_viscous_curve():
     peak_w = water.results["motor"]["peak_shaft_power"]["value"]
     peak_v = viscous.results["motor"]["peak_shaft_power"]["value"]
     assert peak_v > 1.05 * peak_w  # the corrected curve takes more power at equal density
+
+
+def test_the_combined_worst_state_is_a_case_every_check_sees():
+    from calcreport.recheck import recheck
+
+    envelope = (
+        '[envelope]\nroughness = "0.5 mm"\ntemperature = ["5 degC", "30 degC"]\n'
+        'flow_required = ["20 L/s", "27 L/s"]\n'
+    )
+    t = solve(loads((CASE + envelope).encode()))
+    worst = _case("Combined worst", t)
+    alone = {k: t.results["cases"][_case(k, t)] for k in ("Aged pipe", "Coldest", "Peak")}
+    combined = t.results["cases"][worst]
+    # Aged roughness, cold liquid and the peak flow at once, at the highest static head.
+    assert all(p["roughness"]["value"] == 0.5e-3 for p in combined["pipes"].values())
+    assert combined["fluid"]["density"]["value"] == alone["Coldest"]["fluid"]["density"]["value"]
+    assert combined["required_flow"]["value"] == pytest.approx(0.027)
+    assert combined["static_head"]["value"] == alone["Aged pipe"]["static_head"]["value"]
+    # Its head is above each extreme alone (rougher, colder and faster at once).
+    for case in alone.values():
+        assert combined["total_dynamic_head"]["value"] > case["total_dynamic_head"]["value"]
+    assert recheck(t.to_json()).ok
+    # One extreme alone: no combined state (it would repeat that case).
+    single = solve(loads((CASE + '[envelope]\nroughness = "0.5 mm"\n').encode()))
+    assert not any(c["title"].startswith("Combined worst") for c in single.cases)
