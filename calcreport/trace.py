@@ -253,7 +253,7 @@ class TraceBuilder:
 
     def __init__(self) -> None:
         self.steps: list[Step] = []
-        self._ids: set[str] = set()
+        self._results: dict[str, Given] = {}  # each step's result, by its id
         self.assumptions: list[dict[str, str]] = []
         self._assumed: dict[tuple[str, float | None], str] = {}  # (text, value) -> its id
         self.given: dict[str, dict[str, Any]] = {}
@@ -298,7 +298,7 @@ class TraceBuilder:
         **args: Given | list[Given],
     ) -> Given:
         """Evaluate ``func`` on the arguments, record the step and return its result."""
-        if step_id in self._ids or step_id in self.given:
+        if step_id in self._results or step_id in self.given:
             raise ValueError(f"step id {step_id!r} is already a step or an input key")
         eq: Equation = self._by_func[func] if not isinstance(func, str) else lookup(func)
         values: dict[str, Any] = {}
@@ -341,8 +341,13 @@ class TraceBuilder:
                 case=case,
             )
         )
-        self._ids.add(step_id)
-        return Given(value, unit, step_id)
+        self._results[step_id] = Given(value, unit, step_id)
+        return self._results[step_id]
+
+    def recorded(self, step_id: str) -> Given:
+        """The result of the step ``step_id``, recorded earlier, as an argument for a later
+        step."""
+        return self._results[step_id]
 
 
 def substitute(eq: Equation, values: dict[str, Any], result: float, system: str = "SI") -> str:

@@ -25,7 +25,7 @@ from typing import Any
 
 from calcreport import __version__, catalog, checks
 from calcreport.model.schema import Model
-from calcreport.solver import route_pressure
+from calcreport.solver import route_pressure, staging
 from calcreport.solver.cases import _cases
 from calcreport.solver.energy import _energy
 from calcreport.solver.liquid import (
@@ -140,6 +140,13 @@ def _solve_design(model: Model, study: Any = None) -> Trace:
     states: dict[str, route_pressure.State] = {}
     design_curve = curve
 
+    def checked(state_id: str, result: dict[str, Any]) -> None:
+        """A solved running state routed (its pressures along the line) and checked."""
+        state_route = route.case_route(states[state_id])
+        if state_route:
+            result["route"] = state_route
+        found.extend(checks.evaluate(model, result, state_id))
+
     def run(case: Case, case_liquid: Liquid, case_surfaces: Surfaces) -> dict[str, Any]:
         """One case solved, routed and checked (its state kept in ``states``)."""
         case_model = replace(model, pipes=case.pipes) if case.pipes else model
@@ -151,11 +158,25 @@ def _solve_design(model: Model, study: Any = None) -> Trace:
         )
         if correction:
             result["viscous_correction"] = correction
-        case_route = route.case_route(states[case.id])
-        if case_route:
-            result["route"] = case_route
-        found.extend(checks.evaluate(model, result, case.id))
+        checked(case.id, result)
         return result
+
+    def run_point(point: Case) -> None:
+        """A state solved like a duty-profile point, routed, checked and kept with them;
+        where a crest controls its flow, its twin lifting to the crest too."""
+        assert design_curve is not None  # such states exist only with a curve
+        result = _profile_state(b, model, point, design, design_curve, eta_drive, states)
+        checked(point.id, result)
+        profile[point.id] = result
+        if point.crest is None:
+            crest_twin(point)
+
+    def crest_twin(point: Case) -> None:
+        """The twin of the point-like state ``point`` where a crest controls its flow."""
+        crest = route_pressure.controlling_crest(model, design, states[point.id])
+        if crest is not None:
+            title = _crest_title(point.id, crest)
+            run_point(replace(point, id=f"{point.id}x", title=title, crest=crest))
 
     for case in list(cases):
         case_liquid, case_surfaces = liquid, surfaces
@@ -171,15 +192,12 @@ def _solve_design(model: Model, study: Any = None) -> Trace:
         if case.id == DESIGN_CASE:
             design_curve, _ = _viscous(b, model, curve, case, case_liquid, corrected, notes)
         by_case[case.id] = run(case, case_liquid, case_surfaces)
-    profile = _profile_states(b, model, states[DESIGN_CASE], design_curve, eta_drive, states)
+    design = states[DESIGN_CASE]
+    profile = _profile_states(b, model, design, design_curve, eta_drive, states)
     for pid, result in profile.items():
-        state_route = route.case_route(states[pid])
-        if state_route:
-            result["route"] = state_route
-        found += checks.evaluate(model, result, pid)
+        checked(pid, result)
     # A crest the full line would cross below atmospheric controls that state's flow: the
     # state is solved again with the pump lifting to the crest.
-    design = states[DESIGN_CASE]
     for case in list(cases):
         crest = route_pressure.controlling_crest(model, design, states[case.id])
         if crest is not None:
@@ -190,31 +208,27 @@ def _solve_design(model: Model, study: Any = None) -> Trace:
             st = states[case.id]
             by_case[lifted.id] = run(lifted, st.liquid, st.surfaces)
     for pid in list(profile):
-        crest = route_pressure.controlling_crest(model, design, states[pid])
-        if crest is not None:
-            q = model.operation.profile[int(pid[1:]) - 1][0]
-            point = replace(design.case, id=f"{pid}x", title=_crest_title(pid, crest), flow=q,
-                            crest=crest)  # fmt: skip
-            assert design_curve is not None  # profile states exist only with a curve
-            lifted_point = _profile_state(b, model, point, design, design_curve, eta_drive, states)
-            state_route = route.case_route(states[point.id])
-            if state_route:
-                lifted_point["route"] = state_route
-            found += checks.evaluate(model, lifted_point, point.id)
-            profile[point.id] = lifted_point
+        crest_twin(states[pid].case)
     rated_id, rated = rated_state(b, model, design, design_curve, eta_drive, profile, states)
     if rated is not None and rated_id in states:  # a running state of its own: checked
-        state_route = route.case_route(states[rated_id])
-        if state_route:
-            rated["route"] = state_route
-        found += checks.evaluate(model, rated, rated_id)
+        checked(rated_id, rated)
         profile[rated_id] = rated
+    staged = None
     if "electrical_power" in by_case[DESIGN_CASE]:
         P_e = source_of(by_case[DESIGN_CASE]["electrical_power"])
         energy = _energy(b, model, states[DESIGN_CASE].case, P_e, profile, notes)
         if energy:
             by_case[DESIGN_CASE]["energy"] = energy
+            if staging.applies(model, design_curve, design.case.running):
+                assert design_curve is not None
+                staged, staged_checks = staging.staging(
+                    b, model, design, design_curve, eta_drive, profile, states, energy,
+                    run_point, notes,
+                )  # fmt: skip
+                found += staged_checks
     results = dict(by_case[DESIGN_CASE])
+    if staged:
+        results["staging"] = staged
     if study is not None:
         results["study"] = study(b, results)
     # The highest pressures: the pump's highest head on its fastest curve.

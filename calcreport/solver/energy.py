@@ -8,13 +8,13 @@ from typing import Any
 
 from calcreport.model.schema import Given, Model
 from calcreport.physics import power
-from calcreport.solver.states import Case, Liquid, Notes
+from calcreport.solver.states import Case, Evaluator, Liquid, Notes
 from calcreport.trace import TraceBuilder, quantity, source_of
 from calcreport.trace import bound as _q  # a result naming its source
 
 
 def _electrical(
-    b: TraceBuilder,
+    b: Evaluator,
     model: Model,
     case: Case,
     P_h: Given,
@@ -22,7 +22,9 @@ def _electrical(
     eta_drive: Given,
     label: str = "",
 ) -> tuple[Given | None, Given | None]:
-    """Shaft and electrical input power from the hydraulic power (None where not known)."""
+    """Shaft and electrical input power from the hydraulic power (None where not known);
+    ``b`` records them, or a sweep evaluates them without recording (a count of pumps
+    screened, :mod:`calcreport.solver.staging`)."""
     sid = case.sid
     if model.pump.efficiency_basis == "overall":
         # Wire-to-water efficiency: electrical input directly; the shaft power is unknown,

@@ -189,23 +189,40 @@ def _profile_speed(
 ) -> Given | str:
     """The speed at which the affinity-moved curve meets the system head at each pump's flow
     ``Q`` (or why there is none); the drive is held to the top speed."""
-    assert model.pump.curve is not None
-    n0 = model.pump.speed or model.pump.curve.speed
-    assert n0 is not None
-    top = model.pump.speed_range[1].value if model.pump.speed_range else n0.value
-    q0, h0 = curve.values("flow"), curve.values("head")
-
-    def difference(speeds: np.ndarray) -> np.ndarray:
-        at = Q.value * n0.value / speeds
-        inside = at <= q0[-1]
-        head = np.where(inside, pump.monotone_cubic(q0, h0, np.minimum(at, q0[-1])), -1e9)
-        return lift * (speeds / n0.value) ** 2 * head - H_sys.value
-
-    low = max(Q.value * n0.value / q0[-1], 1e-6 * n0.value)
-    speed = pump.operating_point(difference, low, top) if low < top else None
+    speed = _meeting_speed(model, curve, Q.value, H_sys.value, lift)
     if speed is None:
-        return f"it needs more than the top speed of {top * 60:.5g} rpm"
+        return f"it needs more than the top speed of {_speeds(model)[1] * 60:.5g} rpm"
     found = b.solution(point.sid("solver.speed"), speed, "1/s",
                        "bracketed root of H_pump(n, Q) − H_system(Q), Illinois method")  # fmt: skip
     return b.step(point.sid("pump.speed"), "Speed that meets the system head at the profile flow",
                   pump.solved_speed, point.id, n=found)  # fmt: skip
+
+
+def _speeds(model: Model) -> tuple[float, float]:
+    """The curve's speed n0 and the drive's top speed [1/s] (n0 without a speed range)."""
+    assert model.pump.curve is not None
+    n0 = model.pump.speed or model.pump.curve.speed
+    assert n0 is not None
+    return n0.value, model.pump.speed_range[1].value if model.pump.speed_range else n0.value
+
+
+def _meeting_speed(
+    model: Model, curve: CurvePoints, Q: float, H_sys: float, lift: float
+) -> float | None:
+    """The speed [1/s] at which ``lift`` pumps in series (1: one pump, or each of several in
+    parallel), on the curve moved by the affinity laws, give the system head ``H_sys`` [m]
+    at each pump's flow ``Q`` [m^3/s]; None when it needs more than the top speed.
+
+    (n/n0)²·H0(Q·n0/n) = H_system, Karassik, Pump Handbook, 4th ed., 2008 (affinity laws).
+    """
+    n0, top = _speeds(model)
+    q0, h0 = curve.values("flow"), curve.values("head")
+
+    def difference(speeds: np.ndarray) -> np.ndarray:
+        at = Q * n0 / speeds
+        inside = at <= q0[-1]
+        head = np.where(inside, pump.monotone_cubic(q0, h0, np.minimum(at, q0[-1])), -1e9)
+        return lift * (speeds / n0) ** 2 * head - H_sys
+
+    low = max(Q * n0 / q0[-1], 1e-6 * n0)
+    return pump.operating_point(difference, low, top) if low < top else None

@@ -1,5 +1,6 @@
 """Energy over time: hours in seconds, annual energy, energy per volume pumped, fill time,
-the duty profile's energy, volume and time, and the power lost to throttling.
+the duty profile's energy, volume and time, the power lost to throttling, and the energy
+one way of running the pumps saves against another.
 """
 
 from __future__ import annotations
@@ -347,3 +348,47 @@ def time_sum(t: Any) -> Any:
        A Guide to Successful Applications, 2004 (duty cycle).
     """
     return sum(t)
+
+
+@equation(
+    symbol="ΔE",
+    text="ΔE = E_ref − E",
+    latex=r"\Delta E = E_{ref} - E",
+    substitute="{E_ref:kWh} − {E:kWh}",
+    reference="hi_power",
+    shown_in="kWh",
+)
+def energy_saving(E_ref: Any, E: Any) -> Any:
+    r"""Annual energy saved by one way of running the pumps against another.
+
+    .. math:: \Delta E = E_{ref} - E
+
+    Parameters
+    ----------
+    E_ref : float
+        Annual energy of the reference way of running (the design's pumps) [J]
+    E : float
+        Annual energy of the way compared with it [J]
+
+    Returns
+    -------
+    dE : float
+        Annual energy saved; negative where the way compared takes more [J]
+
+    Notes
+    -----
+    Both energies are taken over the same duty profile (the same flows and hours), so the
+    difference is the energy the choice of running saves and nothing else.
+
+    Examples
+    --------
+    >>> energy_saving(7.2e9, 5.4e9) / 3.6e6
+    500.0
+
+    References
+    ----------
+    1. Hydraulic Institute, Europump and US DOE, Variable Speed Pumping:
+       A Guide to Successful Applications, 2004 (comparing the energy of ways of
+       running the pumps over a duty cycle).
+    """
+    return E_ref - E

@@ -20,6 +20,7 @@ from calcreport.report.sections.common import (
     runs,
     text,
 )
+from calcreport.report.sections.route import STAGING_STEPS
 from calcreport.trace import substitute
 from calcreport.units import KIND_OF_SI_UNIT, display_unit, fmt, pretty_unit, to_display
 
@@ -167,8 +168,10 @@ class CalculationSection:
                 out += self.surge_section(steps)
             elif key == "power":
                 for st in steps:
-                    out += self.step_block(st)
+                    if not st["id"].startswith(STAGING_STEPS):
+                        out += self.step_block(st)
                 out += self.profile_section({st["function"] for st in steps})
+                out += self.staging_section()
             else:
                 for st in steps:
                     out += self.step_block(st)

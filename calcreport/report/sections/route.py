@@ -11,6 +11,9 @@ from reportlab.platypus import Flowable
 from calcreport.report.sections.common import _PROFILE_STEP, MAX_NODE_ROWS, text
 from calcreport.units import display_unit, fmt, pretty_unit
 
+# The steps of the staging's energy, worked in its own subsection of Power and energy.
+STAGING_STEPS = "energy.staging."
+
 
 class RouteSections:
     """The route and surge sections of the calculation."""
@@ -184,6 +187,88 @@ class RouteSections:
         fresh = [st for st in steps if st["function"] not in shown]
         out += self.examples(fresh)
         return out
+
+    def staging_section(self) -> list[Flowable]:
+        """Staging of parallel pumps: at each profile point the pumps running at the
+        design's fixed count and as staged, the counts feasible, the input power of each,
+        then the annual energy of both and the saving, with their worked steps."""
+        staging = self.r.get("staging")
+        if not staging:
+            return []
+        n = staging["pumps_available"]["value"]
+        limits = ", ".join(staging["limits"]) or "the pump curve alone"
+        intro = self.p(
+            f"At each point of the profile, every count of the {n:g} duty pumps in "
+            "parallel is tried at the point's flow, each pump taking an equal share. The "
+            "staged count is the count of least electrical input power among those whose "
+            "combined curve meets the system at that flow with each pump within its "
+            f"operating-region limits ({text(limits)}); on a tie the fewer pumps run. Each "
+            "staged count is solved and checked as a state of its own. When to switch "
+            "pumps, the control and the minimum run times are for the controls designer."
+        )
+        flow = pretty_unit(display_unit("flow", self.system))
+        pw = pretty_unit(display_unit("power", self.system))
+        rows: list[list[Any]] = [
+            [
+                "Point",
+                f"Flow [{flow}]",
+                "Hours a year",
+                "Pumps, fixed",
+                "Pumps, staged",
+                "Counts feasible",
+                f"Input power, fixed [{pw}]",
+                f"Input power, staged [{pw}]",
+            ]
+        ]
+        refused = []
+        for row in staging["points"]:
+            state = "" if row["state"] == row["state_fixed"] else f" ({text(row['state'])})"
+            power = row["electrical_power"]
+            rows.append(
+                [
+                    text(row["point"]),
+                    self.num(row["flow"], "flow"),
+                    f"{row['hours']:,.0f}",
+                    f"{row['pumps_fixed']:d}",
+                    f"{row['pumps']:d}{state}",
+                    ", ".join(f"{k:d}" for k in row["feasible"]) or "none",
+                    self.num(power["fixed"], "power"),
+                    self.num(power["staged"], "power"),
+                ]
+            )
+            refused += [
+                f"{text(row['point'])} with {c['pumps']:d}: {text(c['reason'])}"
+                for c in row["screened"]
+                if not c["feasible"]
+            ]
+        w = self.width
+        shares = (0.08, 0.11, 0.1, 0.11, 0.13, 0.13, 0.17, 0.17)
+        table = self.table(rows, [w * share for share in shares])
+        out: list[Flowable] = [self.heading("Pumps running at each profile point", 2)]
+        out += self.kept([intro, table])
+        if refused:
+            out.append(self.p("Counts not feasible: " + "; ".join(refused) + ".", self.s.small))
+        if staging["unstaged"]:
+            out.append(
+                self.p(
+                    f"At {text(', '.join(staging['unstaged']))} no count keeps each pump within "
+                    f"its limits: the {n:g} pumps are kept there in the staged energy."
+                )
+            )
+        saving = staging["saving"]
+        line = (
+            f"Annual energy over the profile: {self.q_linked(staging['energy_fixed'], 'energy', 5)}"
+            f" with {n:g} pumps running at every point, "
+            f"{self.q_linked(staging['energy_staged'], 'energy', 5)} staged; "
+            + ("saved by staging: " if saving["value"] >= 0 else "more when staged: ")
+            + f"{self.q_linked({**saving, 'value': abs(saving['value'])}, 'energy', 5)}"
+        )
+        if "cost_saving" in staging:
+            cost = staging["cost_saving"]
+            line += f", {abs(cost['value']):,.0f} {text(cost['unit'])} a year"
+        out.append(self.p(line + "."))
+        steps = self.view.steps((STAGING_STEPS,))
+        return out + [flowable for st in steps for flowable in self.step_block(st)]
 
     def surge_section(self, steps: list[dict[str, Any]]) -> list[Flowable]:
         """Per-pipe wave speed, period and head change; the verdict; one step of each kind."""
