@@ -11,6 +11,7 @@
 ``hazen_williams_c.csv``       Hazen-Williams C by material (typical values)
 ``pipe_elastic_modulus.csv``   wall modulus and Poisson's ratio by material (surge)
 ``check_valve_full_lift.csv``  check valves: velocity for full disc lift (Crane TP-410)
+``iso_9906_tolerances.csv``    acceptance grades' tolerances on flow, head, efficiency
 """
 
 from __future__ import annotations
@@ -30,6 +31,7 @@ __all__ = [
     "fittings",
     "fittings_three_k",
     "hazen_williams_c",
+    "iso_9906_grades",
     "motor_efficiency",
     "motor_ratings",
     "references",
@@ -135,6 +137,17 @@ def hazen_williams_c() -> dict[str, tuple[float, str]]:
     """Hazen-Williams C of new pipe by material name, with its source."""
     return {
         row["material"]: (float(row["C"]), row["source"]) for row in rows("hazen_williams_c.csv")
+    }
+
+
+@cache
+def iso_9906_grades() -> dict[str, dict[str, Any]]:
+    """Tolerance factors of each ISO 9906 acceptance grade, as fractions, with the source:
+    ``{"2B": {"head_minus": 0.05, ..., "source": ...}}``."""
+    keys = ("flow_minus", "flow_plus", "head_minus", "head_plus", "efficiency_minus")
+    return {
+        row["grade"]: {**{k: float(row[k]) / 100.0 for k in keys}, "source": row["source"]}
+        for row in rows("iso_9906_tolerances.csv")
     }
 
 

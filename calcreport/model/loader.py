@@ -257,10 +257,17 @@ def _build(r: _Reader, data: dict[str, Any], text: str, raw: bytes, path: str) -
         )
     components = _components(r, data.get("component"), pipes)
     study = None
-    if "study" in data and pump is not None and pump_data is not None and not r.count("pump"):
+    if (
+        "study" in data
+        and pump is not None
+        and pump_data is not None
+        and source is not None
+        and destination is not None
+        and not r.count("pump")
+    ):
         study_data = r.table(data, "study", "study", required=True)
         if study_data is not None:
-            study = _study(r, study_data, pump_data, pump, operation, pipes)
+            study = _study(r, study_data, pump_data, pump, operation, pipes, source, destination)
     surge = _surge(r, data)
     friction_method = r.text(data, "friction_method", "", "darcy_weisbach", FRICTION_METHODS)
     fittings_method = r.text(data, "fittings_method", "", "two_k", FITTINGS_METHODS)

@@ -231,6 +231,17 @@ class SizeStudy:
 
 
 @dataclass(frozen=True)
+class Sensitivity:
+    """The stated uncertainties whose effect on the design's results is shown: an aged
+    roughness, a liquid temperature range, the level ranges, the pump's acceptance grade."""
+
+    roughness: Given | None = None  # every pipe at least this rough, on the high side
+    temperature: tuple[Given, Given] | None = None  # coldest, warmest
+    levels: bool = False  # the static head from lowest to highest, by the level ranges
+    pump_grade: str = ""  # an ISO 9906 grade: curve head and efficiency within it
+
+
+@dataclass(frozen=True)
 class Study:
     """Candidate pumps to rank by life-cycle cost (``selected``, a candidate id, or "" for
     the best that passes, gets the full calculation), and pipe sizes to price against the
@@ -239,6 +250,7 @@ class Study:
     candidates: tuple[Candidate, ...]
     selected: str = ""
     pipe_sizes: tuple[SizeStudy, ...] = ()
+    sensitivity: Sensitivity | None = None
 
 
 @dataclass(frozen=True)

@@ -16,10 +16,12 @@ from collections.abc import Callable
 from dataclasses import dataclass, replace
 from typing import Any
 
-from calcreport.model.schema import Candidate, Given, Model, PipeSize, SizeStudy
+from calcreport import catalog
+from calcreport.model.schema import Candidate, Given, Model, PipeSize, Sensitivity, SizeStudy
 from calcreport.physics import power
 from calcreport.trace import Trace, TraceBuilder, quantity
 from calcreport.trace import bound as _q
+from calcreport.units import show
 
 __all__ = ["solve_study"]
 
@@ -88,7 +90,8 @@ def solve_study(
     calculation as it starts."""
     study = model.study
     assert study is not None
-    total = len(study.candidates) + sum(len(g.sizes) for g in study.pipe_sizes) + 1
+    tried = _uncertainties(model, study.sensitivity) if study.sensitivity else []
+    total = len(study.candidates) + sum(len(g.sizes) for g in study.pipe_sizes) + 2 * len(tried) + 1
     done = iter(range(1, total + 1))
 
     def solved(what: str, variant: Model, *hook: Any) -> Trace:
@@ -108,8 +111,22 @@ def solve_study(
         for n, group in enumerate(study.pipe_sizes, 1)
     ]
 
+    effects = [
+        (
+            name,
+            label,
+            low,
+            high,
+            solved(f"{label}, low", make(design, "low")),
+            solved(f"{label}, high", make(design, "high")),
+        )
+        for name, label, low, high, make in tried
+    ]
+
     def record(b: TraceBuilder, results: dict[str, Any]) -> dict[str, Any]:
         out = _record(b, model, ranked, chosen, results) if chosen else {}
+        if effects:
+            out["sensitivity"] = [_effects(results, *row) for row in effects]
         if sized:
             out["pipe_sizes"] = [row for group in sized for row in _record_sizes(b, model, group)]
         out.setdefault("basis", _basis(model))
@@ -345,4 +362,117 @@ def _record(
         "selected_by": "input" if model.study and model.study.selected else "rank",
         "basis": _basis(model),
     }
+    return out
+
+
+# The design results a sensitivity shows, and where each stands in a solved design's results.
+EFFECTS = ("total_dynamic_head", "operating_flow", "npsh_margin", "shaft_power")
+
+
+def _effect_values(results: dict[str, Any]) -> dict[str, dict[str, Any]]:
+    """The design case's TDH, operating flow, NPSH margin and shaft power (those it has)."""
+    point = results.get("operating_point", {})
+    found = {
+        "total_dynamic_head": results.get("total_dynamic_head"),
+        "operating_flow": point.get("flow") or results.get("flow"),
+        "npsh_margin": point.get("npsh_margin") or results.get("npsh_available"),
+        "shaft_power": results.get("shaft_power"),
+    }
+    return {k: quantity(v["value"], v["unit"]) for k, v in found.items() if v is not None}
+
+
+def _effects(
+    results: dict[str, Any],
+    name: str,
+    label: str,
+    low: str,
+    high: str,
+    low_trace: Trace,
+    high_trace: Trace,
+) -> dict[str, Any]:
+    """One uncertainty's row: its low and high settings and the design results at each,
+    with the change from the design's own as a fraction of it."""
+    base = _effect_values(results)
+    at_low, at_high = _effect_values(low_trace.results), _effect_values(high_trace.results)
+    effects = {}
+    for key, q in base.items():
+        if key not in at_low or key not in at_high:
+            continue
+        size = abs(q["value"]) or 1.0
+        effects[key] = {
+            "design": q,
+            "low": at_low[key],
+            "high": at_high[key],
+            "low_change": (at_low[key]["value"] - q["value"]) / size,
+            "high_change": (at_high[key]["value"] - q["value"]) / size,
+        }
+    return {"parameter": name, "label": label, "low": low, "high": high, "effects": effects}
+
+
+def _uncertainties(
+    model: Model, s: Sensitivity
+) -> list[tuple[str, str, str, str, Callable[[Model, str], Model]]]:
+    """Each uncertainty: its name, label, the low and high settings as a reader names them,
+    and the design at either setting."""
+    units = model.project.units
+    out: list[tuple[str, str, str, str, Callable[[Model, str], Model]]] = []
+    if s.roughness is not None:
+        aged = s.roughness
+
+        def rough(m: Model, side: str) -> Model:
+            if side == "low":
+                return m
+            pipes = tuple(
+                replace(p, roughness=aged) if p.roughness.value < aged.value else p for p in m.pipes
+            )
+            return replace(m, pipes=pipes)
+
+        out.append(("roughness", "Pipe roughness", "as new (as designed)",
+                    f"aged, {show(_q(aged), 'roughness', units)}", rough))  # fmt: skip
+    if s.temperature is not None:
+        cold, warm = s.temperature
+
+        def warmth(m: Model, side: str) -> Model:
+            return replace(m, fluid=replace(m.fluid, temperature=cold if side == "low" else warm))
+
+        out.append(("temperature", "Liquid temperature", show(_q(cold), "temperature", units),
+                    show(_q(warm), "temperature", units), warmth))  # fmt: skip
+    if s.levels:
+
+        def levels(m: Model, side: str) -> Model:
+            src, dst = m.source, m.destination
+            if side == "low":  # least static head: source high, destination low
+                return replace(
+                    m,
+                    source=replace(src, level=src.level_high or src.level),
+                    destination=replace(dst, level=dst.level_low or dst.level),
+                )
+            return replace(
+                m,
+                source=replace(src, level=src.level_low or src.level),
+                destination=replace(dst, level=dst.level_high or dst.level),
+            )
+
+        out.append(("levels", "Static head (levels)", "least (source high, destination low)",
+                    "most (source low, destination high)", levels))  # fmt: skip
+    if s.pump_grade:
+        grade = catalog.iso_9906_grades()[s.pump_grade]
+
+        def tested(m: Model, side: str) -> Model:
+            curve = m.pump.curve
+            assert curve is not None
+            if side == "low":  # the pump at the foot of its grade: less head, less efficiency
+                head, eta = 1.0 - grade["head_minus"], 1.0 - grade["efficiency_minus"]
+            else:
+                head, eta = 1.0 + grade["head_plus"], 1.0
+            moved = replace(
+                curve,
+                head=tuple(replace(h, value=h.value * head) for h in curve.head),
+                efficiency=tuple(replace(e, value=e.value * eta) for e in curve.efficiency),
+            )
+            return replace(m, pump=replace(m.pump, curve=moved))
+
+        low = f"head −{grade['head_minus']:.0%}, efficiency −{grade['efficiency_minus']:.0%}"
+        out.append(("pump_grade", f"Pump within ISO 9906 grade {s.pump_grade}", low,
+                    f"head +{grade['head_plus']:.0%}", tested))  # fmt: skip
     return out

@@ -159,6 +159,7 @@ def test_figures_lists_every_public_chart() -> None:
         "energy",
         "candidates",
         "pipe_sizes",
+        "tornado",
     }
     assert set(NAMES) <= set(charts.__all__)
 

@@ -174,7 +174,71 @@ def test_the_study_command_refuses_an_input_with_nothing_to_compare(tmp_path, ca
 def test_a_study_tells_each_calculation_as_it_starts():
     heard: list[str] = []
     solve(load(str(OFFERS)), heard.append)
-    # Three offers, four sizes and the selected design: eight calculations.
-    assert heard[0] == "solving offer A (1 of 8)"
-    assert heard[-1] == "solving the selected design (8 of 8)"
+    # Three offers, four sizes, four uncertainties low and high, the selected design: 16.
+    assert heard[0] == "solving offer A (1 of 16)"
+    assert heard[-1] == "solving the selected design (16 of 16)"
+    assert "solving Liquid temperature, low (10 of 16)" in heard
     assert any(h.startswith("solving D1, D2 at NPS/DN 8, 40") for h in heard)
+
+
+def _design(model):
+    chosen = next(c for c in model.study.candidates if c.id == "B")
+    return replace(model, pump=chosen.pump, study=None)
+
+
+def _tdh_flow_power(trace):
+    r = trace.results
+    return (
+        r["total_dynamic_head"]["value"],
+        r["operating_point"]["flow"]["value"],
+        r["shaft_power"]["value"],
+    )
+
+
+def test_the_tornado_bars_are_the_designs_own_changes_solved_again_in_the_test(study):
+    model, trace = study
+    rows = {row["parameter"]: row for row in trace.results["study"]["sensitivity"]}
+    design = _design(model)
+    base = _tdh_flow_power(solve(design))
+    # Finite differences, each setting applied here to the selected design and solved.
+    cold = replace(design, fluid=replace(design.fluid, temperature=replace(
+        design.fluid.temperature, value=273.15 + 12.0)))  # fmt: skip
+    aged = replace(design, pipes=tuple(
+        replace(p, roughness=replace(p.roughness, value=max(p.roughness.value, 0.5e-3)))
+        for p in design.pipes))  # fmt: skip
+    curve = design.pump.curve
+    weak = replace(
+        design,
+        pump=replace(
+            design.pump,
+            curve=replace(
+                curve,
+                head=tuple(replace(h, value=h.value * 0.95) for h in curve.head),
+                efficiency=tuple(replace(e, value=e.value * 0.95) for e in curve.efficiency),
+            ),
+        ),
+    )  # fmt: skip  (ISO 9906 grade 2B: head -5 %, efficiency -5 %, from memory)
+    for name, side, variant in (("temperature", "low", cold), ("roughness", "high", aged),
+                                ("pump_grade", "low", weak)):  # fmt: skip
+        tdh, flow, shaft = _tdh_flow_power(solve(variant))
+        effects = rows[name]["effects"]
+        assert effects["total_dynamic_head"][side]["value"] == pytest.approx(tdh, rel=1e-12)
+        assert effects["operating_flow"][side]["value"] == pytest.approx(flow, rel=1e-12)
+        assert effects["shaft_power"][side]["value"] == pytest.approx(shaft, rel=1e-12)
+        change = effects["shaft_power"][f"{side}_change"]
+        assert change == pytest.approx((shaft - base[2]) / base[2], rel=1e-9)
+    # Rougher pipe: more head at the pump, less flow; a weaker pump: less flow.
+    assert rows["roughness"]["effects"]["operating_flow"]["high_change"] < 0
+    assert rows["pump_grade"]["effects"]["operating_flow"]["low_change"] < 0
+
+
+def test_sensitivity_input_is_checked_by_key(tmp_path, capsys):
+    text = OFFERS.read_text(encoding="utf-8").replace('pump_grade = "2B"', 'pump_grade = "4X"')
+    text = text.replace(
+        'temperature = ["12 degC", "32 degC"]', 'temperature = ["32 degC", "12 degC"]'
+    )
+    source = tmp_path / "bad.toml"
+    source.write_text(text, encoding="utf-8")
+    assert main(["check", str(source)]) == 2
+    err = capsys.readouterr().err
+    assert "study.sensitivity.pump_grade" in err and "study.sensitivity.temperature" in err

@@ -8,6 +8,7 @@ import re
 from dataclasses import fields, replace
 from typing import Any
 
+from calcreport import catalog
 from calcreport.model.schema import (
     Candidate,
     Given,
@@ -15,17 +16,20 @@ from calcreport.model.schema import (
     Pipe,
     PipeSize,
     Pump,
+    Sensitivity,
     SizeStudy,
     Study,
+    Vessel,
 )
 from calcreport.model.sections.pipes import _catalog_diameter
 from calcreport.model.sections.pump import _PROVENANCE_KEYS, _pump
-from calcreport.model.sections.reader import _Reader
+from calcreport.model.sections.reader import _quantity_list, _Reader
 from calcreport.units import as_written
 
 MAX_CANDIDATES = 10
 MAX_SIZES = 12
-_STUDY_KEYS = {"candidate", "selected", "pipe_size"}
+_STUDY_KEYS = {"candidate", "selected", "pipe_size", "sensitivity"}
+_SENSITIVITY_KEYS = {"roughness", "temperature", "levels", "pump_grade"}
 _SIZE_KEYS = {"nominal_size", "schedule", "material", "inner_diameter", "cost_per_length"}
 _COST_KEYS = {"id", "title", "capital_cost", "annual_maintenance"}
 _ID = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_-]{0,15}$")
@@ -40,19 +44,23 @@ def _study(
     base: Pump,
     op: Operation,
     pipes: tuple[Pipe, ...],
+    source: Vessel,
+    destination: Vessel,
 ) -> Study | None:
     """The study of ``data`` (the [study] table): the candidate pumps, each ``base`` with
     the fields its own keys set (read as ``study.candidate[n].<key>``), and the pipe
     sizes to price (``study.pipe_size[n]``)."""
     r.known_keys(data, "study", _STUDY_KEYS)
-    if "candidate" not in data and "pipe_size" not in data:
+    if not {"candidate", "pipe_size", "sensitivity"} & set(data):
         r.problem(
             "study",
-            "A study compares offers or sizes: give [[study.candidate]] tables (pumps "
-            "offered) or [[study.pipe_size]] tables (sizes of a main), or both.",
+            "A study compares offers or sizes, or shows how sure the design is: give "
+            "[[study.candidate]] tables (pumps offered), [[study.pipe_size]] tables (sizes "
+            "of a main) or a [study.sensitivity] table (the uncertainties to try).",
         )
         return None
-    _needs_costs(r, op)
+    if {"candidate", "pipe_size"} & set(data):
+        _needs_costs(r, op)
     candidates = _candidates(r, data, pump_data, base) if "candidate" in data else ()
     seen = {c.id for c in candidates}
     selected = r.text(data, "selected", "study", "")
@@ -62,9 +70,59 @@ def _study(
             f'"{selected}" is no candidate id; give one of {", ".join(sorted(seen)) or "none"}.',
         )
     sizes = _pipe_sizes(r, data.get("pipe_size"), pipes) if "pipe_size" in data else ()
+    sensitivity = None
+    if "sensitivity" in data:
+        table = r.table(data, "sensitivity", "study.sensitivity", required=True)
+        sensitivity = _sensitivity(r, table, base, source, destination) if table else None
     if r.count("study"):
         return None
-    return Study(tuple(candidates), selected, sizes)
+    return Study(tuple(candidates), selected, sizes, sensitivity)
+
+
+def _sensitivity(
+    r: _Reader, data: dict[str, Any], pump: Pump, source: Vessel, destination: Vessel
+) -> Sensitivity | None:
+    """``study.sensitivity``: the uncertainties to try, each low and high."""
+    where = "study.sensitivity"
+    r.known_keys(data, where, _SENSITIVITY_KEYS)
+    if not data:
+        r.problem(
+            where, "Name at least one uncertainty: " + ", ".join(sorted(_SENSITIVITY_KEYS)) + "."
+        )
+        return None
+    roughness = r.quantity(data, "roughness", where, "roughness", positive=True)
+    temperature = None
+    if "temperature" in data:
+        pair = _quantity_list(r, data, "temperature", where, "temperature")
+        if pair is not None and (len(pair) != 2 or pair[0].value >= pair[1].value):
+            r.problem(
+                f"{where}.temperature",
+                "Give the coldest and the warmest temperature, in that order.",
+            )
+        elif pair is not None:
+            temperature = (pair[0], pair[1])
+    levels = data.get("levels", False)
+    if not isinstance(levels, bool):
+        r.problem(f"{where}.levels", f"Expected true or false; got {as_written(levels)}.")
+        levels = False
+    if levels and not (
+        source.level_low or source.level_high or destination.level_low or destination.level_high
+    ):
+        r.problem(
+            f"{where}.levels",
+            "The static head varies by the level ranges: give source.level_low and level_high "
+            "(or the destination's).",
+        )
+    grade = (
+        r.text(data, "pump_grade", where, "", tuple(catalog.iso_9906_grades()))
+        if "pump_grade" in data
+        else ""
+    )
+    if grade and pump.curve is None:
+        r.problem(
+            f"{where}.pump_grade", "The acceptance grade moves the pump curve: give [pump.curve]."
+        )
+    return Sensitivity(roughness, temperature, bool(levels), grade)
 
 
 def _needs_costs(r: _Reader, op: Operation) -> None:

@@ -6,7 +6,8 @@ Power
 Energy
     hours_to_seconds, fill_time, annual_energy, specific_energy
 Duty profile
-    profile_energy, profile_volume, energy_per_volume, throttling_power, peak_power, time_sum
+    profile_energy, profile_volume, energy_per_volume, throttling_power, peak_power, time_sum,
+    energy_saving
 Cost
     annual_cost, demand_cost, cost_sum, present_value, life_cycle_cost, length_cost
 """
@@ -33,6 +34,7 @@ from calcreport.physics.power.cost import (
 from calcreport.physics.power.energy import (
     annual_energy,
     energy_per_volume,
+    energy_saving,
     fill_time,
     hours_to_seconds,
     profile_energy,
@@ -49,6 +51,7 @@ __all__ = [
     "demand_cost",
     "electrical_power",
     "energy_per_volume",
+    "energy_saving",
     "fill_time",
     "hours_to_seconds",
     "hydraulic_power",

@@ -50,6 +50,7 @@ from calcreport.report.charts.profile_chart import _draw_profile
 from calcreport.report.charts.sizes_chart import _draw_pipe_sizes
 from calcreport.report.charts.sketch_chart import _draw_sketch
 from calcreport.report.charts.system_chart import _draw_system_curve
+from calcreport.report.charts.tornado_chart import _draw_tornado
 
 __all__ = [
     "FIGURES",
@@ -67,6 +68,7 @@ __all__ = [
     "route_pressure",
     "sketch",
     "system_curve",
+    "tornado",
 ]
 
 
@@ -144,6 +146,11 @@ def candidates(trace: dict[str, Any]) -> Figure:
     return _render(_draw_candidates, trace)
 
 
+def tornado(trace: dict[str, Any]) -> Figure:
+    """How much each stated uncertainty moves TDH, operating flow, NPSH margin and power."""
+    return _render(_draw_tornado, trace)
+
+
 def pipe_sizes(trace: dict[str, Any]) -> Figure:
     """A main's life-cycle cost against its bore, with the pipes' and the energy's shares."""
     return _render(_draw_pipe_sizes, trace)
@@ -161,6 +168,7 @@ _DRAWERS: dict[str, Callable[[dict[str, Any]], tuple[Any, str]]] = {
     "energy": _draw_energy,
     "candidates": _draw_candidates,
     "pipe_sizes": _draw_pipe_sizes,
+    "tornado": _draw_tornado,
 }
 # The chart names in report order.
 FIGURES = tuple(_DRAWERS)
@@ -178,6 +186,8 @@ def applies(name: str, trace: dict[str, Any]) -> bool:
         return bool(rows) and all("electrical_power" in r for r in rows)
     if name == "candidates":
         return any("curve" in c for c in results.get("study", {}).get("candidates", []))
+    if name == "tornado":
+        return bool(results.get("study", {}).get("sensitivity"))
     if name == "pipe_sizes":
         rows = results.get("study", {}).get("pipe_sizes", [])
         return sum(1 for row in rows if "life_cycle_cost" in row) >= 2

@@ -25,6 +25,8 @@ class StudySection:
             return []
         offers = study.get("candidates", [])
         sizes = study.get("pipe_sizes", [])
+        if not offers and not sizes:
+            return self.sensitivity_chapter(study)
         basis = study["basis"]
         years = f"{basis['life']['value']:g}" if "life" in basis else "—"
         rate = f"{basis['discount_rate']['value']:.3g}" if "discount_rate" in basis else "—"
@@ -51,6 +53,8 @@ class StudySection:
             out += self.kept([self.offers_table(offers), *self.figure("candidates")])
         if sizes:
             out += self.sizes_part(study)
+        if study.get("sensitivity"):
+            out += self.sensitivity_part(study["sensitivity"])
         out.append(
             self.p(
                 "The chapters that follow are the full calculation of the design"
@@ -59,6 +63,60 @@ class StudySection:
                 "offers.",
                 self.s.small,
             )
+        )
+        return out
+
+    def sensitivity_chapter(self, study: dict[str, Any]) -> list[Flowable]:
+        """A study of the uncertainties alone: its own chapter."""
+        return [
+            self.heading("Sensitivity of the design"),
+            *self.sensitivity_part(study["sensitivity"]),
+        ]
+
+    def sensitivity_part(self, rows: list[dict[str, Any]]) -> list[Flowable]:
+        """Each uncertainty at its low and high setting and what it moves, as a table and a
+        tornado chart."""
+        kinds = {
+            "total_dynamic_head": ("TDH", "length"),
+            "operating_flow": ("Flow", "flow"),
+            "npsh_margin": ("NPSH margin", "length"),
+            "shaft_power": ("Shaft power", "power"),
+        }
+        shown = [k for k in kinds if any(k in row["effects"] for row in rows)]
+        out: list[Flowable] = [
+            self.p(
+                "How sure the design is: each stated uncertainty is tried at its low and its "
+                "high setting, the rest as designed, and the design solved in full at each "
+                "(every state and check); the table gives the design's own value and the two "
+                "others. The combined worst state, where the input gives its parts, is a case "
+                "of the calculation that every check sees.",
+                self.s.lead,
+            )
+        ]
+        header = ["Uncertainty", "Low", "High"] + [kinds[k][0] for k in shown]
+        table: list[list[Any]] = [header]
+        for row in rows:
+            cells = [text(row["label"]), text(row["low"]), text(row["high"])]
+            for k in shown:
+                e = row["effects"].get(k)
+                cells.append(
+                    "—"
+                    if e is None
+                    else f"{self.q(e['low'], kinds[k][1])} / {self.q(e['design'], kinds[k][1])}"
+                    f" / {self.q(e['high'], kinds[k][1])}"
+                )
+            table.append(cells)
+        w = self.width
+        widths = [w * 0.16, w * 0.14, w * 0.14] + [w * 0.56 / len(shown)] * len(shown)
+        out += self.kept(
+            [
+                self.table(table, widths),
+                self.p(
+                    "Each result: at the low setting / as designed / at the high setting.",
+                    self.s.small,
+                ),
+                *self.figure("tornado"),
+            ]
         )
         return out
 
