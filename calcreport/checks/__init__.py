@@ -24,6 +24,7 @@ from calcreport.checks.operation import (
     _duty,
     _operating_region,
     _thermal,
+    _trim,
     _viscous,
     preferred_range,
 )
@@ -129,6 +130,8 @@ def once(model: Model, results: dict[str, Any]) -> list[Check]:
         found.append(exit_check)
     if "pump_curve" in results:
         found.append(_curve_stability(model, results))
+    if model.pump.trim is not None:
+        found.append(_trim(model))
     if "minimum_lift_speed" in results and model.pump.speed_range:
         n_lift = results["minimum_lift_speed"]["value"]
         n_min = model.pump.speed_range[0].value

@@ -214,3 +214,26 @@ def _viscous(corrections: list[tuple[str, dict[str, Any]]]) -> Check:
         message=message,
         margin=viscous.B_MAX - B,
     )
+
+
+def _trim(model: Model) -> Check:
+    """The impeller trim within the range the affinity relation for diameter is used over."""
+    assert model.pump.trim is not None
+    r = model.pump.trim.value
+    limit, basis, ref, project = criterion(model, "impeller_trim_min")
+    ok = r >= limit
+    return Check(
+        id="impeller_trim",
+        title="Impeller trim within the range of the affinity relation",
+        status=_status(ok, project),
+        value=r,
+        unit="",
+        limit=limit,
+        comparison=">=",
+        basis=basis,
+        reference=ref,
+        case="all",
+        message=f"D/D0 = {r:.3f}"
+        + ("" if ok else ": beyond the relation's range; use the manufacturer's trimmed curve"),
+        margin=r - limit,
+    )

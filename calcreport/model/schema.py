@@ -197,6 +197,7 @@ class Pump:
     pressure_rating: Given | None = None  # casing allowable working pressure, gauge
     stages: Given | None = None  # stages of a multistage pump (viscous correction)
     impeller: str = "single_suction"  # single_suction | double_suction (viscous correction)
+    trim: Given | None = None  # impeller diameter over the curve's (affinity for diameter)
 
 
 @dataclass(frozen=True)

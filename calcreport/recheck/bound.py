@@ -177,7 +177,8 @@ def _bound_status(trace: dict[str, Any]) -> list[Finding]:
     given: dict[str, Any] = trace["given"] if isinstance(trace.get("given"), dict) else {}
     results: dict[str, Any] = trace["results"] if isinstance(trace.get("results"), dict) else {}
     checks: list[Any] = trace["checks"] if isinstance(trace.get("checks"), list) else []
-    curve = any(str(k).startswith("pump.curve.flow[") for k in given)
+    # The pump's curve, or a study offer's own (study.candidate[n].curve) when it is selected.
+    curve = any(re.match(r"^(pump|study\.candidate\[\d+\])\.curve\.flow\[", str(k)) for k in given)
     fails = any(isinstance(c, dict) and c.get("status") == "fail" for c in checks)
     if curve and "operating_point" not in results:
         expected = "not feasible"

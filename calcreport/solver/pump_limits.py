@@ -162,12 +162,15 @@ def _lift_speed(
         h=[source_of(by_case[worst.id][key]) for key in ("static_head", "pressure_head")],
     )
     H0 = curve.head[0]
+    trim = model.pump.trim
+    if trim is not None and trim.value != 1.0:  # the trimmed curve's, as its step gave it
+        H0 = Given(pump.trimmed_head(H0.value, trim.value), "m", "pump.trimmed.head[1]")
     if model.pump.count.value > 1 and model.pump.arrangement == "series":
         H0 = b.step(
             "pump.shutoff_head_series",
             "Shutoff head of the pumps in series",
             pump.series_head,
-            H1=curve.head[0],
+            H1=H0,
             n_run=model.pump.count,
         )
     return b.step(

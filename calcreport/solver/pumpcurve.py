@@ -30,6 +30,25 @@ def _pump_curve(
     flow, head, npsh = list(curve.flow), list(curve.head), list(curve.npsh_required)
     if efficiency is None:
         efficiency = list(curve.efficiency) or _efficiency_from_power(b, model)
+    trim = model.pump.trim
+    if trim is not None and trim.value != 1.0:
+        b.assume(
+            "The trimmed impeller's curve follows the affinity relation for diameter (Q ∝ D, "
+            "H ∝ D²) at corresponding points, with efficiency and NPSH required unchanged "
+            "there: an approximation for small trims; the manufacturer's curve of the "
+            "trimmed impeller governs (its efficiency is usually lower, its NPSH required "
+            "higher)."
+        )
+        flow = [
+            b.step(f"{prefix}pump.trimmed.flow[{i}]", f"Curve flow {i}, trimmed impeller",
+                   pump.trimmed_flow, Q0=q, r=trim)
+            for i, q in enumerate(flow, 1)
+        ]  # fmt: skip
+        head = [
+            b.step(f"{prefix}pump.trimmed.head[{i}]", f"Curve head {i}, trimmed impeller",
+                   pump.trimmed_head, H0=h, r=trim)
+            for i, h in enumerate(head, 1)
+        ]  # fmt: skip
     n = speed or model.pump.speed
     if n is not None and curve.speed is not None and n.value != curve.speed.value:
         b.assume(

@@ -85,7 +85,9 @@ def test_the_offer_named_in_the_input_is_calculated_whatever_its_rank():
     trace = solve(loads(text.encode(), path=str(OFFERS)))
     study = trace.results["study"]
     assert study["selected"] == "C" and study["selected_by"] == "input"
-    assert trace.results["pump_curve"]["head"]["value"][0] == pytest.approx(38.5)
+    # Offer C's curve, its impeller trimmed to 0.94 of the curve's (H ∝ D²).
+    assert trace.results["pump_curve"]["head"]["value"][0] == pytest.approx(38.5 * 0.94**2)
+    assert recheck(trace.to_json()).ok
 
 
 def test_bad_study_input_names_every_key_and_writes_nothing(tmp_path, capsys):
@@ -242,3 +244,22 @@ def test_sensitivity_input_is_checked_by_key(tmp_path, capsys):
     assert main(["check", str(source)]) == 2
     err = capsys.readouterr().err
     assert "study.sensitivity.pump_grade" in err and "study.sensitivity.temperature" in err
+
+
+def test_a_trimmed_offer_follows_the_affinity_relation_for_diameter(study):
+    model, _ = study
+    offer = next(c for c in model.study.candidates if c.id == "C")
+    own = solve(replace(model, pump=offer.pump, study=None))
+    r = offer.pump.trim.value  # 0.94: 320 mm of the curve's 340 mm
+    curve = own.results["pump_curve"]
+    # Karassik, Pump Handbook 4th ed., sec. 2.1: Q ∝ D, H ∝ D² at the same speed.
+    assert curve["flow"]["value"] == pytest.approx([g.value * r for g in offer.pump.curve.flow])
+    assert curve["head"]["value"] == pytest.approx([g.value * r * r for g in offer.pump.curve.head])
+    check = next(c for c in own.checks if c.id == "impeller_trim")
+    assert check.status == "pass" and check.value == r and check.limit == 0.85
+    assert any("trimmed impeller" in a["text"] for a in own.assumptions)
+    # A deeper trim than the relation is used for: review (common practice, 0.85).
+    deep = replace(offer.pump, trim=replace(offer.pump.trim, value=0.8))
+    cut = solve(replace(model, pump=deep, study=None))
+    assert next(c for c in cut.checks if c.id == "impeller_trim").status == "review"
+    assert recheck(own.to_json()).ok

@@ -57,6 +57,7 @@ _PUMP_KEYS = {
     "pressure_rating",
     "stages",
     "impeller",
+    "trim",
     *_PROVENANCE_KEYS,
 }
 _CURVE_KEYS = {"speed", "flow", "head", "efficiency", "npsh_required", "power", "file"}
@@ -131,11 +132,15 @@ def _pump(r: _Reader, data: dict[str, Any], where: str = "pump") -> Pump | None:
     rating = r.quantity(data, "pressure_rating", where, "pressure", positive=True)
     stages = _whole(r, data, where, "stages", 1, 30)
     impeller = r.text(data, "impeller", where, "single_suction", IMPELLERS)
+    trim = r.quantity(data, "trim", where, "dimensionless", fraction=True)
+    if trim is not None and curve is None:
+        r.problem(f"{where}.trim", "A trim moves the pump curve: give the curve as well.")
     if elevation is None:
         return None
     return Pump(
         stages=stages,
         impeller=impeller,
+        trim=trim,
         pressure_rating=rating,
         count=count or Given(1.0, "", f"{where}.count"),
         standby=standby or Given(0.0, "", f"{where}.standby"),

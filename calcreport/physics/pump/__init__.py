@@ -6,6 +6,8 @@ Speed
     affinity_flow, affinity_head, specific_speed, lift_speed
 Operating point
     operating_point, solved_flow, head_balance
+Impeller trim
+    trimmed_flow, trimmed_head
 Several pumps
     pumps_running, per_pump_flow, series_head
 NPSH
@@ -44,6 +46,7 @@ from calcreport.physics.pump.speed import (
     solved_speed,
     specific_speed,
 )
+from calcreport.physics.pump.trim import trimmed_flow, trimmed_head
 
 __all__ = [
     "affinity_flow",
@@ -72,4 +75,6 @@ __all__ = [
     "temperature_rise",
     "thermal_flow",
     "throttling_loss",
+    "trimmed_flow",
+    "trimmed_head",
 ]
