@@ -86,3 +86,39 @@ def system(segments: int, segment_length: float = 60.0) -> str:
 if __name__ == "__main__":
     count = int(sys.argv[1])
     Path(sys.argv[2]).write_text(system(count), encoding="utf-8")
+
+
+EXAMPLE = Path(__file__).resolve().parent.parent / "input_examples" / "pump_offers.toml"
+_SIZES = ("4", "5", "6", "8", "10", "12", "14", "16")
+
+
+def design() -> str:
+    """The offers example's system with no study: the single design a study is timed against
+    (a three-point variable-speed profile)."""
+    text = EXAMPLE.read_text(encoding="utf-8")
+    head, _, rest = text.partition("\n[study]")
+    return head + "\n[surge]" + rest.partition("\n[surge]")[2]
+
+
+def study(candidates: int = 10, sizes: int = 8) -> str:
+    """That design with ``candidates`` offers (the [pump] curve scaled in flow and head)
+    and ``sizes`` sizes of its discharge main."""
+    parts = [design(), "\n[study]\n"]
+    for n in range(candidates):
+        q, h = 0.9 + 0.04 * n, 0.97 + 0.02 * n  # from a small pump to a large one
+        flows = ", ".join(f"{v * q:.3f}" for v in (0, 10, 20, 30, 40, 50))
+        heads = ", ".join(f"{v * h:.3f}" for v in (36.0, 35.4, 33.6, 30.4, 25.8, 19.6))
+        parts.append(
+            f'\n[[study.candidate]]\nid = "K{n + 1}"\ncapital_cost = {9000 + 1200 * n}\n'
+            f'[study.candidate.curve]\nspeed = "1480 rpm"\n'
+            f'flow = {{ unit = "L/s", values = [{flows}] }}\n'
+            f'head = {{ unit = "m", values = [{heads}] }}\n'
+            "efficiency = [0.0, 0.52, 0.72, 0.80, 0.78, 0.66]\n"
+            'npsh_required = { unit = "m", values = [1.6, 1.8, 2.3, 3.1, 4.3, 6.0] }\n'
+        )
+    rows = ",\n".join(
+        f'  {{ nominal_size = "{s}", schedule = "40", cost_per_length = {60 + 25 * i} }}'
+        for i, s in enumerate(_SIZES[:sizes])
+    )
+    parts.append(f'\n[[study.pipe_size]]\npipes = ["D1", "D2"]\nsizes = [\n{rows},\n]\n')
+    return "".join(parts)

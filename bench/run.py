@@ -22,7 +22,7 @@ HERE = Path(__file__).resolve().parent
 ROOT = HERE.parent
 sys.path.insert(0, str(HERE))
 
-from generate import system  # noqa: E402
+from generate import design, study, system  # noqa: E402
 
 DEMO = ROOT / "input_examples" / "reservoir_fill_si.toml"
 
@@ -47,6 +47,9 @@ def main() -> None:
     big40, big500 = work / "system40.toml", work / "system500.toml"
     big40.write_text(system(40), encoding="utf-8")
     big500.write_text(system(500), encoding="utf-8")
+    one, offers = work / "design.toml", work / "study.toml"
+    one.write_text(design(), encoding="utf-8")
+    offers.write_text(study(10, 8), encoding="utf-8")
     py = sys.executable
     rows = {
         "floor": ([py, str(HERE / "floor.py"), str(work / "floor.pdf")], None),
@@ -54,6 +57,8 @@ def main() -> None:
         "solve --json demo": ([py, "-m", "calcreport", "solve", str(DEMO), "--json"], 0.7),
         "build 40 pipes": ([py, "-m", "calcreport", "build", str(big40), "-o", str(work)], 4.0),
         "solve --json 500 pipes": ([py, "-m", "calcreport", "solve", str(big500), "--json"], 1.0),
+        "solve --json design": ([py, "-m", "calcreport", "solve", str(one), "--json"], None),
+        "solve --json study 10x8": ([py, "-m", "calcreport", "solve", str(offers), "--json"], None),
     }
     times: dict[str, list[float]] = {name: [] for name in rows}
     memory: dict[str, list[float]] = {name: [] for name in rows}
@@ -80,6 +85,13 @@ def main() -> None:
     demo_mem = statistics.median(memory["build demo"]) / floor_mem
     print(f"{'peak memory, demo build':<24}{'':>10}{'':>16}{demo_mem:>8.2f}{'≤2':>8}")
     failed |= demo_mem > 2.0
+    # A study of 10 offers and 8 main sizes against the one design it studies (not the floor).
+    alone = statistics.median(times["solve --json study 10x8"]) / statistics.median(
+        times["solve --json design"]
+    )
+    print(f"{'study 10x8 / design':<24}{'':>10}{'':>16}{alone:>8.2f}{'≤2':>8}"
+          f"{'' if alone <= 2.0 else '            OVER'}")  # fmt: skip
+    failed |= alone > 2.0
     print(
         f"\n{args.runs} interleaved rounds; ratios are to the floor's median "
         f"({floor:.3f} s, {floor_mem:.0f} MiB)."

@@ -61,10 +61,11 @@ def solve(model: Model, progress: Any = None) -> Trace:
     return _solve_design(model)
 
 
-def _solve_design(model: Model, study: Any = None) -> Trace:
+def _solve_design(model: Model, study: Any = None, texts: bool = True) -> Trace:
     """The trace of the one design ``model`` describes; ``study(b, results)``, when given,
-    adds the candidates' study to it (its steps and ``results.study``)."""
-    b = TraceBuilder()
+    adds the candidates' study to it (its steps and ``results.study``); without ``texts``
+    its steps carry no printed lines (a study's alternative, read for its results)."""
+    b = TraceBuilder(texts)
     notes = Notes()
     _record_inputs(b, model)
     b.assume("Velocity at the source and destination liquid surfaces is zero (large vessels).")

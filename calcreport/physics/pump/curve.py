@@ -5,6 +5,7 @@ the curve's highest head and the efficiency of a tested point.
 
 from __future__ import annotations
 
+import bisect
 import math
 from collections.abc import Callable
 from functools import lru_cache
@@ -89,6 +90,8 @@ def monotone_cubic(x: Any, y: Any, xq: Any) -> Any:
        monotone piecewise cubic interpolants", SIAM J. Sci. Stat. Comput.
        5 (2), 300-304, 1984.
     """
+    if isinstance(xq, float | int) and not isinstance(xq, bool):
+        return _at(tuple(map(float, x)), tuple(map(float, y)), float(xq))
     xa = np.asarray(x, dtype=float)
     ya = np.asarray(y, dtype=float)
     q = np.asarray(xq, dtype=float)
@@ -110,6 +113,27 @@ def monotone_cubic(x: Any, y: Any, xq: Any) -> Any:
     h11 = t**2 * (t - 1)
     out = h00 * ya[k] + h10 * h * d[k] + h01 * ya[k + 1] + h11 * h * d[k + 1]
     return float(out) if out.ndim == 0 else out
+
+
+def _at(x: tuple[float, ...], y: tuple[float, ...], q: float) -> float:
+    """:func:`monotone_cubic` at one flow, in plain floats (a root finder's many calls);
+    the same arithmetic as the array form, so the same value to the last bit."""
+    tolerance = 1e-12 * (x[-1] - x[0])
+    if q < x[0] - tolerance or q > x[-1] + tolerance:
+        raise ValueError(
+            f"{q:.6g}..{q:.6g} lies outside the curve data {x[0]:.6g}..{x[-1]:.6g}; curves "
+            "are not extrapolated"
+        )
+    q = min(max(q, x[0]), x[-1])
+    d = _cached_slopes(np.asarray(x).tobytes(), np.asarray(y).tobytes())
+    k = min(max(bisect.bisect_right(x, q) - 1, 0), len(x) - 2)
+    h = x[k + 1] - x[k]
+    t = (q - x[k]) / h
+    h00 = (1 + 2 * t) * (1 - t) ** 2
+    h10 = t * (1 - t) ** 2
+    h01 = t**2 * (3 - 2 * t)
+    h11 = t**2 * (t - 1)
+    return float(h00 * y[k] + h10 * h * d[k] + h01 * y[k + 1] + h11 * h * d[k + 1])
 
 
 def _curve_sub(label: str, unit: str) -> Callable[..., str]:
@@ -264,6 +288,12 @@ def best_efficiency_point(flow: Any, efficiency: Any) -> tuple[float, float]:
     The maximum of the monotone cubic lies at a data point or inside one
     interval; it is found on a fine grid refined by golden-section search.
     """
+    return _bep(tuple(map(float, flow)), tuple(map(float, efficiency)))
+
+
+@lru_cache(maxsize=256)
+def _bep(flow: tuple[float, ...], efficiency: tuple[float, ...]) -> tuple[float, float]:
+    """:func:`best_efficiency_point` of one curve (a solve asks for it several times)."""
     q = np.linspace(flow[0], flow[-1], 801)
     k = int(np.argmax(monotone_cubic(flow, efficiency, q)))
     lo, hi = q[max(k - 1, 0)], q[min(k + 1, len(q) - 1)]
