@@ -45,26 +45,34 @@ class _Offer:
     life_cycle_cost: float | None
 
 
-def _offer(model: Model, candidate: Candidate, trace: Trace) -> _Offer:
+def _verdict(trace: Trace) -> tuple[str, tuple[str, ...], tuple[str, ...]]:
+    """An alternative's status (fail when a check fails or no operating point exists, review
+    when one asks for review, else pass), its failing and its review check ids."""
     fails = tuple(sorted({c.id for c in trace.checks if c.status == "fail"}))
     reviews = tuple(sorted({c.id for c in trace.checks if c.status == "review"}))
     infeasible = trace.status["value"] == "not feasible"
-    status = "fail" if fails or infeasible else "review" if reviews else "pass"
     if infeasible and "operating_point" not in fails:
         fails = ("operating_point", *fails)
+    return ("fail" if fails else "review" if reviews else "pass"), fails, reviews
+
+
+def _costs(
+    model: Model, trace: Trace, capital: float, upkeep: float
+) -> tuple[float | None, float | None]:
+    """An alternative's annual energy cost (its own calculation's) and life-cycle cost."""
     cost = trace.results.get("energy", {}).get("annual_cost")
     energy = None if cost is None else float(cost["value"])
     op = model.operation
-    lcc = None
-    if energy is not None and op.discount_rate is not None and op.life_years is not None:
-        upkeep = candidate.annual_maintenance.value if candidate.annual_maintenance else 0.0
-        lcc = power.life_cycle_cost(
-            candidate.capital_cost.value,
-            energy,
-            upkeep,
-            op.discount_rate.value,
-            op.life_years.value,
-        )
+    if energy is None or op.discount_rate is None or op.life_years is None:
+        return energy, None
+    rate, years = op.discount_rate.value, op.life_years.value
+    return energy, power.life_cycle_cost(capital, energy, upkeep, rate, years)
+
+
+def _offer(model: Model, candidate: Candidate, trace: Trace) -> _Offer:
+    status, fails, reviews = _verdict(trace)
+    upkeep = candidate.annual_maintenance.value if candidate.annual_maintenance else 0.0
+    energy, lcc = _costs(model, trace, candidate.capital_cost.value, upkeep)
     return _Offer(candidate, trace, status, fails, reviews, energy, lcc)
 
 
@@ -175,21 +183,10 @@ def _sized(
         for p in design.pipes
     )
     trace = solve_design(f"{', '.join(group.pipes)} at {size.label}", replace(design, pipes=pipes))
-    fails = tuple(sorted({c.id for c in trace.checks if c.status == "fail"}))
-    reviews = tuple(sorted({c.id for c in trace.checks if c.status == "review"}))
-    status = "fail" if fails or trace.status["value"] == "not feasible" else (
-        "review" if reviews else "pass"
-    )  # fmt: skip
+    status, fails, reviews = _verdict(trace)
     length = sum(p.length.value for p in design.pipes if p.id in group.pipes)
     capital = power.length_cost(size.cost_per_length.value, [length])
-    cost = trace.results.get("energy", {}).get("annual_cost")
-    energy = None if cost is None else float(cost["value"])
-    op = design.operation
-    lcc = (
-        power.life_cycle_cost(capital, energy, 0.0, op.discount_rate.value, op.life_years.value)
-        if energy is not None and op.discount_rate is not None and op.life_years is not None
-        else None
-    )
+    energy, lcc = _costs(design, trace, capital, 0.0)
     # The design's own size, its bore as entered (a catalog bore rounded to 0.1 mm).
     as_designed = all(
         abs(p.inner_diameter.value - size.inner_diameter.value) <= 1e-3 * p.inner_diameter.value

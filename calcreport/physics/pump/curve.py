@@ -105,14 +105,19 @@ def monotone_cubic(x: Any, y: Any, xq: Any) -> Any:
     q = np.clip(q, xa[0], xa[-1])
     d = _cached_slopes(xa.tobytes(), ya.tobytes())
     k = np.clip(np.searchsorted(xa, q, side="right") - 1, 0, len(xa) - 2)
-    h = xa[k + 1] - xa[k]
-    t = (q - xa[k]) / h
+    out = _hermite(q, xa[k], xa[k + 1], ya[k], ya[k + 1], d[k], d[k + 1])
+    return float(out) if out.ndim == 0 else out
+
+
+def _hermite(q: Any, x0: Any, x1: Any, y0: Any, y1: Any, d0: Any, d1: Any) -> Any:
+    """The cubic Hermite interpolant on [x0, x1] at q (floats or arrays alike)."""
+    h = x1 - x0
+    t = (q - x0) / h
     h00 = (1 + 2 * t) * (1 - t) ** 2
     h10 = t * (1 - t) ** 2
     h01 = t**2 * (3 - 2 * t)
     h11 = t**2 * (t - 1)
-    out = h00 * ya[k] + h10 * h * d[k] + h01 * ya[k + 1] + h11 * h * d[k + 1]
-    return float(out) if out.ndim == 0 else out
+    return h00 * y0 + h10 * h * d0 + h01 * y1 + h11 * h * d1
 
 
 def _at(x: tuple[float, ...], y: tuple[float, ...], q: float) -> float:
@@ -127,13 +132,7 @@ def _at(x: tuple[float, ...], y: tuple[float, ...], q: float) -> float:
     q = min(max(q, x[0]), x[-1])
     d = _cached_slopes(np.asarray(x).tobytes(), np.asarray(y).tobytes())
     k = min(max(bisect.bisect_right(x, q) - 1, 0), len(x) - 2)
-    h = x[k + 1] - x[k]
-    t = (q - x[k]) / h
-    h00 = (1 + 2 * t) * (1 - t) ** 2
-    h10 = t * (1 - t) ** 2
-    h01 = t**2 * (3 - 2 * t)
-    h11 = t**2 * (t - 1)
-    return float(h00 * y[k] + h10 * h * d[k] + h01 * y[k + 1] + h11 * h * d[k + 1])
+    return float(_hermite(q, x[k], x[k + 1], y[k], y[k + 1], float(d[k]), float(d[k + 1])))
 
 
 def _curve_sub(label: str, unit: str) -> Callable[..., str]:
