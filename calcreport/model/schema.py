@@ -240,6 +240,7 @@ class Sensitivity:
     temperature: tuple[Given, Given] | None = None  # coldest, warmest
     levels: bool = False  # the static head from lowest to highest, by the level ranges
     pump_grade: str = ""  # an ISO 9906 grade: curve head and efficiency within it
+    fitting_k: Given | None = None  # every fitting's K low and high by this fraction
 
 
 @dataclass(frozen=True)

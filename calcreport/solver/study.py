@@ -17,7 +17,15 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from calcreport import catalog
-from calcreport.model.schema import Candidate, Given, Model, PipeSize, Sensitivity, SizeStudy
+from calcreport.model.schema import (
+    Candidate,
+    Fitting,
+    Given,
+    Model,
+    PipeSize,
+    Sensitivity,
+    SizeStudy,
+)
 from calcreport.physics import power
 from calcreport.trace import Trace, TraceBuilder, quantity
 from calcreport.trace import bound as _q
@@ -453,6 +461,23 @@ def _uncertainties(
 
         out.append(("levels", "Static head (levels)", "least (source high, destination low)",
                     "most (source low, destination high)", levels))  # fmt: skip
+    if s.fitting_k is not None:
+        spread = s.fitting_k.value
+
+        def resistance(m: Model, side: str) -> Model:
+            # Each fitting's K (its count × K in ΣK) up or down; a rated loss stays.
+            factor = 1.0 - spread if side == "low" else 1.0 + spread
+
+            def scaled(f: Fitting) -> Fitting:
+                if f.dp is not None:
+                    return f
+                return replace(f, count=replace(f.count, value=f.count.value * factor))
+
+            pipes = tuple(replace(p, fittings=tuple(map(scaled, p.fittings))) for p in m.pipes)
+            return replace(m, pipes=pipes)
+
+        label = "Fitting K values"
+        out.append(("fitting_k", label, f"−{spread:.0%}", f"+{spread:.0%}", resistance))
     if s.pump_grade:
         grade = catalog.iso_9906_grades()[s.pump_grade]
 

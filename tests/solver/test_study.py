@@ -43,8 +43,8 @@ def test_the_cheaper_offer_that_fails_npsh_ranks_after_those_that_pass(study):
     # A costs least over the life but cavitates at a state it runs in.
     assert a["life_cycle_cost"]["value"] < b["life_cycle_cost"]["value"]
     assert a["status"] == "fail" and "npsh_margin" in a["failing"]
-    assert [o["id"] for o in trace.results["study"]["candidates"]] == ["B", "C", "A"]
-    assert b["rank"] == 1 and c["rank"] == 2 and a["rank"] == 3
+    assert [o["id"] for o in trace.results["study"]["candidates"]] == ["B", "C", "D", "A"]
+    assert b["rank"] == 1 and c["rank"] == 2 and a["rank"] == 4
     assert b["life_cycle_cost"]["value"] < c["life_cycle_cost"]["value"]
     assert trace.results["study"]["selected"] == "B"
     assert trace.results["study"]["selected_by"] == "rank"
@@ -81,7 +81,7 @@ def test_the_selected_offer_gets_the_full_calculation_and_recheck_confirms_it(st
 
 
 def test_the_offer_named_in_the_input_is_calculated_whatever_its_rank():
-    text = OFFERS.read_text(encoding="utf-8").replace('# selected = "B"', 'selected = "C"')
+    text = OFFERS.read_text(encoding="utf-8").replace('# selected = "D"', 'selected = "C"')
     trace = solve(loads(text.encode(), path=str(OFFERS)))
     study = trace.results["study"]
     assert study["selected"] == "C" and study["selected_by"] == "input"
@@ -92,7 +92,7 @@ def test_the_offer_named_in_the_input_is_calculated_whatever_its_rank():
 
 def test_bad_study_input_names_every_key_and_writes_nothing(tmp_path, capsys):
     text = OFFERS.read_text(encoding="utf-8")
-    text = text.replace('id = "C"', 'id = "B"').replace('# selected = "B"', 'selected = "Z"')
+    text = text.replace('id = "C"', 'id = "B"').replace('# selected = "D"', 'selected = "Z"')
     text = text.replace("discount_rate = 0.06\n", "").replace("life_years = 15\n", "")
     source = tmp_path / "bad.toml"
     source.write_text(text, encoding="utf-8")
@@ -158,9 +158,9 @@ def test_the_study_command_writes_the_report_and_the_table(tmp_path, capsys):
     rows = list(csv.DictReader(table.splitlines()))
     offers = [r for r in rows if r["kind"] == "offer"]
     sizes = [r for r in rows if r["kind"] == "pipe size"]
-    assert [r["id or size"] for r in offers] == ["B", "C", "A"]
+    assert [r["id or size"] for r in offers] == ["B", "C", "D", "A"]
     assert offers[0]["selected or as designed"] == "selected"
-    assert offers[2]["failing"] == "npsh_margin"
+    assert offers[3]["failing"] == "npsh_margin"
     assert len(sizes) == 4 and [r["rank"] for r in sizes].count("lowest") == 1
     for name in ("pump_offers.pdf", "pump_offers.trace.json", "pump_offers.pages.json"):
         assert (tmp_path / name).is_file()
@@ -176,10 +176,10 @@ def test_the_study_command_refuses_an_input_with_nothing_to_compare(tmp_path, ca
 def test_a_study_tells_each_calculation_as_it_starts():
     heard: list[str] = []
     solve(load(str(OFFERS)), heard.append)
-    # Three offers, four sizes, four uncertainties low and high, the selected design: 16.
-    assert heard[0] == "solving offer A (1 of 16)"
-    assert heard[-1] == "solving the selected design (16 of 16)"
-    assert "solving Liquid temperature, low (10 of 16)" in heard
+    # Four offers, four sizes, five uncertainties low and high, the selected design: 19.
+    assert heard[0] == "solving offer A (1 of 19)"
+    assert heard[-1] == "solving the selected design (19 of 19)"
+    assert "solving Liquid temperature, low (11 of 19)" in heard
     assert any(h.startswith("solving D1, D2 at NPS/DN 8, 40") for h in heard)
 
 
@@ -263,3 +263,33 @@ def test_a_trimmed_offer_follows_the_affinity_relation_for_diameter(study):
     cut = solve(replace(model, pump=deep, study=None))
     assert next(c for c in cut.checks if c.id == "impeller_trim").status == "review"
     assert recheck(own.to_json()).ok
+
+
+def test_the_fitting_k_uncertainty_scales_every_minor_loss_and_no_rated_one(study):
+    model, trace = study
+    row = next(r for r in trace.results["study"]["sensitivity"] if r["parameter"] == "fitting_k")
+    design = _design(model)
+    # By hand: every K up 20 % (count × K in ΣK), the heat exchanger's rated loss as it is.
+    high = replace(design, pipes=tuple(
+        replace(p, fittings=tuple(
+            f if f.dp is not None else replace(f, count=replace(f.count, value=f.count.value * 1.2))
+            for f in p.fittings))
+        for p in design.pipes))  # fmt: skip
+    alone = solve(high)
+    tdh = row["effects"]["total_dynamic_head"]["high"]["value"]
+    assert tdh == pytest.approx(alone.results["total_dynamic_head"]["value"], rel=1e-12)
+    minor = sum(p["minor_loss"]["value"] for p in alone.results["pipes"].values())
+    base = sum(p["minor_loss"]["value"] for p in trace.results["pipes"].values())
+    assert minor > base  # the fittings' share grew
+
+
+def test_an_offer_of_pumps_in_parallel_is_staged_over_the_profile_when_selected():
+    text = OFFERS.read_text(encoding="utf-8").replace('# selected = "D"', 'selected = "D"')
+    trace = solve(loads(text.encode(), path=str(OFFERS)))
+    assert trace.results["study"]["selected"] == "D"
+    staging = trace.results["staging"]
+    assert [p["point"] for p in staging["points"]] == ["P1", "P2", "P3"]
+    # Each point's counts were screened; the staged energy is never above the fixed count's.
+    assert all(p["feasible"] for p in staging["points"])
+    assert staging["energy_staged"]["value"] <= staging["energy_fixed"]["value"]
+    assert recheck(trace.to_json()).ok

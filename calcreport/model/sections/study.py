@@ -29,7 +29,7 @@ from calcreport.units import as_written
 MAX_CANDIDATES = 10
 MAX_SIZES = 12
 _STUDY_KEYS = {"candidate", "selected", "pipe_size", "sensitivity"}
-_SENSITIVITY_KEYS = {"roughness", "temperature", "levels", "pump_grade"}
+_SENSITIVITY_KEYS = {"roughness", "temperature", "levels", "pump_grade", "fitting_k"}
 _SIZE_KEYS = {"nominal_size", "schedule", "material", "inner_diameter", "cost_per_length"}
 _COST_KEYS = {"id", "title", "capital_cost", "annual_maintenance"}
 _ID = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_-]{0,15}$")
@@ -122,7 +122,13 @@ def _sensitivity(
         r.problem(
             f"{where}.pump_grade", "The acceptance grade moves the pump curve: give [pump.curve]."
         )
-    return Sensitivity(roughness, temperature, bool(levels), grade)
+    fitting_k = r.quantity(data, "fitting_k", where, "dimensionless", fraction=True)
+    if fitting_k is not None and fitting_k.value >= 1.0:
+        r.problem(
+            f"{where}.fitting_k",
+            "Give the uncertainty of the K values as a fraction below 1, such as 0.2.",
+        )
+    return Sensitivity(roughness, temperature, bool(levels), grade, fitting_k)
 
 
 def _needs_costs(r: _Reader, op: Operation) -> None:
