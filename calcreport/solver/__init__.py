@@ -64,7 +64,8 @@ def solve(model: Model, progress: Any = None) -> Trace:
 def _solve_design(model: Model, study: Any = None, texts: bool = True) -> Trace:
     """The trace of the one design ``model`` describes; ``study(b, results)``, when given,
     adds the candidates' study to it (its steps and ``results.study``); without ``texts``
-    its steps carry no printed lines (a study's alternative, read for its results)."""
+    its steps are evaluated but not recorded (a study's alternative, read for its results
+    and checks)."""
     b = TraceBuilder(texts)
     notes = Notes()
     _record_inputs(b, model)

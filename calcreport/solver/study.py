@@ -112,7 +112,7 @@ def solve_study(
 
     def solved(what: str, variant: Model, *hook: Any) -> Trace:
         tell(f"solving {what} ({next(done)} of {total})")
-        # An alternative is read for its results and checks: its steps need no printed line.
+        # An alternative is read for its results and checks: its steps need not be kept.
         return solve_design(variant, *hook) if hook else solve_design(variant, texts=False)
 
     offers = [
