@@ -203,12 +203,13 @@ class Pump:
 @dataclass(frozen=True)
 class Candidate:
     """A pump offered for the duty: the [pump] table with the candidate's own keys, its
-    initial cost and its annual maintenance cost (project currency)."""
+    initial cost (its price, when given) and its annual maintenance cost (project
+    currency)."""
 
     id: str
     title: str
     pump: Pump
-    capital_cost: Given
+    capital_cost: Given | None = None
     annual_maintenance: Given | None = None
 
 

@@ -69,7 +69,7 @@ def study_csv(trace: dict[str, Any]) -> str:
                 " ".join(o["review"]),
                 "selected" if o["id"] == study["selected"] else "",
                 "",
-                money(o["capital_cost"]),
+                money(o.get("capital_cost")),
                 money(o.get("annual_energy_cost")),
                 money(o.get("annual_maintenance_cost")),
                 money(o.get("life_cycle_cost")),

@@ -80,7 +80,8 @@ def _costs(
 def _offer(model: Model, candidate: Candidate, trace: Trace) -> _Offer:
     status, fails, reviews = _verdict(trace)
     upkeep = candidate.annual_maintenance.value if candidate.annual_maintenance else 0.0
-    energy, lcc = _costs(model, trace, candidate.capital_cost.value, upkeep)
+    price = candidate.capital_cost.value if candidate.capital_cost else 0.0
+    energy, lcc = _costs(model, trace, price, upkeep)
     return _Offer(candidate, trace, status, fails, reviews, energy, lcc)
 
 
@@ -308,11 +309,12 @@ def _record(
             "status": offer.status,
             "failing": list(offer.failing),
             "review": list(offer.review),
-            "capital_cost": {
+        }
+        if c.capital_cost is not None:
+            row["capital_cost"] = {
                 **quantity(c.capital_cost.value, currency),
                 "from": c.capital_cost.key,
-            },
-        }
+            }
         if c.annual_maintenance is not None:
             row["annual_maintenance_cost"] = {
                 **quantity(c.annual_maintenance.value, currency),
@@ -341,11 +343,20 @@ def _record(
                     f"Candidate {c.id}: no annual maintenance cost given; taken as zero.", 0.0
                 )
             )
+            price = (
+                b.input(c.capital_cost)
+                if c.capital_cost is not None
+                else b.assume(
+                    f"Candidate {c.id}: no price given; its initial cost is taken as zero "
+                    "(the offers compared on their running costs).",
+                    0.0,
+                )
+            )
             lcc = b.step(
                 f"study.{c.id}.life_cycle_cost",
                 f"Life-cycle cost of candidate {c.id}",
                 power.life_cycle_cost,
-                capital=b.input(c.capital_cost),
+                capital=price,
                 energy=energy,
                 maintenance=upkeep,
                 rate=op.discount_rate,

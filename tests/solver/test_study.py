@@ -293,3 +293,15 @@ def test_an_offer_of_pumps_in_parallel_is_staged_over_the_profile_when_selected(
     assert all(p["feasible"] for p in staging["points"])
     assert staging["energy_staged"]["value"] <= staging["energy_fixed"]["value"]
     assert recheck(trace.to_json()).ok
+
+
+def test_an_offer_without_a_price_is_costed_on_its_running_costs():
+    text = OFFERS.read_text(encoding="utf-8").replace("capital_cost = 21500\n", "")
+    trace = solve(loads(text.encode(), path=str(OFFERS)))
+    c = next(o for o in trace.results["study"]["candidates"] if o["id"] == "C")
+    assert "capital_cost" not in c
+    factor = sum(1 / 1.06**k for k in range(1, 16))  # 6 % over 15 years, year by year
+    running = c["annual_energy_cost"]["value"] + c["annual_maintenance_cost"]["value"]
+    assert c["life_cycle_cost"]["value"] == pytest.approx(running * factor, rel=1e-12)
+    assert any("no price given" in a["text"] for a in trace.assumptions)
+    assert recheck(trace.to_json()).ok

@@ -160,8 +160,8 @@ def _candidates(
     if not isinstance(rows, list) or not rows or not all(isinstance(x, dict) for x in rows):
         r.problem(
             "study.candidate",
-            "Give each pump offered as a [[study.candidate]] table with its id, "
-            "capital_cost and the [pump] keys it changes (its curve, speed, count...).",
+            "Give each pump offered as a [[study.candidate]] table with its id, its "
+            "capital_cost (price) and the [pump] keys it changes (its curve, speed, count...).",
         )
         return ()
     if len(rows) > MAX_CANDIDATES:
@@ -182,7 +182,7 @@ def _candidates(
             r.problem(f"{where}.id", f'The id "{ident}" is given to two candidates.')
         seen.add(ident)
         title = r.text(row, "title", where, "")
-        capital = r.quantity(row, "capital_cost", where, "dimensionless", required=True)
+        capital = r.quantity(row, "capital_cost", where, "dimensionless")
         upkeep = r.quantity(row, "annual_maintenance", where, "dimensionless")
         for key, cost in (("capital_cost", capital), ("annual_maintenance", upkeep)):
             if cost is not None and cost.value < 0.0:
@@ -190,7 +190,7 @@ def _candidates(
         own = {key: value for key, value in row.items() if key not in _COST_KEYS}
         merged = {k: v for k, v in pump_data.items() if k not in own} | own
         pump = _pump(r, merged, where)
-        if pump is None or capital is None:
+        if pump is None:
             continue
         # What the candidate does not set is the [pump] table's, named as it was entered.
         carried = {

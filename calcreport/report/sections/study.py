@@ -260,7 +260,7 @@ class StudySection:
                     f"<b>{text(o['id'])}</b> {text(o['title'])}",
                     o["status"].upper(),
                     checks or "—",
-                    self._money(o["capital_cost"]),
+                    self._money(o.get("capital_cost")),
                     self._money(o.get("annual_energy_cost")),
                     self._money(o.get("annual_maintenance_cost")),
                     self.link(lcc["from"], self._money(lcc)) if lcc else "—",
