@@ -211,6 +211,7 @@ class Candidate:
     pump: Pump
     capital_cost: Given | None = None
     annual_maintenance: Given | None = None
+    drive_efficiency: Given | None = None  # its own variable-speed drive (else [drive]'s)
 
 
 @dataclass(frozen=True)

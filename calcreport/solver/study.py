@@ -53,6 +53,12 @@ class _Offer:
     life_cycle_cost: float | None
 
 
+def _with_offer(model: Model, offer: Candidate) -> Model:
+    """The design with the offer's pump (and its own drive, where it has one)."""
+    drive = offer.drive_efficiency or model.drive_efficiency
+    return replace(model, pump=offer.pump, drive_efficiency=drive, study=None)
+
+
 def _verdict(trace: Trace) -> tuple[str, tuple[str, ...], tuple[str, ...]]:
     """An alternative's status (fail when a check fails or no operating point exists, review
     when one asks for review, else pass), its failing and its review check ids."""
@@ -117,13 +123,12 @@ def solve_study(
         return solve_design(variant, *hook) if hook else solve_design(variant, texts=False)
 
     offers = [
-        _offer(model, c, solved(f"offer {c.id}", replace(model, pump=c.pump, study=None)))
-        for c in study.candidates
+        _offer(model, c, solved(f"offer {c.id}", _with_offer(model, c))) for c in study.candidates
     ]
     ranked = _rank(offers)
     by_id = {o.candidate.id: o for o in offers}
     chosen = (by_id[study.selected] if study.selected else ranked[0]) if offers else None
-    design = replace(model, pump=chosen.candidate.pump if chosen else model.pump, study=None)
+    design = _with_offer(model, chosen.candidate) if chosen else replace(model, study=None)
     sized = [
         [_sized(design, n, group, k, size, solved) for k, size in enumerate(group.sizes, 1)]
         for n, group in enumerate(study.pipe_sizes, 1)

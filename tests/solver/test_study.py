@@ -305,3 +305,15 @@ def test_an_offer_without_a_price_is_costed_on_its_running_costs():
     assert c["life_cycle_cost"]["value"] == pytest.approx(running * factor, rel=1e-12)
     assert any("no price given" in a["text"] for a in trace.assumptions)
     assert recheck(trace.to_json()).ok
+
+
+def test_an_offer_with_its_own_drive_is_costed_with_it():
+    base = OFFERS.read_text(encoding="utf-8")
+    own = base.replace("capital_cost = 14200\n", "capital_cost = 14200\ndrive_efficiency = 0.95\n")
+    model = loads(own.encode(), path=str(OFFERS))
+    trace = solve(replace(model, study=replace(model.study, selected="B")))
+    plain = solve(loads(base.encode(), path=str(OFFERS)))
+    # P_e = P_s / (η_motor · η_drive): the offer's drive 0.95 against [drive]'s 0.965.
+    ratio = trace.results["electrical_power"]["value"] / plain.results["electrical_power"]["value"]
+    assert ratio == pytest.approx(0.965 / 0.95, rel=1e-9)
+    assert trace.results["shaft_power"]["value"] == plain.results["shaft_power"]["value"]

@@ -31,7 +31,7 @@ MAX_SIZES = 12
 _STUDY_KEYS = {"candidate", "selected", "pipe_size", "sensitivity"}
 _SENSITIVITY_KEYS = {"roughness", "temperature", "levels", "pump_grade", "fitting_k"}
 _SIZE_KEYS = {"nominal_size", "schedule", "material", "inner_diameter", "cost_per_length"}
-_COST_KEYS = {"id", "title", "capital_cost", "annual_maintenance"}
+_COST_KEYS = {"id", "title", "capital_cost", "annual_maintenance", "drive_efficiency"}
 _ID = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_-]{0,15}$")
 # The input key of each pump field a candidate may set (the rest carry over from [pump]).
 _FIELD_KEYS = {f.name: (f.name,) for f in fields(Pump)} | {"provenance": _PROVENANCE_KEYS}
@@ -184,6 +184,7 @@ def _candidates(
         title = r.text(row, "title", where, "")
         capital = r.quantity(row, "capital_cost", where, "dimensionless")
         upkeep = r.quantity(row, "annual_maintenance", where, "dimensionless")
+        drive = r.quantity(row, "drive_efficiency", where, "dimensionless", fraction=True)
         for key, cost in (("capital_cost", capital), ("annual_maintenance", upkeep)):
             if cost is not None and cost.value < 0.0:
                 r.problem(f"{where}.{key}", "A cost cannot be negative.")
@@ -198,7 +199,7 @@ def _candidates(
             for name, keys in _FIELD_KEYS.items()
             if not any(key in own for key in keys)
         }
-        candidates.append(Candidate(ident, title, replace(pump, **carried), capital, upkeep))
+        candidates.append(Candidate(ident, title, replace(pump, **carried), capital, upkeep, drive))
     return tuple(candidates)
 
 
