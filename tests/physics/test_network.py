@@ -55,8 +55,9 @@ def test_two_tanks_and_a_demand_against_an_independent_solution():
 
 
 def test_the_three_reservoir_junction():
-    # The classic three-reservoir problem (White, Fluid Mechanics, sec. 6.9: reservoirs at
-    # 30, 18 and 9 m joined at one junction): which way each pipe flows is an outcome.
+    # The classic three-reservoir problem (as posed in White, Fluid Mechanics, 7th ed.,
+    # sec. 6.9, from memory), with values of our own: reservoirs at 30, 18 and 9 m joined at
+    # one junction; which way each pipe flows is an outcome.
     heads = {1: 30.0, 2: 18.0, 3: 9.0}
     pipes = [(1000.0, 0.3, 2.6e-4, 0.0), (1500.0, 0.25, 2.6e-4, 0.0), (2000.0, 0.2, 2.6e-4, 0.0)]
     loss = darcy_links(*zip(*pipes, strict=True), RHO, MU)
