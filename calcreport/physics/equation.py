@@ -221,6 +221,8 @@ class Writer:
         elif self.display and unit in KIND_OF_SI_UNIT:
             shown = display_unit(KIND_OF_SI_UNIT[unit], "US")
             value, printed = to_display(value, unit, shown), pretty_unit(shown)
+            if unit == "Pa":  # a state's pressure is absolute (a liquid's, a correlation's)
+                printed += "a"
         else:
             printed, size = coherent_us(unit)
             value = value / size
