@@ -317,3 +317,17 @@ def test_an_offer_with_its_own_drive_is_costed_with_it():
     ratio = trace.results["electrical_power"]["value"] / plain.results["electrical_power"]["value"]
     assert ratio == pytest.approx(0.965 / 0.95, rel=1e-9)
     assert trace.results["shaft_power"]["value"] == plain.results["shaft_power"]["value"]
+
+
+def test_an_empty_sensitivity_table_is_refused(tmp_path, capsys):
+    import re
+
+    text = re.sub(
+        r"\[study\.sensitivity\]\n(?:[a-z_]+ = .*\n)+",
+        "[study.sensitivity]\n",
+        OFFERS.read_text(encoding="utf-8"),
+    )
+    source = tmp_path / "empty.toml"
+    source.write_text(text, encoding="utf-8")
+    assert main(["check", str(source)]) == 2
+    assert "study.sensitivity" in capsys.readouterr().err

@@ -73,7 +73,8 @@ def _study(
     sensitivity = None
     if "sensitivity" in data:
         table = r.table(data, "sensitivity", "study.sensitivity", required=True)
-        sensitivity = _sensitivity(r, table, base, source, destination) if table else None
+        if table is not None:  # an empty table is a problem of its own
+            sensitivity = _sensitivity(r, table, base, source, destination)
     if r.count("study"):
         return None
     return Study(tuple(candidates), selected, sizes, sensitivity)
