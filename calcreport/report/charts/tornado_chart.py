@@ -24,22 +24,24 @@ def _draw_tornado(trace: dict[str, Any]) -> tuple[Any, str]:
     grid = fig.subplots((len(panels) + 1) // 2, 2, squeeze=False)
     for ax in grid.flat[len(panels) :]:
         ax.set_visible(False)
-    for ax, (key, title) in zip(grid.flat, panels, strict=False):
+
+    def spread(row: dict[str, Any]) -> float:
+        """The widest change an uncertainty makes to any result: the bars' common order."""
+        return max(abs(e["high_change"] - e["low_change"]) for e in row["effects"].values())
+
+    shown = sorted(rows, key=spread)  # the widest at the top, in every panel alike
+    for n, (ax, (key, title)) in enumerate(zip(grid.flat, panels, strict=False)):
         _style_axes(ax, grid="x")
-        shown = sorted(
-            (row for row in rows if key in row["effects"]),
-            key=lambda row: abs(
-                row["effects"][key]["high_change"] - row["effects"][key]["low_change"]
-            ),
-        )
         for y, row in enumerate(shown):
-            low = 100.0 * row["effects"][key]["low_change"]
-            high = 100.0 * row["effects"][key]["high_change"]
-            ax.barh(y, low, color=BLUE, height=0.6)
-            ax.barh(y, high, color=RUST, height=0.6)
-        ax.set_yticks(range(len(shown)), [row["label"] for row in shown])
+            effect = row["effects"].get(key)
+            if effect is not None:
+                ax.barh(y, 100.0 * effect["low_change"], color=BLUE, height=0.6)
+                ax.barh(y, 100.0 * effect["high_change"], color=RUST, height=0.6)
+        # The uncertainties named once a row of panels, at its left.
+        ax.set_yticks(range(len(shown)), [r["label"] if n % 2 == 0 else "" for r in shown])
         ax.axvline(0.0, color=INK, lw=0.8)
         span = max([abs(100.0 * row["effects"][key][side]) for row in shown
+                    if key in row["effects"]
                     for side in ("low_change", "high_change")] + [0.5])  # fmt: skip
         ax.set_xlim(-1.15 * span, 1.15 * span)
         ax.set_title(title, fontsize=8.5, loc="left")
