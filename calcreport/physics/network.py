@@ -30,7 +30,14 @@ from typing import Any
 
 import numpy as np
 
-__all__ = ["NetworkSolution", "darcy_links", "gradient_solve"]
+__all__ = [
+    "NetworkError",
+    "NetworkSolution",
+    "darcy_links",
+    "gradient_solve",
+    "joined",
+    "pump_link",
+]
 
 G = 9.80665  # m/s^2, standard gravity
 
@@ -238,5 +245,102 @@ def darcy_links(
             f[~laminar] = friction.colebrook(Re[~laminar], eD[~laminar])
         r = (f * L / D + K) / (2.0 * G * area**2)
         return r * Q * np.abs(Q), 2.0 * r * q
+
+    return head_loss
+
+
+# The loss of a closed link (a pump's or a check valve's reverse flow): a resistance so high
+# that no head difference of a real network drives a measurable flow through it (EPANET
+# treats a closed link so; Rossman 2000, Appendix D).
+CLOSED_RESISTANCE = 1e8  # s/m^2, h = CLOSED_RESISTANCE·Q
+
+
+def pump_link(
+    flows: Any, heads: Any, speed_ratio: float = 1.0
+) -> Callable[[np.ndarray], tuple[np.ndarray, np.ndarray]]:
+    r"""A pump as a link: its head gain as a negative loss, from its curve moved by the
+    affinity laws, one way only.
+
+    .. math:: h(Q) = -s^2 H_0\!\left(\frac{Q}{s}\right) \quad (Q \ge 0),\qquad
+        h(Q) = R_c\,Q - s^2 H_0(0) \quad (Q < 0)
+
+    with s = n/n0 and H0 the curve through its points (monotone cubic); beyond the curve's
+    last flow the gain falls on along its last slope, and a reverse flow meets a closed
+    link (the pump's check valve).
+
+    Parameters
+    ----------
+    flows : list of float
+        Curve flows at the curve's speed, from zero [m^3/s]
+    heads : list of float
+        Curve heads at those flows [m]
+    speed_ratio : float
+        Operating speed over the curve's, n/n0 [-]
+
+    Returns
+    -------
+    head_loss : callable
+        ``head_loss(Q) -> (h, dh/dQ)`` of the pump link at flows Q (a gain is negative) [m]
+
+    References
+    ----------
+    1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008 (affinity laws).
+    2. Rossman, L. A., EPANET 2 Users Manual, EPA/600/R-00/057, 2000, Appendix D (pumps
+       and closed links in the gradient method).
+    """
+    from calcreport.physics.pump.curve import monotone_cubic
+
+    q0 = np.asarray(flows, dtype=float)
+    h0 = np.asarray(heads, dtype=float)
+    s = float(speed_ratio)
+    top = q0[-1] * s
+    dq = (q0[-1] - q0[-2]) * s * 1e-3
+    end_head = s * s * h0[-1]
+    end_slope = (end_head - s * s * float(monotone_cubic(q0, h0, (top - dq) / s))) / dq
+
+    def head_loss(Q: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        Q = np.asarray(Q, dtype=float)
+        inside = np.clip(Q, 0.0, top)
+        gain = s * s * np.asarray(monotone_cubic(q0, h0, inside / s))
+        step = np.maximum(dq, 1e-12)
+        ahead = s * s * np.asarray(monotone_cubic(q0, h0, np.minimum(inside + step, top) / s))
+        behind = s * s * np.asarray(monotone_cubic(q0, h0, np.maximum(inside - step, 0.0) / s))
+        width = np.minimum(inside + step, top) - np.maximum(inside - step, 0.0)
+        slope = (ahead - behind) / np.maximum(width, 1e-15)
+        gain = np.where(Q > top, end_head + end_slope * (Q - top), gain)
+        slope = np.where(Q > top, end_slope, slope)
+        reverse = Q < 0.0
+        h = np.where(reverse, CLOSED_RESISTANCE * Q - s * s * h0[0], -gain)
+        dh = np.where(reverse, CLOSED_RESISTANCE, -slope)
+        return h, dh
+
+    return head_loss
+
+
+def joined(
+    parts: list[tuple[Any, Callable[[np.ndarray], tuple[np.ndarray, np.ndarray]]]], links: int
+) -> Callable[[np.ndarray], tuple[np.ndarray, np.ndarray]]:
+    """One ``head_loss`` for a network's links from the losses of its groups of links:
+    ``parts`` pairs the indices of a group's links with the group's own ``head_loss``.
+
+    Parameters
+    ----------
+    parts : list
+        (link indices, head_loss of those links) pairs covering every link once [-]
+    links : int
+        Number of links in the network [-]
+
+    Returns
+    -------
+    head_loss : callable
+        ``head_loss(Q) -> (h, dh/dQ)`` of every link [m]
+    """
+    groups = [(np.asarray(index, dtype=int), loss) for index, loss in parts]
+
+    def head_loss(Q: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        h, dh = np.zeros(links), np.zeros(links)
+        for index, loss in groups:
+            h[index], dh[index] = loss(Q[index])
+        return h, dh
 
     return head_loss

@@ -121,3 +121,61 @@ def test_a_junction_cut_off_from_every_head_is_refused():
         gradient_solve(3, {0: 10.0}, [1], [2], loss, [0.0, 0.0, 0.001])
     with pytest.raises(NetworkError, match="fixed head"):
         gradient_solve(2, {}, [0], [1], loss, [0.0, 0.0])
+
+
+CURVE_Q = [0.0, 0.01, 0.02, 0.03, 0.04, 0.05]  # a curve of our own, m^3/s and m
+CURVE_H = [36.0, 35.4, 33.6, 30.4, 25.8, 19.6]
+
+
+def _pchip(q, s=1.0):
+    """The pump curve by scipy's PCHIP (independent of calcreport's monotone cubic)."""
+    from scipy.interpolate import PchipInterpolator
+
+    return s * s * float(PchipInterpolator(CURVE_Q, CURVE_H)(q / s))
+
+
+def test_a_pump_between_two_tanks_runs_where_its_curve_meets_the_system():
+    from calcreport.physics.network import joined, pump_link
+
+    # Node 0: tank at 10 m; the pump lifts from it to node 1; a pipe to the tank at 30 m.
+    pipe = (250.0, 0.15, 4.5e-5, 3.0)
+    for s in (1.0, 0.9):  # at the curve's speed and at 90 % (affinity laws)
+        loss = joined([([0], pump_link(CURVE_Q, CURVE_H, s)),
+                       ([1], darcy_links(*zip(pipe, strict=True), RHO, MU))], 2)  # fmt: skip
+        sol = gradient_solve(3, {0: 10.0, 2: 30.0}, [0, 1], [1, 2], loss, [0.0] * 3)
+        Q = scipy_optimize.brentq(
+            lambda q, s=s: _pchip(q, s) - 20.0 - _loss(*pipe, q), 1e-6, 0.05 * s, xtol=1e-14
+        )
+        assert sol.flow[0] == pytest.approx(Q, rel=1e-6)
+        assert sol.head[1] == pytest.approx(10.0 + _pchip(Q, s), rel=1e-6)
+
+
+def test_two_pumps_in_parallel_share_the_flow_of_their_combined_curve():
+    from calcreport.physics.network import joined, pump_link
+
+    pipe = (400.0, 0.2, 4.5e-5, 2.0)
+    pump = pump_link(CURVE_Q, CURVE_H)
+    loss = joined(
+        [([0], pump), ([1], pump), ([2], darcy_links(*zip(pipe, strict=True), RHO, MU))], 3
+    )
+    sol = gradient_solve(3, {0: 10.0, 2: 32.0}, [0, 0, 1], [1, 1, 2], loss, [0.0] * 3)
+    # The combined curve of two: Q at H is twice one pump's (Karassik 2008, parallel pumps).
+    Q = scipy_optimize.brentq(
+        lambda q: _pchip(q / 2) - 22.0 - _loss(*pipe, q), 1e-6, 0.1, xtol=1e-14
+    )
+    assert sol.flow[2] == pytest.approx(Q, rel=1e-6)
+    assert sol.flow[0] == pytest.approx(Q / 2, rel=1e-6) and sol.flow[1] == pytest.approx(
+        Q / 2, rel=1e-6
+    )
+
+
+def test_a_pump_against_more_than_its_shutoff_head_passes_no_flow_back():
+    from calcreport.physics.network import joined, pump_link
+
+    pipe = (100.0, 0.15, 4.5e-5, 1.0)
+    loss = joined([([0], pump_link(CURVE_Q, CURVE_H)),
+                   ([1], darcy_links(*zip(pipe, strict=True), RHO, MU))], 2)  # fmt: skip
+    # The far tank stands 40 m above the near one, above the 36 m shutoff: the pump's
+    # check valve holds, and only a closed link's leak (h / 1e8 s/m²) remains.
+    sol = gradient_solve(3, {0: 0.0, 2: 40.0}, [0, 1], [1, 2], loss, [0.0] * 3)
+    assert abs(sol.flow[0]) < 1e-7
