@@ -15,6 +15,7 @@ pump        pump curves, affinity laws, operating point, NPSH margin
 route       pressure along the route: grade lines, maximum pressure
 surge       surge screening: Korteweg wave speed, Joukowsky head rise
 viscous     viscous correction of water pump curves (ANSI/HI 9.6.7)
+valve       control valves for liquids: flow coefficient, choked drop (IEC 60534-2-1)
 network     flows and heads of branched and looped networks (global gradient algorithm);
             a numerical method, not a traced equation: its solution is confirmed by the
             traced loss of every link at the solved flow

@@ -321,6 +321,7 @@ def _import_all() -> None:
         pump,
         route,
         surge,
+        valve,
         viscous,
         water,
     )
