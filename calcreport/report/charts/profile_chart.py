@@ -103,7 +103,9 @@ def _draw_profile(trace: dict[str, Any]) -> tuple[Any, str]:
     for pid, _ in _pipe_items(r):
         if f"{pid} start" in names and f"{pid} end" in names:
             spans.append((pid, names.index(f"{pid} start"), names.index(f"{pid} end")))
-    for _pid, _i0, i1 in spans[:-1]:
+    # The joints between pipes, those of the labelled pipes on a long route (hundreds of
+    # lines would grey the chart over).
+    for _pid, _i0, i1 in _labelled(spans[:-1]):
         ax.axvline(x[i1], color=LIGHT, lw=0.5, ls=(0, (2, 2)), zorder=0)
 
     # Where the EGL jumps: the pump, after the last suction pipe.
