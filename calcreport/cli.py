@@ -112,6 +112,7 @@ def _parser() -> argparse.ArgumentParser:
         metavar="DIR",
         help="folder for the files (default: beside the input)",
     )
+    study.set_defaults(previous=None, listing="attached")  # a build's, with no revision
     from calcreport.recheck import SCOPE as RECHECK_SCOPE
 
     recheck = commands.add_parser(
@@ -236,7 +237,6 @@ def _build(args: argparse.Namespace) -> int:
 
 
 def _study(args: argparse.Namespace) -> int:
-    args.previous, args.listing = None, "attached"
     tell = _progress(sys.stderr)
     try:
         return _build_with(args, tell, study=True)

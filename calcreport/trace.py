@@ -304,34 +304,23 @@ class TraceBuilder:
         if step_id in self._results or step_id in self.given:
             raise ValueError(f"step id {step_id!r} is already a step or an input key")
         eq: Equation = self._by_func[func] if not isinstance(func, str) else lookup(func)
-        if not self.texts:
-            values = {
-                name: tuple(a.value for a in arg) if isinstance(arg, list) else arg.value
-                for name, arg in args.items()
-            }
-            if values.keys() != eq.params.keys():
-                raise TypeError(f"{eq.name} takes {sorted(eq.params)}, given {sorted(values)}")
-            result = Given(float(eq.func(**values)), _unit(eq.unit), step_id)
-            self._results[step_id] = result
-            return result
-        values: dict[str, Any] = {}
-        arguments = []
-        for name, arg in args.items():
-            if isinstance(arg, list):
-                values[name] = tuple(a.value for a in arg)
-                arguments.append(
-                    Argument(
-                        name, values[name], arg[0].unit if arg else "", tuple(a.key for a in arg)
-                    )
-                )
-            else:
-                values[name] = arg.value
-                arguments.append(Argument(name, arg.value, arg.unit, arg.key))
-        if set(values) != set(eq.params):
+        values = {
+            name: tuple(a.value for a in arg) if isinstance(arg, list) else arg.value
+            for name, arg in args.items()
+        }
+        if values.keys() != eq.params.keys():
             raise TypeError(f"{eq.name} takes {sorted(eq.params)}, given {sorted(values)}")
         value = float(eq.func(**values))
         unit = _unit(eq.unit)
-        substituted = substitute(eq, values, value)
+        result = self._results[step_id] = Given(value, unit, step_id)
+        if not self.texts:
+            return result
+        arguments = [
+            Argument(name, values[name], arg[0].unit if arg else "", tuple(a.key for a in arg))
+            if isinstance(arg, list)
+            else Argument(name, arg.value, arg.unit, arg.key)
+            for name, arg in args.items()
+        ]
         inputs: list[str] = []
         for a in arguments:
             for source in a.source if isinstance(a.source, tuple) else (a.source,):
@@ -344,7 +333,7 @@ class TraceBuilder:
                 symbol=eq.symbol,
                 equation=eq.text,
                 latex=eq.latex,
-                substituted=substituted,
+                substituted=substitute(eq, values, value),
                 value=value,
                 unit=unit,
                 inputs=tuple(inputs),
@@ -354,8 +343,7 @@ class TraceBuilder:
                 case=case,
             )
         )
-        self._results[step_id] = Given(value, unit, step_id)
-        return self._results[step_id]
+        return result
 
     def recorded(self, step_id: str) -> Given:
         """The result of the step ``step_id``, recorded earlier, as an argument for a later

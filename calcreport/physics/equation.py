@@ -237,9 +237,8 @@ def fill(template: str, values: dict[str, Any], params: dict[str, str], write: W
         out.append(literal)
         if name is None:
             continue
-        if name in values:
-            unit = params[name]
-            out.append(write(values[name], "" if unit == "-" else unit, spec or ""))
+        if name in values:  # the writer reads "-" as no unit
+            out.append(write(values[name], params[name], spec or ""))
         else:
             out.append(write.constant(name, spec or ""))
     return "".join(out)

@@ -126,9 +126,8 @@ class _Report(
         self, quantity: dict[str, Any] | None, kind: str | None = None, sig: int = 4
     ) -> str:
         """:meth:`q`, linked to the step the value comes from (its ``from``) when one is."""
-        shown = self.q(quantity, kind, sig)
-        source = quantity.get("from") if quantity else None
-        return self.link(source, shown) if source in self.step_keys else text(shown)
+        source = quantity.get("from", "") if quantity else ""
+        return self.link(source, self.q(quantity, kind, sig))
 
     # -- helpers ---------------------------------------------------------------------------
     def p(self, markup: str, st: Any = None) -> Paragraph:

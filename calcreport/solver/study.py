@@ -170,7 +170,6 @@ class _Sized:
     status: str
     failing: tuple[str, ...]
     review: tuple[str, ...]
-    capital: float
     annual_energy_cost: float | None
     life_cycle_cost: float | None
     as_designed: bool
@@ -208,9 +207,8 @@ def _sized(
         if p.id in group.pipes
     )
     return _Sized(
-        main, number, group.pipes, size, trace, status, fails, reviews, capital, energy, lcc,
-        as_designed,
-    )  # fmt: skip
+        main, number, group.pipes, size, trace, status, fails, reviews, energy, lcc, as_designed
+    )
 
 
 def _record_sizes(b: TraceBuilder, model: Model, group: list[_Sized]) -> list[dict[str, Any]]:
@@ -240,7 +238,7 @@ def _record_sizes(b: TraceBuilder, model: Model, group: list[_Sized]) -> list[di
             "review": list(s.review),
             "as_designed": s.as_designed,
             "lowest": s is lowest,
-            "capital_cost": {**quantity(capital.value, currency), "from": capital.key},
+            "capital_cost": _cost(capital, currency),
             "total_dynamic_head": quantity(s.trace.results["total_dynamic_head"]["value"], "m"),
             "velocity": quantity(
                 max(s.trace.results["pipes"][p]["velocity"]["value"] for p in s.pipes), "m/s"
@@ -256,7 +254,7 @@ def _record_sizes(b: TraceBuilder, model: Model, group: list[_Sized]) -> list[di
                 f"{s.size.label} (its own calculation, every state and check solved)",
             )
         if energy is not None and op.discount_rate is not None and op.life_years is not None:
-            row["annual_energy_cost"] = {**quantity(energy.value, currency), "from": energy.key}
+            row["annual_energy_cost"] = _cost(energy, currency)
             lcc = b.step(
                 f"{sid}.life_cycle_cost",
                 f"Life-cycle cost of the pipes {', '.join(s.pipes)} at {s.size.label}",
@@ -271,16 +269,27 @@ def _record_sizes(b: TraceBuilder, model: Model, group: list[_Sized]) -> list[di
                 rate=op.discount_rate,
                 years=op.life_years,
             )
-            row["life_cycle_cost"] = {**quantity(lcc.value, currency), "from": lcc.key}
+            row["life_cycle_cost"] = _cost(lcc, currency)
             # The life-cycle cost less the pipes' own: the energy's share, for the chart.
             row["energy_present_value"] = quantity(lcc.value - capital.value, currency)
-        point = s.trace.results.get("operating_point")
-        if point is not None:
-            row["operating_point"] = {
-                key: quantity(point[key]["value"], point[key]["unit"]) for key in ("flow", "head")
-            }
+        row.update(_point(s.trace))
         rows.append(row)
     return rows
+
+
+def _point(trace: Trace) -> dict[str, Any]:
+    """An alternative's design operating point, as plain quantities: it comes from the
+    alternative's own calculation, whose steps are not in the selected design's trace."""
+    point = trace.results.get("operating_point")
+    if point is None:
+        return {}
+    flow_head = {k: quantity(point[k]["value"], point[k]["unit"]) for k in ("flow", "head")}
+    return {"operating_point": flow_head}
+
+
+def _cost(given: Given, currency: str) -> dict[str, Any]:
+    """A sum of money the study records: its value in the project currency and its source."""
+    return {**quantity(given.value, currency), "from": given.key}
 
 
 def _basis(model: Model) -> dict[str, Any]:
@@ -316,15 +325,9 @@ def _record(
             "review": list(offer.review),
         }
         if c.capital_cost is not None:
-            row["capital_cost"] = {
-                **quantity(c.capital_cost.value, currency),
-                "from": c.capital_cost.key,
-            }
+            row["capital_cost"] = _cost(c.capital_cost, currency)
         if c.annual_maintenance is not None:
-            row["annual_maintenance_cost"] = {
-                **quantity(c.annual_maintenance.value, currency),
-                "from": c.annual_maintenance.key,
-            }
+            row["annual_maintenance_cost"] = _cost(c.annual_maintenance, currency)
         if offer is chosen and "annual_cost" in results.get("energy", {}):
             own = results["energy"]["annual_cost"]  # in the currency; the step takes a number
             energy = Given(own["value"], "", own["from"])
@@ -339,7 +342,7 @@ def _record(
         else:
             energy = None
         if energy is not None:
-            row["annual_energy_cost"] = {**quantity(energy.value, currency), "from": energy.key}
+            row["annual_energy_cost"] = _cost(energy, currency)
         if energy is not None and op.discount_rate is not None and op.life_years is not None:
             upkeep = (
                 b.input(c.annual_maintenance)
@@ -367,28 +370,19 @@ def _record(
                 rate=op.discount_rate,
                 years=op.life_years,
             )
-            row["life_cycle_cost"] = {**quantity(lcc.value, currency), "from": lcc.key}
-        point = offer.trace.results.get("operating_point")
-        if point is not None:  # from the offer's own calculation: its steps are not here
-            row["operating_point"] = {
-                key: quantity(point[key]["value"], point[key]["unit"]) for key in ("flow", "head")
-            }
+            row["life_cycle_cost"] = _cost(lcc, currency)
+        row.update(_point(offer.trace))
         curve = offer.trace.results.get("pump_curve")
         if curve is not None:
             shown = curve.get("combined", curve)
             row["curve"] = {"flow": shown["flow"], "head": shown["head"]}
         rows.append(row)
-    out: dict[str, Any] = {
+    return {
         "candidates": rows,
         "selected": chosen.candidate.id,
         "selected_by": "input" if model.study and model.study.selected else "rank",
         "basis": _basis(model),
     }
-    return out
-
-
-# The design results a sensitivity shows, and where each stands in a solved design's results.
-EFFECTS = ("total_dynamic_head", "operating_flow", "npsh_margin", "shaft_power")
 
 
 def _effect_values(results: dict[str, Any]) -> dict[str, dict[str, Any]]:

@@ -22,6 +22,8 @@ from calcreport.report.charts.base import (
 )
 from calcreport.report.charts.placement import _Placer
 
+_VERDICT = {"pass": "passes", "review": "passes, with reviews", "fail": "fails"}
+
 # Line styles of the offers not selected, in rank order.
 _DASHES = ((0, (5, 2)), (0, (1, 1.5)), (0, (6, 2, 1, 2)), (0, (3, 1, 1, 1, 1, 1)))
 
@@ -50,9 +52,8 @@ def _draw_candidates(trace: dict[str, Any]) -> tuple[Any, str]:
         heads = d(offer["curve"]["head"], "length")
         style = {"color": INK, "lw": 1.5} if chosen else {"color": GREY, "lw": 1.0}
         (drawn,) = ax.plot(flows, heads, ls="-" if chosen else next(dashes), **style)
-        verdict = {"pass": "passes", "review": "passes, with reviews", "fail": "fails"}
         drawn.set_label(
-            f"{offer['id']}{' (selected)' if chosen else ''}: {verdict[offer['status']]}"
+            f"{offer['id']}{' (selected)' if chosen else ''}: {_VERDICT[offer['status']]}"
         )
         handles.append(drawn)
         xmax = max(xmax, float(np.max(flows)))

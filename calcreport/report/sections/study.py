@@ -174,8 +174,6 @@ class StudySection:
                 for m, on in (("lowest", row["lowest"]), ("as designed", row["as_designed"]))
                 if on
             ]
-            ids = [f"<b>{text(c)}</b>" for c in row["failing"]] + [text(c) for c in row["review"]]
-            lcc = row.get("life_cycle_cost")
             rows.append(
                 [
                     f"<b>{text(row['size'])}</b>" + (f" ({', '.join(marks)})" if marks else ""),
@@ -183,10 +181,10 @@ class StudySection:
                     self.q(row["velocity"], "velocity"),
                     self.q(row["total_dynamic_head"], "length"),
                     row["status"].upper(),
-                    ", ".join(ids) or "—",
-                    self.link(row["capital_cost"]["from"], self._money(row["capital_cost"])),
+                    self._checks(row),
+                    self._linked(row["capital_cost"]),
                     self._money(row.get("annual_energy_cost")),
-                    self.link(lcc["from"], self._money(lcc)) if lcc else "—",
+                    self._linked(row.get("life_cycle_cost")),
                 ]
             )
         w = self.width
@@ -230,6 +228,16 @@ class StudySection:
             return "—"
         return f"{q['value']:,.0f} {text(q['unit'])}".strip()
 
+    def _linked(self, q: dict[str, Any] | None) -> str:
+        """A sum of money linked to the step it comes from (its life-cycle cost step)."""
+        return self.link(q["from"], self._money(q)) if q else "—"
+
+    @staticmethod
+    def _checks(row: dict[str, Any]) -> str:
+        """An alternative's failing check ids (bold), then those for review."""
+        ids = [f"<b>{text(c)}</b>" for c in row["failing"]] + [text(c) for c in row["review"]]
+        return ", ".join(ids) or "—"
+
     def offers_table(self, offers: list[dict[str, Any]]) -> Any:
         rows: list[list[Any]] = [
             [
@@ -251,19 +259,16 @@ class StudySection:
                 if point
                 else "none"
             )
-            lcc = o.get("life_cycle_cost")
-            ids = [f"<b>{text(c)}</b>" for c in o["failing"]] + [text(c) for c in o["review"]]
-            checks = ", ".join(ids)
             rows.append(
                 [
                     str(o["rank"]),
                     f"<b>{text(o['id'])}</b> {text(o['title'])}",
                     o["status"].upper(),
-                    checks or "—",
+                    self._checks(o),
                     self._money(o.get("capital_cost")),
                     self._money(o.get("annual_energy_cost")),
                     self._money(o.get("annual_maintenance_cost")),
-                    self.link(lcc["from"], self._money(lcc)) if lcc else "—",
+                    self._linked(o.get("life_cycle_cost")),
                     at,
                 ]
             )
