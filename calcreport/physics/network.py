@@ -17,8 +17,6 @@ References
 1. Todini, E., and Pilati, S., "A gradient algorithm for the analysis of pipe networks",
    in Coulbeck, B., and Orr, C.-H. (eds.), Computer Applications in Water Supply, Vol. 1,
    Research Studies Press, Letchworth, 1988, pp. 1-20.
-2. Rossman, L. A., EPANET 2 Users Manual, EPA/600/R-00/057, U.S. Environmental
-   Protection Agency, 2000, Appendix D (the gradient method as EPANET applies it).
 """
 
 from __future__ import annotations
@@ -115,7 +113,6 @@ def gradient_solve(
     References
     ----------
     1. Todini, E., and Pilati, S., 1988 (the gradient method).
-    2. Rossman, L. A., EPANET 2 Users Manual, EPA/600/R-00/057, 2000, Appendix D.
     """
     from scipy.sparse import csr_matrix
     from scipy.sparse.linalg import spsolve
@@ -201,7 +198,8 @@ def darcy_links(
         \frac{dh}{dQ} \approx \frac{2h}{Q}
 
     f from Colebrook–White (turbulent) or 64/Re (laminar), at the flow; the slope holds f
-    constant, as the gradient method commonly does (Rossman 2000, Appendix D).
+    constant (the Newton step stays a descent direction and converges; f is updated each
+    iteration).
 
     Parameters
     ----------
@@ -250,8 +248,8 @@ def darcy_links(
 
 
 # The loss of a closed link (a pump's or a check valve's reverse flow): a resistance so high
-# that no head difference of a real network drives a measurable flow through it (EPANET
-# treats a closed link so; Rossman 2000, Appendix D).
+# that no head difference of a real network drives a measurable flow through it, which
+# keeps the head system of the gradient method regular where a link is shut.
 CLOSED_RESISTANCE = 1e8  # s/m^2, h = CLOSED_RESISTANCE·Q
 
 
@@ -285,8 +283,7 @@ def pump_link(
     References
     ----------
     1. Karassik, I. J., et al., Pump Handbook, 4th ed., McGraw-Hill, 2008 (affinity laws).
-    2. Rossman, L. A., EPANET 2 Users Manual, EPA/600/R-00/057, 2000, Appendix D (pumps
-       and closed links in the gradient method).
+    2. Todini, E., and Pilati, S., 1988 (pumps as links of the gradient method).
     """
     from calcreport.physics.pump.curve import monotone_cubic
 
